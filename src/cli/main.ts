@@ -1,0 +1,195 @@
+// The `veer` command: the core's checker and renderer for terminals and CI.
+import { readFileSync, statSync, writeFileSync } from 'node:fs';
+import { parseArgs } from 'node:util';
+import { checkPlan, renderSvg, ExpressionCache, MAX_PLAN_CHARS, type CheckResult } from '../core';
+import { diagnosticLine, runSummaryLine, toJsonDocument } from '../core/report';
+import { version } from '../../package.json';
+
+const HELP = `veer ${version}: check and draw plans for two-wheeled robot runs
+
+Usage:
+  veer check [--json] [--strict] FILE...   check plans; one line per problem, a summary per run
+  veer render FILE -o OUT.svg [--run NAME] draw the field, the path and the problems as SVG
+  veer --help | --version
+
+Options:
+  --json       print a JSON document (one file: an object; several: an array)
+  --strict     count warnings as errors
+  -o, --output where \`render\` writes the SVG
+  --run NAME   draw only this run (name or 1-based number)
+
+Exit status: 0 no errors (warnings allowed), 1 errors found, 2 usage error or unreadable file.
+Lengths are in millimetres, angles in degrees, times in seconds.
+Safety: test every run at low speed first, keep hands and people clear of a moving robot, and follow your
+venue's rules.
+`;
+
+class UsageError extends Error {}
+
+export interface CliIo {
+  out: (s: string) => void;
+  err: (s: string) => void;
+  /** Whether stderr is a terminal (progress is shown only then). */
+  isTTY: boolean;
+}
+
+/** Runs the command; returns the exit status. Never throws for bad input. */
+export function runCli(argv: string[], io: CliIo): number {
+  try {
+    return dispatch(argv, io);
+  } catch (e) {
+    if (e instanceof UsageError) {
+      io.err(`veer: ${e.message}\nRun \`veer --help\` for usage.\n`);
+      return 2;
+    }
+    if (e instanceof FileError) {
+      io.err(`veer: ${e.message}\n`);
+      return 2;
+    }
+    throw e;
+  }
+}
+
+function dispatch(argv: string[], io: CliIo): number {
+  let parsed;
+  try {
+    parsed = parseArgs({
+      args: argv,
+      allowPositionals: true,
+      options: {
+        help: { type: 'boolean', short: 'h' },
+        version: { type: 'boolean', short: 'v' },
+        json: { type: 'boolean' },
+        strict: { type: 'boolean' },
+        output: { type: 'string', short: 'o' },
+        run: { type: 'string' },
+      },
+    });
+  } catch (e) {
+    throw new UsageError((e as Error).message.replace(/\. To specify.*$/s, ''));
+  }
+  const { values, positionals } = parsed;
+  if (values.help) {
+    io.out(HELP);
+    return 0;
+  }
+  if (values.version) {
+    io.out(`${version}\n`);
+    return 0;
+  }
+  const [command, ...files] = positionals;
+  if (!command) throw new UsageError('no command given: use `veer check FILE` or `veer render FILE -o OUT.svg`');
+  if (command === 'check') {
+    if (values.output !== undefined || values.run !== undefined) throw new UsageError('`-o` and `--run` belong to `veer render`');
+    if (files.length === 0) throw new UsageError('`veer check` needs at least one plan file');
+    return check(files, { json: !!values.json, strict: !!values.strict }, io);
+  }
+  if (command === 'render') {
+    if (values.json) throw new UsageError('`--json` belongs to `veer check`');
+    if (files.length !== 1) throw new UsageError('`veer render` takes exactly one plan file');
+    if (!values.output) throw new UsageError('`veer render` needs `-o OUT.svg`');
+    return render(files[0], values.output, values.run, !!values.strict, io);
+  }
+  throw new UsageError(`unknown command \`${command}\`: use \`check\` or \`render\``);
+}
+
+class FileError extends Error {}
+
+function readPlan(file: string): string {
+  let stat;
+  try {
+    stat = statSync(file);
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    throw new FileError(code === 'ENOENT' ? `${file}: no such file` : `${file}: cannot read (${code ?? (e as Error).message})`);
+  }
+  if (stat.isDirectory()) throw new FileError(`${file}: is a directory, not a plan file`);
+  if (stat.size > MAX_PLAN_CHARS * 4) throw new FileError(`${file}: too large to be a plan (${(stat.size / 1e6).toFixed(1)} MB; the limit is ${(MAX_PLAN_CHARS / 1e6).toFixed(0)} million characters)`);
+  let bytes: Buffer;
+  try {
+    bytes = readFileSync(file);
+  } catch (e) {
+    throw new FileError(`${file}: cannot read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
+  }
+  let text: string;
+  try {
+    text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
+  } catch {
+    throw new FileError(`${file}: is not UTF-8 text; save the plan as UTF-8`);
+  }
+  if (text.length > MAX_PLAN_CHARS) throw new FileError(`${file}: too large to be a plan (${(text.length / 1e6).toFixed(1)} million characters; the limit is ${(MAX_PLAN_CHARS / 1e6).toFixed(0)} million)`);
+  return text;
+}
+
+function progressReporter(io: CliIo, label: string): ((fraction: number) => void) | undefined {
+  if (!io.isTTY) return undefined;
+  let last = -1;
+  return (fraction: number) => {
+    const pct = Math.floor(fraction * 100);
+    if (pct === last) return;
+    last = pct;
+    io.err(`\r${label} ${pct}%${pct >= 100 ? '\r\x1b[K' : ''}`);
+  };
+}
+
+function checkOne(file: string, cache: ExpressionCache, io: CliIo): CheckResult {
+  const text = readPlan(file);
+  const onProgress = text.length > 200_000 ? progressReporter(io, `checking ${file}`) : undefined;
+  return checkPlan(text, { fileName: file, cache, onProgress });
+}
+
+function failed(result: CheckResult, strict: boolean): boolean {
+  return result.diagnostics.some((d) => d.severity === 'error' || (strict && d.severity === 'warning'));
+}
+
+function check(files: string[], opts: { json: boolean; strict: boolean }, io: CliIo): number {
+  // Read every file first, so an unreadable one stops the command before any output.
+  const cache = new ExpressionCache();
+  const results: Array<{ file: string; result: CheckResult }> = [];
+  for (const file of files) results.push({ file, result: checkOne(file, cache, io) });
+  let status = 0;
+  if (opts.json) {
+    const docs = results.map(({ file, result }) => toJsonDocument(file, result));
+    io.out(JSON.stringify(docs.length === 1 ? docs[0] : docs, null, 2) + '\n');
+  }
+  for (const { file, result } of results) {
+    if (failed(result, opts.strict)) status = 1;
+    if (opts.json) continue;
+    for (const d of result.diagnostics) io.out(diagnosticLine(file, d) + '\n');
+    for (const r of result.runs) io.out(`${file}: ${runSummaryLine(r)}\n`);
+  }
+  return status;
+}
+
+function render(file: string, output: string, run: string | undefined, strict: boolean, io: CliIo): number {
+  const result = checkOne(file, new ExpressionCache(), io);
+  let runSel: number | string | undefined = run;
+  if (run !== undefined) {
+    const byName = result.runs.findIndex((r) => r.name === run);
+    const byNumber = /^\d+$/.test(run) ? Number(run) - 1 : -1;
+    if (byName >= 0) runSel = byName;
+    else if (byNumber >= 0 && byNumber < result.runs.length) runSel = byNumber;
+    else {
+      const names = result.runs.map((r) => `"${r.name}"`).join(', ') || 'none';
+      throw new UsageError(`${file} has no run "${run}" (runs: ${names})`);
+    }
+  }
+  const svg = renderSvg(result, { run: runSel, standalone: true });
+  try {
+    writeFileSync(output, svg);
+  } catch (e) {
+    throw new FileError(`${output}: cannot write (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
+  }
+  for (const d of result.diagnostics) io.err(diagnosticLine(file, d) + '\n');
+  io.err(`wrote ${output}\n`);
+  return failed(result, strict) ? 1 : 0;
+}
+
+/** Entry point used by bin/veer.js. */
+export function main(): void {
+  process.exitCode = runCli(process.argv.slice(2), {
+    out: (s) => process.stdout.write(s),
+    err: (s) => process.stderr.write(s),
+    isTTY: !!process.stderr.isTTY,
+  });
+}

@@ -1,0 +1,386 @@
+// checkPlan: text in, solved runs and diagnostics out.
+//
+// One pass in file order evaluates every expression (so `let` names are bound
+// before use) and collects the setup; setup values then apply to the whole
+// file wherever they stand. A second pass solves each run.
+import type {
+  CheckResult, Diagnostic, DiagnosticCode, Dimension, EvaluatedExpr, ExprNode, LengthUnitName, MotionStmt, NameInfo,
+  Obstacle, PlanSetup, Point, PointNode, Range, RelatedInfo, Robot, Severity, Statement, TurnDirection, Zone,
+} from './types';
+import { parsePlan } from './syntax/parser';
+import { RESERVED_WORDS, suggestWord } from './syntax/keywords';
+import {
+  ExpressionCache, displayValue, evaluateExpr, isMathName, type EvalContext, type Expected,
+} from './units/evaluate';
+import { solveRuns, type EvaluatedMotion, type RunInput } from './solve/runs';
+
+export interface CheckOptions {
+  /** Used for the default plan title. */
+  fileName?: string;
+  /** Compiled expressions kept across checks (one per document in the editor). */
+  cache?: ExpressionCache;
+  /** Called now and then with the fraction done, for progress on long files. */
+  onProgress?: (fraction: number) => void;
+}
+
+/** Plans longer than this are refused with one diagnostic rather than checked. */
+export const MAX_PLAN_CHARS = 12_000_000;
+
+const defaultCache = new ExpressionCache();
+
+export const DEFAULTS = {
+  yawRange: { lo: -180, hi: 180 },
+  gear: 1,
+  motorSpeed: 900,
+  motorLag: 0.08,
+  noise: { drive: 0.01, turn: 0.015, gyro: 1, drift: 0.5 / 60 },
+  grid: 100,
+} as const;
+
+export function checkPlan(text: string, options: CheckOptions = {}): CheckResult {
+  const cache = options.cache ?? defaultCache;
+  if (text.length > MAX_PLAN_CHARS) return refuseTooLarge(text);
+  const { ast, diagnostics: parseDiagnostics } = parsePlan(text);
+  options.onProgress?.(0.3);
+  const diagnostics: Diagnostic[] = [...parseDiagnostics];
+  const report = (range: Range, severity: Severity, code: DiagnosticCode, message: string, related?: RelatedInfo[]) => {
+    const d: Diagnostic = { range, severity, code, message };
+    if (related?.length) d.related = related;
+    diagnostics.push(d);
+    return d;
+  };
+
+  const statements = ast.statements;
+  const first = <K extends Statement['kind']>(kind: K) =>
+    statements.find((s) => s.kind === kind) as Extract<Statement, { kind: K }> | undefined;
+  const lengthUnit: LengthUnitName = first('units')?.unit.value ?? 'mm';
+  const turns: TurnDirection = first('turns')?.direction.value ?? 'clockwise';
+
+  const baseName = options.fileName ? options.fileName.replace(/^.*[\\/]/, '').replace(/\.veer$/i, '') : 'plan';
+  const setup: PlanSetup = {
+    title: first('plan')?.title.value ?? baseName,
+    lengthUnit,
+    turns,
+    yawRange: { ...DEFAULTS.yawRange },
+    robot: { gear: DEFAULTS.gear, motorSpeed: DEFAULTS.motorSpeed, motorLag: DEFAULTS.motorLag },
+    noise: { ...DEFAULTS.noise },
+    obstacles: [],
+    zones: [],
+  };
+
+  const ctx: EvalContext = { lengthUnit, scope: new Map() };
+  const values: EvaluatedExpr[] = [];
+  const names: Record<string, NameInfo> = {};
+  const evFull = (expr: ExprNode | undefined, expected: Expected): { value: number; dimension: Dimension } | undefined => {
+    if (!expr) return undefined;
+    const out = evaluateExpr(cache, expr.text, expected, ctx);
+    if (out.ok) {
+      values.push({ range: expr.range, value: out.value, dimension: out.dimension, display: displayValue(out.value, out.dimension, lengthUnit) });
+      return out;
+    }
+    const d = report(narrowTo(expr, out.name), 'error', out.code, out.message);
+    if (out.code === 'name' && out.name) {
+      const guess = suggestWord(out.name, Object.keys(names));
+      if (guess) {
+        d.message += `: did you mean \`${guess}\`?`;
+        d.fixes = [{ title: `Change to \`${guess}\``, edits: [{ range: d.range, newText: guess }], preferred: true }];
+      } else {
+        d.message += `; bind it first with \`let ${out.name} = ...\``;
+      }
+    }
+    return undefined;
+  };
+  const ev = (expr: ExprNode | undefined, expected: Expected) => evFull(expr, expected)?.value;
+  const evPoint = (p: PointNode | undefined): Point | undefined => {
+    if (!p) return undefined;
+    const x = ev(p.x, 'length');
+    const y = ev(p.y, 'length');
+    return x === undefined || y === undefined ? undefined : { x, y };
+  };
+
+  // Setup values set twice: the second is an error pointing at the first.
+  const seen = new Map<string, Statement>();
+  const once = (key: string, s: Statement, what: string): boolean => {
+    const prev = seen.get(key);
+    if (prev) {
+      report(s.range, 'error', 'setup', `${what} is already set on line ${prev.line + 1}; a plan sets it once. Remove one of the two lines.`,
+        [{ range: prev.range, message: `${what} first set here` }]);
+      return false;
+    }
+    seen.set(key, s);
+    return true;
+  };
+  const namedThings = new Map<string, Statement>();
+  const uniqueName = (name: string, s: Statement & { name: { range: Range } }): boolean => {
+    const prev = namedThings.get(name);
+    if (prev) {
+      report(s.name.range, 'error', 'name', `"${name}" is already the name of something on line ${prev.line + 1}; give each obstacle and zone its own name.`,
+        [{ range: prev.range, message: `"${name}" first named here` }]);
+      return false;
+    }
+    namedThings.set(name, s);
+    return true;
+  };
+
+  const robot = setup.robot as Partial<Robot>;
+  const setupLines: Partial<Record<keyof Robot | 'field' | 'limit', number>> = {};
+  const runs: RunInput[] = [];
+  let current: RunInput | undefined;
+
+  const progressEvery = options.onProgress ? Math.max(1000, Math.floor(statements.length / 20)) : Infinity;
+  for (let i = 0; i < statements.length; i++) {
+    const s = statements[i];
+    if (i % progressEvery === 0 && i > 0) options.onProgress!(0.3 + (0.4 * i) / statements.length);
+    switch (s.kind) {
+      case 'plan': once('plan', s, 'The plan title'); break;
+      case 'units': once('units', s, 'The length unit'); break;
+      case 'turns': once('turns', s, 'The turn direction'); break;
+      case 'yawRange': {
+        if (!once('yawRange', s, 'The yaw range')) break;
+        const lo = ev(s.lo, 'angle');
+        const hi = ev(s.hi, 'angle');
+        if (lo === undefined || hi === undefined) break;
+        if (Math.abs(hi - lo - 360) > 1e-9) {
+          report(s.range, 'error', 'setup', `the yaw range must be 360° wide (it is ${fmtNum(hi - lo)}°): a yaw sensor reads one full turn, e.g. \`yaw range -180 to 180\` or \`yaw range 0 to 360\`.`);
+        } else setup.yawRange = { lo, hi };
+        break;
+      }
+      case 'wheel': {
+        if (!once('wheel', s, 'The wheel diameter')) break;
+        const d = ev(s.diameter, 'length');
+        if (d !== undefined && positive(d, s.diameter, 'the wheel diameter', 'wheel 56 mm')) robot.wheelDiameter = d;
+        setupLines.wheelDiameter = s.line;
+        break;
+      }
+      case 'track': {
+        if (!once('track', s, 'The track width')) break;
+        const w = ev(s.width, 'length');
+        const we = ev(s.effective, 'length');
+        if (w !== undefined && positive(w, s.width, 'the track width', 'track 120 mm')) robot.track = w;
+        if (we !== undefined && s.effective && positive(we, s.effective, 'the effective track', 'track 120 mm effective 122 mm')) robot.effectiveTrack = we;
+        setupLines.track = s.line;
+        break;
+      }
+      case 'gear': {
+        if (!once('gear', s, 'The gear ratio')) break;
+        const g = ev(s.ratio, 'number');
+        if (g !== undefined && positive(g, s.ratio, 'the gear ratio', 'gear 1')) robot.gear = g;
+        break;
+      }
+      case 'motor': {
+        if (!once('motor', s, 'The motor')) break;
+        const sp = ev(s.speed, 'angularSpeed');
+        const lag = ev(s.lag, 'time');
+        if (sp !== undefined && positive(sp, s.speed, 'the motor speed', 'motor 900 deg/s')) robot.motorSpeed = sp;
+        if (lag !== undefined && s.lag) {
+          if (lag < 0) report(s.lag.range, 'error', 'setup', 'the motor lag cannot be negative; it is the time the motor takes to reach about 63 % of a new speed, e.g. `lag 80 ms`.');
+          else robot.motorLag = lag;
+        }
+        break;
+      }
+      case 'body': {
+        if (!once('body', s, 'The body size')) break;
+        const w = ev(s.width, 'length');
+        const l = ev(s.length, 'length');
+        const a = s.axle ? ev(s.axle, 'length') : 0;
+        if (w !== undefined && l !== undefined && a !== undefined &&
+          positive(w, s.width, 'the body width', 'body 150 by 190') && positive(l, s.length, 'the body length', 'body 150 by 190')) {
+          if (Math.abs(a) > l / 2) report(s.axle?.range ?? s.range, 'error', 'setup', `the axle (${fmtNum(a)} mm from the body's centre) lies outside the ${fmtNum(l)} mm long body; \`axle\` is how far the axle sits ahead of the footprint's centre (negative: behind).`);
+          else robot.body = { width: w, length: l, axle: a };
+        }
+        break;
+      }
+      case 'field': {
+        if (!once('field', s, 'The field size')) break;
+        const w = ev(s.width, 'length');
+        const h = ev(s.height, 'length');
+        const g = s.grid ? ev(s.grid, 'length') : DEFAULTS.grid;
+        if (w !== undefined && h !== undefined && g !== undefined &&
+          positive(w, s.width, 'the field width', 'field 2000 by 1200') && positive(h, s.height, 'the field height', 'field 2000 by 1200') &&
+          (!s.grid || positive(g, s.grid, 'the grid spacing', 'grid 100'))) {
+          setup.field = { width: w, height: h, grid: g };
+        }
+        break;
+      }
+      case 'box':
+      case 'zone': {
+        const a = evPoint(s.a);
+        const b = evPoint(s.b);
+        if (!uniqueName(s.name.value, s) || !a || !b) break;
+        const min = { x: Math.min(a.x, b.x), y: Math.min(a.y, b.y) };
+        const max = { x: Math.max(a.x, b.x), y: Math.max(a.y, b.y) };
+        if (min.x === max.x || min.y === max.y) {
+          report(s.range, 'error', 'setup', `"${s.name.value}" has no area: its two corners share an x or a y. Give two opposite corners, e.g. \`(900, 500) to (1100, 800)\`.`);
+          break;
+        }
+        if (s.kind === 'box') setup.obstacles.push({ kind: 'box', name: s.name.value, line: s.line, min, max });
+        else setup.zones.push({ name: s.name.value, line: s.line, min, max } satisfies Zone);
+        break;
+      }
+      case 'circle': {
+        const c = evPoint(s.center);
+        const r = ev(s.radius, 'length');
+        if (!uniqueName(s.name.value, s) || !c || r === undefined) break;
+        if (positive(r, s.radius, 'the radius', 'radius 60')) setup.obstacles.push({ kind: 'circle', name: s.name.value, line: s.line, center: c, radius: r } satisfies Obstacle);
+        break;
+      }
+      case 'noise': {
+        if (!once('noise', s, 'The error model')) break;
+        const drive = ev(s.drive, 'fraction');
+        const turn = ev(s.turn, 'fraction');
+        const gyro = ev(s.gyro, 'angle');
+        const drift = ev(s.drift, 'angularSpeed');
+        for (const [v, e, what] of [[drive, s.drive, 'drive'], [turn, s.turn, 'turn'], [gyro, s.gyro, 'gyro'], [drift, s.drift, 'drift']] as const) {
+          if (v !== undefined && e && v < 0) report(e.range, 'error', 'setup', `the ${what} noise cannot be negative.`);
+        }
+        if (drive !== undefined && drive >= 0) setup.noise.drive = drive;
+        if (turn !== undefined && turn >= 0) setup.noise.turn = turn;
+        if (gyro !== undefined && gyro >= 0) setup.noise.gyro = gyro;
+        if (drift !== undefined && drift >= 0) setup.noise.drift = drift;
+        break;
+      }
+      case 'limit': {
+        if (!once('limit', s, 'The time limit')) break;
+        const t = ev(s.time, 'time');
+        if (t !== undefined && positive(t, s.time, 'the time limit', 'limit 150 s')) setup.limit = t;
+        break;
+      }
+      case 'let': {
+        let bindable = true;
+        if (RESERVED_WORDS.has(s.name)) {
+          report(s.nameRange, 'error', 'name', `\`${s.name}\` is a word of the plan language and cannot be a name; choose another, e.g. \`${s.name}_len\`.`);
+          bindable = false;
+        } else if (isMathName(s.name)) {
+          report(s.nameRange, 'error', 'name', `\`${s.name}\` is already a unit or function in expressions and cannot be rebound; choose another name.`);
+          bindable = false;
+        } else if (names[s.name]) {
+          const prev = names[s.name];
+          report(s.nameRange, 'error', 'name', `\`${s.name}\` is already bound on line ${prev.line + 1}; a name is bound once. Use a new name.`,
+            [{ range: prev.range, message: `\`${s.name}\` first bound here` }]);
+          bindable = false;
+        }
+        // Evaluate as whatever it is (any dimension), then bind the raw value.
+        const raw = anyValue(s.value, ev, cache, ctx);
+        if (bindable) {
+          names[s.name] = { line: s.line, range: s.nameRange, ...raw.info, display: raw.info?.display ?? '?' };
+          if (raw.value !== undefined) ctx.scope.set(s.name, raw.value);
+        }
+        break;
+      }
+      case 'run': {
+        current = { name: s.name.value, line: s.line, range: s.name.range, motions: [] };
+        runs.push(current);
+        break;
+      }
+      default: {
+        if (!current) {
+          current = { name: setup.title, line: s.line, range: s.range, motions: [], implicit: true };
+          runs.push(current);
+        }
+        current.motions.push(evaluateMotion(s, ev, evFull, evPoint));
+      }
+    }
+  }
+
+  function positive(v: number, e: ExprNode, what: string, example: string): boolean {
+    if (v > 0) return true;
+    report(e.range, 'error', 'setup', `${what} must be greater than zero (it is ${fmtNum(v)}), e.g. \`${example}\`.`);
+    return false;
+  }
+
+  if (robot.track !== undefined && robot.effectiveTrack === undefined) robot.effectiveTrack = robot.track;
+
+  const solved = solveRuns(runs, setup, diagnostics, names);
+  options.onProgress?.(1);
+
+  diagnostics.sort(compareDiagnostics);
+  return { ast, setup, runs: solved, diagnostics, names, values };
+}
+
+function refuseTooLarge(text: string): CheckResult {
+  const message = `this file has ${(text.length / 1e6).toFixed(1)} million characters, more than the ${MAX_PLAN_CHARS / 1e6} million a plan may have; it was not checked. Split it into several plans.`;
+  const range = { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } };
+  return {
+    ast: { statements: [], lineCount: 0 },
+    setup: {
+      title: 'plan', lengthUnit: 'mm', turns: 'clockwise', yawRange: { ...DEFAULTS.yawRange }, robot: {},
+      noise: { ...DEFAULTS.noise }, obstacles: [], zones: [],
+    },
+    runs: [],
+    diagnostics: [{ range, severity: 'error', code: 'syntax', message }],
+    names: {},
+    values: [],
+  };
+}
+
+function anyValue(
+  expr: ExprNode | undefined, ev: (e: ExprNode | undefined, x: Expected) => number | undefined,
+  cache: ExpressionCache, ctx: EvalContext,
+): { value?: number | import('mathjs').Unit; info?: Omit<NameInfo, 'line' | 'range'> } {
+  if (!expr) return {};
+  // A name may hold any of the plan's kinds of value: the first that fits names it.
+  const kinds: Expected[] = ['number', 'length', 'angle', 'time', 'power|speed', 'angularSpeed', 'acceleration'];
+  for (const k of kinds) {
+    const out = evaluateExpr(cache, expr.text, k, ctx);
+    if (out.ok || out.code !== 'unit') {
+      ev(expr, k); // records the value for hovers, or reports the problem
+      if (!out.ok) return {};
+      return { value: out.raw, info: { value: out.value, dimension: out.dimension, display: displayValue(out.value, out.dimension, ctx.lengthUnit) } };
+    }
+  }
+  ev(expr, 'number');
+  return {};
+}
+
+function evaluateMotion(
+  s: MotionStmt,
+  ev: (e: ExprNode | undefined, x: Expected) => number | undefined,
+  evFull: (e: ExprNode | undefined, x: Expected) => { value: number; dimension: Dimension } | undefined,
+  evPoint: (p: PointNode | undefined) => Point | undefined,
+): EvaluatedMotion {
+  switch (s.kind) {
+    case 'start':
+      return { stmt: s, at: evPoint(s.at), heading: ev(s.heading, 'angle') };
+    case 'drive': {
+      const speed = evFull(s.speed, 'power|speed');
+      return {
+        stmt: s, distance: ev(s.distance, 'length'), speed: speed?.value,
+        speedIsLinear: speed?.dimension === 'speed',
+        hold: ev(s.hold, 'angle'), gain: ev(s.gain, 'gain'), ramp: ev(s.ramp, 'acceleration'),
+      };
+    }
+    case 'turn':
+      return {
+        stmt: s, angle: ev(s.angle, 'angle'), to: ev(s.to, 'angle'),
+        radius: s.shape.kind === 'arc' ? ev(s.shape.radius, 'length') : undefined,
+        ratio: s.shape.kind === 'ratio' ? ev(s.shape.ratio, 'fraction') : undefined,
+        speed: ev(s.speed, 'fraction'), min: ev(s.min, 'fraction'), gain: ev(s.gain, 'gain'), stop: ev(s.stop, 'angle'),
+      };
+    case 'square':
+      return { stmt: s, speed: ev(s.speed, 'fraction') };
+    case 'wait':
+      return { stmt: s, time: ev(s.time, 'time') };
+    case 'mark':
+      return { stmt: s, at: evPoint(s.at), heading: ev(s.heading, 'angle'), within: ev(s.within, 'length') };
+    case 'resetYaw':
+      return { stmt: s };
+  }
+}
+
+/** Narrows a diagnostic to the unknown name inside an expression, when there is one. */
+function narrowTo(expr: ExprNode, name: string | undefined): Range {
+  if (!name || expr.range.start.line !== expr.range.end.line) return expr.range;
+  const m = new RegExp(`(^|[^A-Za-z0-9_])(${name.replace(/[$]/g, '\\$')})(?![A-Za-z0-9_])`).exec(expr.text);
+  if (!m) return expr.range;
+  const col = expr.range.start.character + m.index + m[1].length;
+  return { start: { line: expr.range.start.line, character: col }, end: { line: expr.range.start.line, character: col + name.length } };
+}
+
+export function compareDiagnostics(a: Diagnostic, b: Diagnostic): number {
+  return a.range.start.line - b.range.start.line || a.range.start.character - b.range.start.character;
+}
+
+export function fmtNum(v: number): string {
+  const r = Number(v.toFixed(1));
+  return String(Object.is(r, -0) ? 0 : r);
+}

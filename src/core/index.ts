@@ -1,0 +1,8 @@
+// The public surface of the Veer core. Pure: text in, plain data out.
+export * from './types';
+export { parsePlan } from './syntax/parser';
+export { checkPlan, MAX_PLAN_CHARS, type CheckOptions } from './check';
+export * from './report';
+export { renderSvg, type RenderOptions } from './render/svg';
+export { ExpressionCache } from './units/evaluate';
+export { fewestResets, segmentAtLine } from './fixes';

@@ -1,0 +1,39 @@
+// Turns canonical quantities (mm, degrees, seconds) into the short strings the
+// editor shows, in the plan file's own length unit so hovers read like the plan.
+import type { LengthUnitName, WheelPair } from '../types';
+import { normaliseHeading } from '../solve/frame';
+import { LENGTH_UNIT_MM } from '../units/evaluate';
+
+/** Up to `digits` decimals, without trailing zeros, and never "-0". */
+export function formatNumber(value: number, digits = 1): string {
+  if (!Number.isFinite(value)) return String(value);
+  const text = value.toFixed(digits).replace(/\.?0+$/, '');
+  return text === '-0' ? '0' : text;
+}
+
+/** Metres and inches need more decimals than millimetres to say the same thing. */
+const LENGTH_DIGITS: Record<LengthUnitName, number> = { mm: 1, cm: 2, m: 4, in: 3 };
+
+export function formatLength(mm: number, unit: LengthUnitName): string {
+  return `${formatNumber(mm / LENGTH_UNIT_MM[unit], LENGTH_DIGITS[unit])} ${unit}`;
+}
+
+export function formatAngle(deg: number): string {
+  return `${formatNumber(deg, 1)}°`;
+}
+
+export function formatTime(seconds: number): string {
+  return `${formatNumber(seconds, 2)} s`;
+}
+
+/**
+ * Field headings are shown in [0, 360), as the command line's JSON does.
+ * Rounded before wrapping, so -0.01 shows as 0°, never as 360°.
+ */
+export function formatHeading(deg: number): string {
+  return formatAngle(normaliseHeading(Number(deg.toFixed(1))));
+}
+
+export function formatWheels(pair: WheelPair): string {
+  return `L ${formatAngle(pair.left)}, R ${formatAngle(pair.right)}`;
+}

@@ -1,0 +1,93 @@
+// Hover text for a plan: a `let` name's value, an expression's value in the
+// file's units, or everything computed for a motion line.
+import type { CheckResult, LengthUnitName, MotionStmt, Pos, Range, Segment, Statement } from '../types';
+import { formatAngle, formatHeading, formatLength, formatTime, formatWheels } from './format';
+import { identifierAt, rangeContains, rangeSize, splitLines } from './text';
+
+export interface HoverInfo {
+  /** Markdown. */
+  markdown: string;
+  range: Range;
+}
+
+const MOTION_KINDS = new Set<Statement['kind']>(['start', 'drive', 'turn', 'resetYaw', 'square', 'wait', 'mark']);
+
+export function hoverAt(result: CheckResult, text: string, pos: Pos): HoverInfo | undefined {
+  return nameHover(result, text, pos) ?? valueHover(result, pos) ?? motionHover(result, pos);
+}
+
+function nameHover(result: CheckResult, text: string, pos: Pos): HoverInfo | undefined {
+  const lineText = splitLines(text)[pos.line];
+  if (lineText === undefined) return undefined;
+  const word = identifierAt(lineText, pos);
+  if (!word || !Object.prototype.hasOwnProperty.call(result.names, word.word)) return undefined;
+  const info = result.names[word.word];
+  return {
+    markdown: `\`${word.word}\` = **${info.display}**` + `\n\n(bound on line ${info.line + 1})`,
+    range: word.range,
+  };
+}
+
+function valueHover(result: CheckResult, pos: Pos): HoverInfo | undefined {
+  // Innermost first: a point's coordinate wins over anything enclosing it.
+  const hit = result.values
+    .filter((v) => rangeContains(v.range, pos))
+    .sort((a, b) => rangeSize(a.range) - rangeSize(b.range))[0];
+  if (!hit) return undefined;
+  return { markdown: `**${hit.display}** (${hit.dimension})`, range: hit.range };
+}
+
+function motionHover(result: CheckResult, pos: Pos): HoverInfo | undefined {
+  const statement = result.ast.statements.find(
+    (s): s is MotionStmt => s.line === pos.line && MOTION_KINDS.has(s.kind) && rangeContains(s.range, pos),
+  );
+  if (!statement) return undefined;
+  const segments = result.runs.flatMap((run) => run.segments).filter((segment) => segment.line === pos.line);
+  if (segments.length === 0) return undefined;
+  return { markdown: describeSegments(segments, result.setup.lengthUnit), range: statement.range };
+}
+
+/**
+ * A line may give more than one segment (a stepped hold is drawn as a turn in
+ * place, then the drive): the hover spans from the first one's start to the
+ * last one's end and adds up what adds up.
+ */
+export function describeSegments(segments: Segment[], unit: LengthUnitName): string {
+  const first = segments[0];
+  const last = segments[segments.length - 1];
+  const sum = (pick: (s: Segment) => number | undefined) => segments.reduce((total, s) => total + (pick(s) ?? 0), 0);
+  const sumPairs = (pick: (s: Segment) => { left: number; right: number } | undefined) =>
+    segments.some((s) => pick(s) !== undefined)
+      ? { left: sum((s) => pick(s)?.left), right: sum((s) => pick(s)?.right) }
+      : undefined;
+
+  const title = [`**${first.kind}**`, first.shape, first.sensing && `by ${first.sensing}`].filter(Boolean).join(' · ');
+  const place = (x: number, y: number) => `(${formatLength(x, unit)}, ${formatLength(y, unit)})`;
+  const lines = [
+    title,
+    '',
+    '| | start | end |',
+    '|---|---|---|',
+    `| position | ${place(first.start.x, first.start.y)} | ${place(last.end.x, last.end.y)} |`,
+    `| heading | ${formatHeading(first.start.heading)} | ${formatHeading(last.end.heading)} |`,
+    `| yaw reading | ${formatAngle(first.yawStart)} | ${formatAngle(last.yawEnd)} |`,
+    '',
+  ];
+  const facts: string[] = [];
+  const turned = sum((s) => s.turned);
+  if (turned !== 0) facts.push(`turned: ${formatAngle(turned)}`);
+  const target = segments.find((s) => s.yawTarget !== undefined)?.yawTarget;
+  if (target !== undefined) facts.push(`yaw target: ${formatAngle(target)}`);
+  const wheels = sumPairs((s) => s.wheelDeg);
+  if (wheels) facts.push(`wheel degrees: ${formatWheels(wheels)}`);
+  const motors = sumPairs((s) => s.motorDeg);
+  if (motors) facts.push(`motor degrees: ${formatWheels(motors)}`);
+  const radius = segments.find((s) => s.radius !== undefined)?.radius;
+  if (radius !== undefined) facts.push(`turn radius: ${formatLength(radius, unit)}`);
+  const distance = sum((s) => s.distance);
+  if (distance > 0) facts.push(`distance: ${formatLength(distance, unit)}`);
+  facts.push(`time: ${formatTime(sum((s) => s.duration))}`);
+  if (segments.some((s) => !s.complete)) facts.push('_some values of this line could not be computed_');
+  lines.push(facts.join('  \n'));
+  return lines.join('\n');
+}

@@ -1,0 +1,524 @@
+// Solves each run: poses, yaw readings and targets, wheel and motor degrees,
+// times; and the checks that follow from them (wrap point, swept footprint,
+// walls, time limit, marks).
+import type {
+  Diagnostic, DiagnosticCode, DriveStmt, Fix, MarkStmt, NameInfo, PathPiece, PlanSetup, Point, Pose, Range,
+  ResetYawStmt, RunResult, Segment, Severity, SquareStmt, StartStmt, TurnShape, TurnStmt, WaitStmt,
+} from '../types';
+import { footprintOf, forwardVector, rightVector, rotatePose, wrapReading, type Footprint } from './frame';
+import { encoderTurnTime, gyroTurnTime, profileTime } from './timing';
+import { squareUp, wallsOf } from './square';
+import { sweepPiece, overlapsAt, type SweepHit } from './sweep';
+import { fmt } from '../units/evaluate';
+
+export type EvaluatedMotion =
+  | { stmt: StartStmt; at?: Point; heading?: number }
+  | { stmt: DriveStmt; distance?: number; speed?: number; speedIsLinear: boolean; hold?: number; gain?: number; ramp?: number }
+  | { stmt: TurnStmt; angle?: number; to?: number; radius?: number; ratio?: number; speed?: number; min?: number; gain?: number; stop?: number }
+  | { stmt: SquareStmt; speed?: number }
+  | { stmt: WaitStmt; time?: number }
+  | { stmt: MarkStmt; at?: Point; heading?: number; within?: number }
+  | { stmt: ResetYawStmt };
+
+export interface RunInput {
+  name: string;
+  line: number;
+  range: Range;
+  motions: EvaluatedMotion[];
+  implicit?: boolean;
+}
+
+export const MOTION_DEFAULTS = {
+  drivePower: 0.5,
+  driveGain: 2,
+  turnPower: 0.5,
+  turnMin: 0.1,
+  turnGain: 1,
+  turnStop: 1,
+  squarePower: 0.5,
+  markWithin: 20,
+  markHeadingWithin: 3,
+  /** Degrees from the wrap point where sensor noise flips the reading. */
+  wrapEdge: 5,
+  /** A hold differing from the reading by more than this starts with a swerve. */
+  headingJump: 2,
+} as const;
+
+const RAD = Math.PI / 180;
+
+export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Diagnostic[], names: Record<string, NameInfo>): RunResult[] {
+  void names;
+  const robot = setup.robot;
+  const footprint = footprintOf(robot);
+  const walls = wallsOf(setup.field, setup.obstacles);
+  const { lo, hi } = setup.yawRange;
+  const turns = setup.turns;
+  const report = (range: Range, severity: Severity, code: DiagnosticCode, message: string, extra: Partial<Diagnostic> = {}) => {
+    const d: Diagnostic = { range, severity, code, message, ...extra };
+    diagnostics.push(d);
+    return d;
+  };
+  let wheelReported = false;
+  let trackReported = false;
+  const needWheel = (range: Range): boolean => {
+    if (robot.wheelDiameter !== undefined) return true;
+    if (!wheelReported) {
+      report(range, 'error', 'setup', 'the wheel diameter is not set, so wheel and motor degrees and times cannot be computed: add a line such as `wheel 56 mm` before the first motion.');
+      wheelReported = true;
+    }
+    return false;
+  };
+  const needTrack = (range: Range): boolean => {
+    if (robot.track !== undefined) return true;
+    if (!trackReported) {
+      report(range, 'error', 'setup', 'the track width (distance between the wheels) is not set, so turns cannot be computed: add a line such as `track 120 mm` before the first turn.');
+      trackReported = true;
+    }
+    return false;
+  };
+
+  /** Wheel surface speed at full power, mm/s (undefined without a wheel). */
+  const fullSpeed = (): number | undefined =>
+    robot.wheelDiameter === undefined || robot.motorSpeed === undefined || robot.gear === undefined
+      ? undefined
+      : ((robot.motorSpeed / robot.gear) * Math.PI * robot.wheelDiameter) / 360;
+  const wheelDegrees = (travel: number): number | undefined =>
+    robot.wheelDiameter === undefined ? undefined : (travel / (Math.PI * robot.wheelDiameter)) * 360;
+
+  const results: RunResult[] = [];
+  for (const input of inputs) {
+    const segments: Segment[] = [];
+    let pose: Pose | undefined;
+    let zeroHeading = 0; // field heading at which the yaw sensor reads 0
+    let wrapCrossings = 0;
+    const reading = (p: Pose) => wrapReading(p.heading - zeroHeading, lo);
+    const rawReading = (p: Pose) => p.heading - zeroHeading;
+
+    for (const m of input.motions) {
+      const s = m.stmt;
+      if (s.kind === 'start') {
+        const sm = m as Extract<EvaluatedMotion, { stmt: StartStmt }>;
+        if (pose) {
+          report(s.range, 'error', 'setup', 'a run has one `start`; this one would teleport the robot. Begin a new `run "NAME"` before it, or remove it.');
+          continue;
+        }
+        pose = { x: sm.at?.x ?? 0, y: sm.at?.y ?? 0, heading: sm.heading ?? 0 };
+        zeroHeading = pose.heading;
+        const seg = baseSegment(s.line, 'start', pose, pose, 0, 0);
+        seg.complete = sm.at !== undefined && sm.heading !== undefined;
+        segments.push(seg);
+        for (const hit of overlapsAt(pose, footprint, turns, setup.obstacles, setup.field)) reportHit(hit, s.range, 'the start pose', seg);
+        continue;
+      }
+      if (!pose) {
+        report(s.range, 'error', 'setup', `the run "${input.name}" has no \`start\` before its first motion: add a line such as \`start (200, 200) heading 0\` to place the robot.`);
+        pose = { x: 0, y: 0, heading: 0 };
+        zeroHeading = 0;
+      }
+      const yawBefore = reading(pose);
+      switch (s.kind) {
+        case 'resetYaw': {
+          zeroHeading = pose.heading;
+          segments.push(baseSegment(s.line, 'reset', pose, pose, yawBefore, 0));
+          break;
+        }
+        case 'wait': {
+          const wm = m as Extract<EvaluatedMotion, { stmt: WaitStmt }>;
+          const seg = baseSegment(s.line, 'wait', pose, pose, yawBefore, yawBefore);
+          if (wm.time !== undefined && wm.time < 0) report(s.time.range, 'error', 'setup', 'a wait cannot be negative.');
+          seg.duration = Math.max(0, wm.time ?? 0);
+          seg.complete = wm.time !== undefined;
+          segments.push(seg);
+          break;
+        }
+        case 'mark': {
+          const mm = m as Extract<EvaluatedMotion, { stmt: MarkStmt }>;
+          const seg = baseSegment(s.line, 'mark', pose, pose, yawBefore, yawBefore);
+          seg.label = s.name.value;
+          segments.push(seg);
+          checkMark(mm, pose, seg);
+          break;
+        }
+        case 'drive':
+          pose = solveDrive(m as Extract<EvaluatedMotion, { stmt: DriveStmt }>, pose);
+          break;
+        case 'turn':
+          pose = solveTurn(m as Extract<EvaluatedMotion, { stmt: TurnStmt }>, pose);
+          break;
+        case 'square':
+          pose = solveSquare(m as Extract<EvaluatedMotion, { stmt: SquareStmt }>, pose);
+          break;
+      }
+    }
+
+    const duration = segments.reduce((t, sg) => t + (Number.isFinite(sg.duration) ? sg.duration : 0), 0);
+    const distance = segments.reduce((t, sg) => t + sg.distance, 0);
+    const result: RunResult = {
+      name: input.name, line: input.line, range: input.range, segments, duration, distance,
+      turns: segments.filter((sg) => sg.kind === 'turn').length, wrapCrossings,
+    };
+    if (setup.limit !== undefined && duration > setup.limit) {
+      report(input.range, 'warning', 'over-time',
+        `the run "${input.name}" takes about ${fmt(duration, 1)} s, over the ${fmt(setup.limit, 1)} s limit by ${fmt(duration - setup.limit, 1)} s: raise speeds, add ramps to long drives, or drop a task.`);
+    }
+    results.push(result);
+
+    // -- per-segment solvers (closures over the run's state) ----------------
+
+    function solveDrive(dm: Extract<EvaluatedMotion, { stmt: DriveStmt }>, from: Pose): Pose {
+      const s = dm.stmt;
+      const dist = dm.distance ?? 0;
+      const yawStart = reading(from);
+      let start = from;
+      const path: PathPiece[] = [];
+      let yawTarget: number | undefined;
+      let turned = 0;
+      if (s.hold && dm.hold !== undefined) {
+        yawTarget = dm.hold;
+        const holdRange = s.optionRanges.hold ?? s.range;
+        checkTarget(dm.hold, holdRange, s, 'hold', yawStart);
+        const jump = dm.hold - yawStart; // the code's raw error
+        if (Math.abs(jump) > MOTION_DEFAULTS.headingJump) {
+          if (!s.step) {
+            report(holdRange, 'warning', 'heading-jump',
+              `the drive holds yaw ${fmt(dm.hold)}° but the reading is ${fmt(yawStart)}°: the robot starts with a sudden ${fmt(Math.abs(jump))}° swerve. Add \`step\` if the change of heading is meant, or turn onto ${fmt(dm.hold)}° first.`,
+              { fixes: headingJumpFixes(s, dm.hold) });
+          } else {
+            report(holdRange, 'information', 'approximate',
+              'the curved path of a `hold ... step` drive comes from the controller simulation; until then it is drawn as a turn in place followed by the straight drive.');
+          }
+          turned = jump;
+          const turnedPose = rotatePose(from, from, jump, turns);
+          path.push({ type: 'rotate', from, to: turnedPose, center: { x: from.x, y: from.y }, turned: jump });
+          start = turnedPose;
+        }
+      }
+      const f = forwardVector(start.heading, turns);
+      const end: Pose = { x: start.x + f.x * dist, y: start.y + f.y * dist, heading: start.heading };
+      path.push({ type: 'line', from: start, to: end });
+      const seg = baseSegment(s.line, 'drive', from, end, yawStart, reading(end));
+      seg.turned = turned;
+      seg.path = path;
+      seg.distance = Math.abs(dist);
+      if (yawTarget !== undefined) { seg.yawTarget = yawTarget; seg.sensing = 'gyro'; } else seg.sensing = 'encoders';
+      seg.complete = dm.distance !== undefined && (!s.hold || dm.hold !== undefined);
+      const vMax = fullSpeed();
+      if (needWheel(s.keywordRange) && vMax !== undefined) {
+        const wd = wheelDegrees(dist)!;
+        seg.wheelDeg = { left: wd, right: wd };
+        seg.motorDeg = { left: wd * robot.gear!, right: wd * robot.gear! };
+        let v: number;
+        if (dm.speed === undefined) v = MOTION_DEFAULTS.drivePower * vMax;
+        else if (dm.speedIsLinear) {
+          v = dm.speed;
+          if (v > vMax) report(s.optionRanges.speed ?? s.range, 'error', 'setup', `${fmt(v)} mm/s is faster than the wheels can go at full power (${fmt(vMax)} mm/s with these motors, gear and wheels); lower the speed.`);
+        } else {
+          v = dm.speed * vMax;
+          checkPower(dm.speed, s.optionRanges.speed ?? s.range, 'speed');
+        }
+        if (dm.ramp !== undefined && dm.ramp <= 0) report(s.optionRanges.ramp ?? s.range, 'error', 'setup', 'a ramp is an acceleration and must be greater than zero, e.g. `ramp 800 mm/s^2`.');
+        seg.duration = v > 0 ? profileTime(dist, Math.min(v, vMax), dm.ramp) : 0;
+        if (turned !== 0) seg.duration += Math.abs(turned) * RAD * ((robot.track ?? 0) / 2) / Math.max(v, 1e-9);
+      } else seg.complete = false;
+      if (s.gain && dm.gain !== undefined && dm.gain <= 0) report(s.optionRanges.gain ?? s.range, 'error', 'setup', 'the gain must be greater than zero.');
+      segments.push(seg);
+      sweep(seg, 'drive');
+      return end;
+    }
+
+    function solveTurn(tm: Extract<EvaluatedMotion, { stmt: TurnStmt }>, from: Pose): Pose {
+      const s = tm.stmt;
+      const gyro = s.sensing === 'gyro' || (s.to !== undefined && s.optionRanges.by === undefined);
+      const gyroReferenced = gyro || s.to !== undefined;
+      if (s.reset) zeroHeading = from.heading;
+      const yawStart = reading(from);
+      let turned: number;
+      let target: number | undefined;
+      if (s.to !== undefined) {
+        target = tm.to;
+        turned = tm.to === undefined ? 0 : tm.to - yawStart;
+      } else {
+        turned = tm.angle ?? 0;
+        if (gyro) target = yawStart + turned;
+      }
+      // The wrap point and the long way round.
+      if (target !== undefined && gyro) checkTarget(target, s.range, s, 'turn', yawStart);
+      if (s.to !== undefined && tm.to !== undefined && Math.abs(turned) > 180) {
+        const short = turned > 0 ? turned - 360 : turned + 360;
+        report(s.range, 'warning', 'long-way',
+          `the code computes ${fmt(tm.to)}° − ${fmt(yawStart)}° = ${fmt(turned)}° without wrapping, so the robot turns ${fmt(Math.abs(turned))}° the long way round; the short way (${fmt(short)}°) would cross the sensor's wrap point. Turn by ${fmt(short)}° with \`reset\`, or reset the yaw earlier so the target lies the short way.`);
+      }
+      if (gyro) {
+        checkPower(tm.speed, s.optionRanges.speed ?? s.range, 'speed');
+        if (tm.min !== undefined && tm.min < 0) report(s.optionRanges.min ?? s.range, 'error', 'setup', 'the minimum power cannot be negative.');
+      }
+      if (tm.speed !== undefined && !gyro) checkPower(tm.speed, s.optionRanges.speed ?? s.range, 'speed');
+      const top = tm.speed ?? MOTION_DEFAULTS.turnPower;
+      const min = tm.min ?? MOTION_DEFAULTS.turnMin;
+      if (min > top) report(s.optionRanges.min ?? s.range, 'error', 'setup', `the minimum power ${fmt(min * 100)} % is above the top power ${fmt(top * 100)} %: the controller could never slow down. Lower \`min\` or raise \`speed\`.`);
+      if (tm.stop !== undefined && tm.stop <= 0) report(s.optionRanges.stop ?? s.range, 'error', 'setup', 'the stop band must be greater than zero, e.g. `stop 1 deg`: the reading never equals the target exactly.');
+
+      // Shape: the centre of rotation's offset to the robot's right (robot frame).
+      const W = robot.track;
+      const sign = turned >= 0 ? 1 : -1; // +1: turning in the file's positive direction
+      const cwSign = sign * (turns === 'clockwise' ? 1 : -1); // +1: turning clockwise on the field
+      let offset = 0; // lateral offset of the centre, + to the right
+      let shape: TurnShape = 'spin';
+      let complete = true;
+      const shapeNode = s.shape;
+      if (shapeNode.kind !== 'spin' && !needTrack(s.keywordRange)) complete = false;
+      const half = (W ?? 0) / 2;
+      if (shapeNode.kind === 'pivot') {
+        shape = shapeNode.side === 'left' ? 'pivot left' : 'pivot right';
+        offset = shapeNode.side === 'left' ? -half : half;
+      } else if (shapeNode.kind === 'arc' || shapeNode.kind === 'ratio') {
+        shape = 'arc';
+        let R = tm.radius;
+        if (shapeNode.kind === 'ratio' && tm.ratio !== undefined) {
+          if (tm.ratio < -1 || tm.ratio >= 1) {
+            report(s.optionRanges.ratio ?? s.range, 'error', 'setup', 'a wheel ratio lies from -100 % (a spin) up to, but not including, 100 % (straight); e.g. `ratio 50%`.');
+            R = undefined;
+          } else R = (half * (1 + tm.ratio)) / (1 - tm.ratio);
+        }
+        if (R !== undefined && R < 0) {
+          report(s.optionRanges.arc ?? s.range, 'error', 'setup', 'an arc radius cannot be negative; use `reverse` to drive the arc backwards, or turn the other way.');
+          R = undefined;
+        }
+        if (R === undefined) complete = false;
+        // Forwards, the centre lies on the side the robot turns to; `reverse` swaps it.
+        offset = (R ?? 0) * cwSign * (s.reverse ? -1 : 1);
+      }
+      if (s.reverse && shapeNode.kind !== 'arc' && shapeNode.kind !== 'ratio') {
+        report(s.optionRanges.reverse ?? s.range, 'error', 'syntax', '`reverse` goes with `arc` or `ratio` (a spin or pivot has no direction of travel).');
+      }
+      const r = rightVector(from.heading, turns);
+      const center = { x: from.x + r.x * offset, y: from.y + r.y * offset };
+      const end = rotatePose(from, center, turned, turns);
+      const seg = baseSegment(s.line, 'turn', from, end, yawStart, reading(end));
+      seg.shape = shape;
+      seg.sensing = gyro ? 'gyro' : 'encoders';
+      seg.turned = turned;
+      seg.radius = Math.abs(offset);
+      seg.center = center;
+      seg.path = turned === 0 ? [] : [{ type: 'rotate', from, to: end, center, turned }];
+      seg.distance = Math.abs(turned * RAD * offset);
+      if (gyroReferenced && target !== undefined) seg.yawTarget = target;
+      seg.complete = complete && (s.to !== undefined ? tm.to !== undefined : tm.angle !== undefined);
+      // Wheel travel: clockwise rotation φ about a centre at lateral offset c
+      // moves a wheel at lateral position w forwards by φ (c − w).
+      const phi = turned * (turns === 'clockwise' ? 1 : -1) * RAD;
+      const travel = (track: number) => ({ left: phi * (offset + track / 2), right: phi * (offset - track / 2) });
+      const vMax = fullSpeed();
+      if (needWheel(s.keywordRange) && vMax !== undefined && (W !== undefined || shapeNode.kind === 'spin') && W !== undefined) {
+        const t = travel(W);
+        seg.wheelDeg = { left: wheelDegrees(t.left)!, right: wheelDegrees(t.right)! };
+        const te = gyro ? t : travel(robot.effectiveTrack ?? W);
+        seg.motorDeg = { left: wheelDegrees(te.left)! * robot.gear!, right: wheelDegrees(te.right)! * robot.gear! };
+        const outer = Math.max(Math.abs(t.left), Math.abs(t.right));
+        const outerRadius = Math.abs(offset) + half;
+        if (gyro) {
+          seg.duration = gyroTurnTime({
+            angle: Math.abs(turned), ratePerPower: outerRadius > 0 ? (vMax / outerRadius) / RAD : Infinity,
+            gain: (tm.gain ?? MOTION_DEFAULTS.turnGain) / 100, top, min, stop: tm.stop ?? MOTION_DEFAULTS.turnStop,
+            lag: robot.motorLag ?? 0,
+          });
+        } else {
+          seg.duration = encoderTurnTime(outer, top * vMax, Math.max(min, 1e-3) * vMax, s.ramp);
+        }
+        if (!Number.isFinite(seg.duration)) seg.duration = 0;
+      } else {
+        if (W === undefined) needTrack(s.keywordRange);
+        seg.complete = false;
+      }
+      segments.push(seg);
+      sweep(seg, shape);
+      return end;
+    }
+
+    function solveSquare(qm: Extract<EvaluatedMotion, { stmt: SquareStmt }>, from: Pose): Pose {
+      const s = qm.stmt;
+      const yawStart = reading(from);
+      const out = squareUp(from, s.side, footprint, turns, walls);
+      if (!out) {
+        report(s.range, 'error', 'no-wall', `driving ${s.side === 'front' ? 'forwards' : 'backwards'} from here the robot meets no wall (no field edge or box side ahead), so it would drive on until stopped. Turn to face a wall first${setup.field ? '' : ', or declare the `field`'}.`);
+        const seg = baseSegment(s.line, 'square', from, from, yawStart, yawStart);
+        seg.complete = false;
+        segments.push(seg);
+        return from;
+      }
+      if (out.offSquare > 30) {
+        report(s.range, 'error', 'no-wall', `the robot meets ${out.wall.label} ${fmt(out.offSquare, 0)}° off square (more than 30°): it will slide along it or twist instead of squaring up. Turn to face the wall more squarely first.`, { at: out.contact });
+      }
+      const end = out.end;
+      const turned = end.heading - from.heading;
+      const seg = baseSegment(s.line, 'square', from, end, yawStart, wrapReading(yawStart + turned, lo));
+      seg.turned = turned;
+      seg.distance = out.travel;
+      const mid: Pose = { x: end.x, y: end.y, heading: from.heading };
+      seg.path = [{ type: 'line', from, to: mid }, { type: 'rotate', from: mid, to: end, center: { x: end.x, y: end.y }, turned }];
+      const vMax = fullSpeed();
+      if (needWheel(s.keywordRange) && vMax !== undefined) {
+        checkPower(qm.speed, s.optionRanges.speed ?? s.range, 'speed');
+        const v = (qm.speed ?? MOTION_DEFAULTS.squarePower) * vMax;
+        seg.duration = v > 0 ? out.travel / v : 0;
+        const wd = wheelDegrees(out.travel * (s.side === 'front' ? 1 : -1))!;
+        seg.wheelDeg = { left: wd, right: wd };
+        seg.motorDeg = { left: wd * robot.gear!, right: wd * robot.gear! };
+      }
+      segments.push(seg);
+      // The wall squared against is meant to be touched.
+      sweep(seg, 'drive', out.wall.obstacle ?? 'field');
+      return end;
+    }
+
+    function checkMark(mm: Extract<EvaluatedMotion, { stmt: MarkStmt }>, p: Pose, seg: Segment) {
+      const s = mm.stmt;
+      const within = mm.within ?? MOTION_DEFAULTS.markWithin;
+      if (mm.at) {
+        const miss = Math.hypot(p.x - mm.at.x, p.y - mm.at.y);
+        if (miss > within) {
+          report(s.optionRanges.at ?? s.range, 'warning', 'miss',
+            `the planned position (${fmt(p.x, 0)}, ${fmt(p.y, 0)}) is ${fmt(miss, 0)} mm from "${s.name.value}" at (${fmt(mm.at.x, 0)}, ${fmt(mm.at.y, 0)}), more than the ${fmt(within, 0)} mm allowed: adjust the drives before this mark.`,
+            { at: { x: mm.at.x, y: mm.at.y } });
+        }
+      }
+      if (mm.heading !== undefined) {
+        const diff = ((((p.heading - mm.heading) % 360) + 540) % 360) - 180;
+        if (Math.abs(diff) > MOTION_DEFAULTS.markHeadingWithin) {
+          report(s.optionRanges.heading ?? s.range, 'warning', 'miss',
+            `the planned heading ${fmt(normal(p.heading))}° is ${fmt(Math.abs(diff))}° off the ${fmt(mm.heading)}° wanted at "${s.name.value}" (allowed: ${MOTION_DEFAULTS.markHeadingWithin}°).`,
+            { at: { x: p.x, y: p.y } });
+        }
+      }
+      if (s.inZone) {
+        const zone = setup.zones.find((z) => z.name === s.inZone!.value);
+        if (!zone) {
+          const guess = setup.zones.map((z) => z.name).find((n) => n.toLowerCase() === s.inZone!.value.toLowerCase());
+          report(s.inZone.range, 'error', 'name', `there is no zone named "${s.inZone.value}"${guess ? `: did you mean "${guess}"?` : '; declare it with `zone "NAME" (X1, Y1) to (X2, Y2)`.'}`);
+        } else if (p.x < zone.min.x || p.x > zone.max.x || p.y < zone.min.y || p.y > zone.max.y) {
+          const dx = Math.max(zone.min.x - p.x, 0, p.x - zone.max.x);
+          const dy = Math.max(zone.min.y - p.y, 0, p.y - zone.max.y);
+          report(s.inZone.range, 'warning', 'miss',
+            `the robot's axle midpoint ends at (${fmt(p.x, 0)}, ${fmt(p.y, 0)}), ${fmt(Math.hypot(dx, dy), 0)} mm outside the zone "${zone.name}": adjust the drives before this mark.`,
+            { at: { x: p.x, y: p.y } });
+        }
+      }
+      void seg;
+    }
+
+    /** A gyro target outside the sensor's range, or within the noise band of the wrap point. */
+    function checkTarget(target: number, range: Range, stmt: TurnStmt | DriveStmt, what: 'turn' | 'hold', yawStart: number) {
+      if (target < lo || target >= hi) {
+        wrapCrossings++;
+        const wrapAt = target >= hi ? hi : lo;
+        const seen = wrapReading(target, lo);
+        report(range, 'error', 'wrap-cross',
+          `the yaw target ${fmt(target)}° lies outside the sensor's range [${fmt(lo)}, ${fmt(hi)}): as the robot passes ${fmt(wrapAt)}° the reading jumps to ${fmt(wrapAt === hi ? lo : hi)}°, the error grows instead of shrinking and the robot ${what === 'turn' ? 'spins on and never settles' : 'swerves round in circles'}. ` +
+          `Reset the yaw before this line, or aim for the reading ${fmt(seen)}° instead.`,
+          { fixes: wrapFixes(stmt, target, yawStart) });
+        return;
+      }
+      if (target - lo < MOTION_DEFAULTS.wrapEdge || hi - target <= MOTION_DEFAULTS.wrapEdge) {
+        report(range, 'warning', 'wrap-edge',
+          `the yaw target ${fmt(target)}° is within ${MOTION_DEFAULTS.wrapEdge}° of the sensor's wrap point (${fmt(target - lo < MOTION_DEFAULTS.wrapEdge ? lo : hi)}°): sensor noise will flip the reading between ${fmt(lo)}° and ${fmt(hi)}° and the robot can spin or swerve. Reset the yaw before this line so the target sits mid-range.`,
+          { fixes: wrapFixes(stmt, target, yawStart) });
+      }
+    }
+
+    function wrapFixes(stmt: TurnStmt | DriveStmt, target: number, yawStart: number): Fix[] {
+      const fixes: Fix[] = [];
+      const indent = ' '.repeat(stmt.range.start.character);
+      const insertReset = { range: { start: { line: stmt.line, character: 0 }, end: { line: stmt.line, character: 0 } }, newText: `${indent}reset yaw\n` };
+      if (stmt.kind === 'turn' && stmt.angle) {
+        // A reset makes the target the turn angle itself, which helps only when that lies in range.
+        const angle = target - yawStart;
+        if (angle < lo || angle >= hi) return fixes;
+        if (!stmt.reset) fixes.push({ title: 'Add `reset` to the turn (zero the yaw just before it)', edits: [{ range: { start: stmt.range.end, end: stmt.range.end }, newText: ' reset' }], preferred: true });
+        fixes.push({ title: 'Insert `reset yaw` before this line', edits: [insertReset] });
+      } else if (stmt.kind === 'turn' && stmt.to) {
+        // After a reset the reading is 0 here, so the same turn is `turn to (target − reading)`.
+        fixes.push({ title: `Insert \`reset yaw\` before this line and aim for ${fmt(target - yawStart)}°`, edits: [insertReset, { range: stmt.to.range, newText: fmt(target - yawStart, 3) }], preferred: true });
+      } else if (stmt.kind === 'drive' && stmt.hold) {
+        fixes.push({ title: `Insert \`reset yaw\` before this line and hold ${fmt(target - yawStart)}°`, edits: [insertReset, { range: stmt.hold.range, newText: fmt(target - yawStart, 3) }], preferred: true });
+      }
+      return fixes;
+    }
+
+    function headingJumpFixes(stmt: DriveStmt, hold: number): Fix[] {
+      const fixes: Fix[] = [];
+      if (stmt.hold) fixes.push({ title: 'Add `step` (the change of heading is meant)', edits: [{ range: { start: stmt.hold.range.end, end: stmt.hold.range.end }, newText: ' step' }], preferred: true });
+      const indent = ' '.repeat(stmt.range.start.character);
+      fixes.push({ title: `Insert \`turn to ${fmt(hold)} by gyro\` before the drive`, edits: [{ range: { start: { line: stmt.line, character: 0 }, end: { line: stmt.line, character: 0 } }, newText: `${indent}turn to ${fmt(hold, 3)} by gyro\n` }] });
+      return fixes;
+    }
+
+    function checkPower(p: number | undefined, range: Range, what: string) {
+      if (p === undefined) return;
+      if (p > 1) report(range, 'error', 'setup', `a ${what} of ${fmt(p * 100)} % is more than full power; the motors top out at 100 %.`);
+      else if (p <= 0) report(range, 'error', 'setup', `a ${what} of ${fmt(p * 100)} % would not move the robot; use a power above 0 %.`);
+    }
+
+    function sweep(seg: Segment, shapeName: string, ignore?: Obstacle | 'field') {
+      const seen = new Set<string>();
+      for (const piece of seg.path) {
+        const hits = sweepPiece(piece, footprint, turns, setup.obstacles, ignore === 'field' ? undefined : setup.field);
+        for (const hit of hits) {
+          if (hit.obstacle && hit.obstacle === ignore) continue;
+          const key = hit.kind === 'field' ? 'field' : `o:${hit.obstacle?.name}`;
+          if (seen.has(key)) continue;
+          seen.add(key);
+          const stmtRange = statementRangeOf(seg.line);
+          reportHit(hit, stmtRange, shapeName, seg, piece);
+        }
+      }
+    }
+
+    function statementRangeOf(line: number): Range {
+      const m = input.motions.find((mm) => mm.stmt.line === line);
+      return m ? m.stmt.range : { start: { line, character: 0 }, end: { line, character: 0 } };
+    }
+
+    function reportHit(hit: SweepHit, range: Range, shapeName: string, seg: Segment, piece?: PathPiece) {
+      const what = describeShape(shapeName);
+      if (hit.kind === 'field') {
+        report(range, 'error', 'off-field', `during ${what} part of the robot leaves the field near (${fmt(hit.at.x, 0)}, ${fmt(hit.at.y, 0)}): it would fall off or hit the border. Shorten the move or start further in.`, { at: hit.at });
+        return;
+      }
+      const o = hit.obstacle!;
+      let hint = '';
+      if (piece?.type === 'rotate' && (seg.shape === 'pivot left' || seg.shape === 'pivot right' || seg.shape === 'arc')) {
+        // A spin sweeps less: say so when it clears the obstacle.
+        const spin: PathPiece = { type: 'rotate', from: piece.from, to: rotatePose(piece.from, piece.from, piece.turned, turns), center: { x: piece.from.x, y: piece.from.y }, turned: piece.turned };
+        const spinHits = sweepPiece(spin, footprint, turns, [o], undefined);
+        if (spinHits.length === 0) hint = ' A spin turn here clears it (the robot would then end at a different position).';
+      }
+      report(range, 'error', 'collision',
+        `the robot's footprint hits the ${o.kind} "${o.name}" during ${what}.${hint || ' Move the path away from it, or change the turn shape.'}`,
+        { at: hit.at, related: [{ range: { start: { line: o.line, character: 0 }, end: { line: o.line, character: 0 } }, message: `"${o.name}" is declared here` }] });
+    }
+  }
+  return results;
+}
+
+type Obstacle = PlanSetup['obstacles'][number];
+
+function describeShape(shape: string): string {
+  switch (shape) {
+    case 'spin': return 'this spin turn';
+    case 'pivot left': return 'this pivot turn (left wheel still)';
+    case 'pivot right': return 'this pivot turn (right wheel still)';
+    case 'arc': return 'this arc';
+    case 'drive': return 'this drive';
+    default: return shape;
+  }
+}
+
+function normal(h: number): number {
+  return ((h % 360) + 360) % 360;
+}
+
+function baseSegment(line: number, kind: Segment['kind'], start: Pose, end: Pose, yawStart: number, yawEnd: number): Segment {
+  return { line, kind, start, end, turned: 0, yawStart, yawEnd, duration: 0, distance: 0, path: [], complete: true };
+}
+
+export type { Footprint };

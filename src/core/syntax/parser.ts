@@ -1,0 +1,695 @@
+// Reads plan text into statements, one line at a time. A line that cannot be
+// read gives exactly one `syntax` diagnostic and is left out; the others are
+// still read, so the editor can keep checking the rest of the file while the
+// user types. Expressions stay source text: math.js evaluates them later.
+import * as math from 'mathjs';
+import type {
+  BodyStmt, BoxStmt, CircleStmt, Diagnostic, DriveStmt, ExprNode, FieldStmt, Fix, MarkStmt, MotorStmt,
+  PlanAst, PointNode, Range, RelatedInfo, Statement, StringNode, TrackStmt, TurnShapeNode, TurnStmt, WordNode,
+  ZoneStmt, LengthUnitName, NoiseStmt,
+} from '../types';
+import { lexLine, type Token } from './lexer';
+import { OPTIONS, STATEMENT_KEYWORDS, suggestWord } from './keywords';
+
+export function parsePlan(text: string): { ast: PlanAst; diagnostics: Diagnostic[] } {
+  const lines = String(text).split('\n');
+  const statements: Statement[] = [];
+  const diagnostics: Diagnostic[] = [];
+  const letNames = new Set<string>();
+  for (let lineIndex = 0; lineIndex < lines.length; lineIndex++) {
+    const source = lines[lineIndex].endsWith('\r') ? lines[lineIndex].slice(0, -1) : lines[lineIndex];
+    try {
+      const statement = parseLine(lineIndex, source, letNames);
+      if (!statement) continue;
+      statements.push(statement);
+      if (statement.kind === 'let') letNames.add(statement.name);
+    } catch (problem) {
+      diagnostics.push(toDiagnostic(problem, lineIndex, source));
+    }
+  }
+  return { ast: { statements, lineCount: lines.length }, diagnostics };
+}
+
+/** Thrown (without a stack, so bad lines stay cheap) to abandon the current line. */
+class LineProblem {
+  constructor(
+    readonly start: number,
+    readonly end: number,
+    readonly message: string,
+    readonly fixes?: Fix[],
+    readonly related?: { start: number; end: number; message: string },
+  ) {}
+}
+
+function toDiagnostic(problem: unknown, line: number, source: string): Diagnostic {
+  if (!(problem instanceof LineProblem)) {
+    // A defect in this parser must not stop the rest of the file from being read.
+    return {
+      range: span(line, 0, source.length),
+      severity: 'error',
+      code: 'syntax',
+      message: 'this line could not be read',
+    };
+  }
+  const diagnostic: Diagnostic = {
+    range: span(line, problem.start, problem.end),
+    severity: 'error',
+    code: 'syntax',
+    message: problem.message,
+  };
+  if (problem.fixes) diagnostic.fixes = problem.fixes;
+  if (problem.related) {
+    const related: RelatedInfo = {
+      range: span(line, problem.related.start, problem.related.end),
+      message: problem.related.message,
+    };
+    diagnostic.related = [related];
+  }
+  return diagnostic;
+}
+
+function span(line: number, start: number, end: number): Range {
+  return { start: { line, character: start }, end: { line, character: end } };
+}
+
+/** Each must be met by a word or a symbol token ending in one of them. */
+const OPERATOR_ENDINGS = new Set(['*', '/', '^', '+', '-', '(', ',', '=', '<', '>', '&', '|', '?', ':', '~']);
+
+/** math.js names (functions, constants, units) are never reported as misspelt options. */
+function isMathName(name: string): boolean {
+  if (Object.prototype.hasOwnProperty.call(math, name) && (math as Record<string, unknown>)[name] !== undefined) {
+    return true;
+  }
+  try {
+    return math.Unit.isValuelessUnit(name);
+  } catch {
+    return false;
+  }
+}
+
+type OptionValue =
+  | { kind: 'expr' }
+  | { kind: 'flag' }
+  | { kind: 'point' }
+  | { kind: 'string' }
+  | { kind: 'word'; words: readonly string[] };
+
+interface OptionSpec {
+  value: OptionValue;
+  /** Shown when the value is missing or wrong. */
+  example: string;
+  /** Options of one group exclude each other (the turn shapes). */
+  group?: 'shape';
+}
+
+type OptionSpecs = Readonly<Record<string, OptionSpec>>;
+
+const EXPR: OptionValue = { kind: 'expr' };
+const FLAG: OptionValue = { kind: 'flag' };
+
+const DRIVE_OPTIONS: OptionSpecs = {
+  speed: { value: EXPR, example: 'speed 50%' },
+  hold: { value: EXPR, example: 'hold 0' },
+  step: { value: FLAG, example: 'hold 90 step' },
+  gain: { value: EXPR, example: 'gain 2' },
+  ramp: { value: EXPR, example: 'ramp 800 mm/s^2' },
+};
+
+const TURN_OPTIONS: OptionSpecs = {
+  spin: { value: FLAG, example: 'spin', group: 'shape' },
+  pivot: { value: { kind: 'word', words: ['left', 'right'] }, example: 'pivot left', group: 'shape' },
+  arc: { value: EXPR, example: 'arc 200 mm', group: 'shape' },
+  ratio: { value: EXPR, example: 'ratio 0%', group: 'shape' },
+  reverse: { value: FLAG, example: 'arc 200 mm reverse' },
+  by: { value: { kind: 'word', words: ['encoders', 'gyro'] }, example: 'by gyro' },
+  speed: { value: EXPR, example: 'speed 50%' },
+  min: { value: EXPR, example: 'min 10%' },
+  gain: { value: EXPR, example: 'gain 1' },
+  stop: { value: EXPR, example: 'stop 1 deg' },
+  ramp: { value: FLAG, example: 'ramp' },
+  reset: { value: FLAG, example: 'reset' },
+};
+
+const MARK_OPTIONS: OptionSpecs = {
+  at: { value: { kind: 'point' }, example: 'at (1800, 1000)' },
+  heading: { value: EXPR, example: 'heading 90' },
+  within: { value: EXPR, example: 'within 20 mm' },
+  in: { value: { kind: 'string' }, example: 'in "dock"' },
+};
+
+const NOISE_OPTIONS: OptionSpecs = {
+  drive: { value: EXPR, example: 'drive 1%' },
+  turn: { value: EXPR, example: 'turn 1.5%' },
+  gyro: { value: EXPR, example: 'gyro 1 deg' },
+  drift: { value: EXPR, example: 'drift 0.5 deg/min' },
+};
+
+const SQUARE_OPTIONS: OptionSpecs = { speed: { value: EXPR, example: 'speed 30%' } };
+const TRACK_OPTIONS: OptionSpecs = { effective: { value: EXPR, example: 'effective 130 mm' } };
+const MOTOR_OPTIONS: OptionSpecs = { lag: { value: EXPR, example: 'lag 80 ms' } };
+const BODY_OPTIONS: OptionSpecs = { axle: { value: EXPR, example: 'axle -30' } };
+const FIELD_OPTIONS: OptionSpecs = { grid: { value: EXPR, example: 'grid 100' } };
+const NO_OPTIONS: OptionSpecs = {};
+
+const NEEDS = {
+  plan: '`plan` needs a title in double quotes, e.g. `plan "Practice run"`',
+  units: '`units` takes mm, cm, m or in, e.g. `units mm`',
+  turns: '`turns` takes clockwise or counterclockwise, e.g. `turns clockwise`',
+  yawRange: '`yaw range` needs two angles, e.g. `yaw range -180 to 180`',
+  wheel: '`wheel` needs a diameter, e.g. `wheel 62 mm`',
+  track: '`track` needs a width, e.g. `track 128 mm`',
+  gear: '`gear` needs a ratio (motor degrees per wheel degree), e.g. `gear 1`',
+  motor: '`motor` needs its speed at full power, e.g. `motor 900 deg/s`',
+  body: '`body` needs a width and a length, e.g. `body 150 by 190`',
+  field: '`field` needs a width and a height, e.g. `field 2000 by 1200`',
+  box: '`box` needs a name and two corners, e.g. `box "shelf" (900, 500) to (1100, 800)`',
+  circle: '`circle` needs a name, a centre and a radius, e.g. `circle "post" (600, 400) radius 50`',
+  zone: '`zone` needs a name and two corners, e.g. `zone "dock" (1700, 900) to (1950, 1150)`',
+  limit: '`limit` needs a time, e.g. `limit 150 s`',
+  let: '`let` needs a name and a value, e.g. `let lane = 250 mm`',
+  run: '`run` needs a name in double quotes, e.g. `run "to the dock"`',
+  start: '`start` needs a position and a heading, e.g. `start (200, 200) heading 0`',
+  drive: '`drive` needs a distance, e.g. `drive 300 mm`',
+  turn: '`turn` needs an angle, e.g. `turn 90` or `turn to 0`',
+  resetYaw: '`reset` is written `reset yaw`',
+  square: '`square` needs a side, e.g. `square front` or `square back`',
+  wait: '`wait` needs a time, e.g. `wait 0.5 s`',
+  mark: '`mark` needs a name in double quotes, e.g. `mark "parked" in "dock"`',
+} as const;
+
+const NO_STOPS: ReadonlySet<string> = new Set();
+
+function parseLine(line: number, source: string, letNames: ReadonlySet<string>): Statement | undefined {
+  const lexed = lexLine(source);
+  if (lexed.error) {
+    // Report the earliest problem: a string error after a bad keyword is secondary.
+    const { start, end, message } = lexed.error;
+    if (lexed.tokens.length === 0 || isKnownKeyword(lexed.tokens[0])) throw new LineProblem(start, end, message);
+    new LineReader(line, source, lexed.tokens, letNames).checkFirstWord();
+    throw new LineProblem(start, end, message);
+  }
+  if (lexed.tokens.length === 0) return undefined;
+  return new LineReader(line, source, lexed.tokens, letNames).statement();
+}
+
+function isKnownKeyword(token: Token): boolean {
+  return token.kind === 'ident' && STATEMENT_KEYWORDS.includes(token.text);
+}
+
+type SharedFields = Pick<Statement, 'line' | 'range' | 'keywordRange' | 'optionRanges'>;
+
+/** A parsed option value, by kind. */
+interface OptionResult {
+  expr?: ExprNode;
+  point?: PointNode;
+  string?: StringNode;
+  word?: WordNode;
+}
+
+class LineReader {
+  private pos = 0;
+  private optionRanges: Record<string, Range> = {};
+  /** Option names of the statement being read, for misspelling checks inside expressions. */
+  private optionWords: readonly string[] = [];
+
+  constructor(
+    private readonly line: number,
+    private readonly source: string,
+    private readonly tokens: readonly Token[],
+    private readonly letNames: ReadonlySet<string>,
+  ) {}
+
+  checkFirstWord(): void {
+    const first = this.tokens[0];
+    if (first.kind !== 'ident') {
+      this.fail(first, 'a line starts with a keyword, e.g. `drive 300 mm` or `turn 90`');
+    }
+    if (!STATEMENT_KEYWORDS.includes(first.text)) this.unknownWord(first, STATEMENT_KEYWORDS, () =>
+      `unknown word \`${first.text}\`: a line starts with a keyword such as \`drive\`, \`turn\`, \`start\` or \`let\``);
+  }
+
+  statement(): Statement {
+    this.checkFirstWord();
+    const keyword = this.next();
+    switch (keyword.text) {
+      case 'plan': return this.plan(keyword);
+      case 'units': return this.units(keyword);
+      case 'turns': return this.turns(keyword);
+      case 'yaw': return this.yawRange(keyword);
+      case 'wheel': return this.single(keyword, 'wheel', (base, value) => ({ ...base, kind: 'wheel', diameter: value }));
+      case 'gear': return this.single(keyword, 'gear', (base, value) => ({ ...base, kind: 'gear', ratio: value }));
+      case 'limit': return this.single(keyword, 'limit', (base, value) => ({ ...base, kind: 'limit', time: value }));
+      case 'wait': return this.single(keyword, 'wait', (base, value) => ({ ...base, kind: 'wait', time: value }));
+      case 'track': return this.track(keyword);
+      case 'motor': return this.motor(keyword);
+      case 'body': return this.body(keyword);
+      case 'field': return this.field(keyword);
+      case 'box': return this.twoCorners(keyword, 'box');
+      case 'zone': return this.twoCorners(keyword, 'zone');
+      case 'circle': return this.circle(keyword);
+      case 'noise': return this.noise(keyword);
+      case 'let': return this.let(keyword);
+      case 'run': return this.run(keyword);
+      case 'start': return this.start(keyword);
+      case 'drive': return this.drive(keyword);
+      case 'turn': return this.turn(keyword);
+      case 'reset': return this.resetYaw(keyword);
+      case 'square': return this.square(keyword);
+      case 'mark': return this.mark(keyword);
+      default: return this.fail(keyword, 'this line could not be read');
+    }
+  }
+
+  // -------------------------------------------------------------------------
+  // Statements
+
+  private plan(keyword: Token): Statement {
+    const title = this.string(NEEDS.plan);
+    return { ...this.finish(keyword, keyword), kind: 'plan', title };
+  }
+
+  private run(keyword: Token): Statement {
+    const name = this.string(NEEDS.run);
+    return { ...this.finish(keyword, keyword), kind: 'run', name };
+  }
+
+  private units(keyword: Token): Statement {
+    const unit = this.word(['mm', 'cm', 'm', 'in'], NEEDS.units) as WordNode<LengthUnitName>;
+    return { ...this.finish(keyword, keyword), kind: 'units', unit };
+  }
+
+  private turns(keyword: Token): Statement {
+    const direction = this.word(['clockwise', 'counterclockwise'], NEEDS.turns) as WordNode<'clockwise' | 'counterclockwise'>;
+    return { ...this.finish(keyword, keyword), kind: 'turns', direction };
+  }
+
+  private yawRange(keyword: Token): Statement {
+    const second = this.secondWord('range', '`yaw` is written `yaw range LO to HI`, e.g. `yaw range -180 to 180`');
+    this.optionWords = OPTIONS.yawRange;
+    const lo = this.expr(NEEDS.yawRange, new Set(['to']));
+    this.separator('to', NEEDS.yawRange);
+    const hi = this.expr(NEEDS.yawRange, NO_STOPS);
+    return { ...this.finish(keyword, second), kind: 'yawRange', lo, hi };
+  }
+
+  private single<S extends Statement>(
+    keyword: Token,
+    kind: 'wheel' | 'gear' | 'limit' | 'wait',
+    build: (base: SharedFields, value: ExprNode) => S,
+  ): S {
+    const value = this.expr(NEEDS[kind], NO_STOPS);
+    return build(this.finish(keyword, keyword), value);
+  }
+
+  private track(keyword: Token): TrackStmt {
+    this.optionWords = OPTIONS.track;
+    const width = this.expr(NEEDS.track, stopsOf(TRACK_OPTIONS));
+    const options = this.options(TRACK_OPTIONS);
+    return { ...this.finish(keyword, keyword), kind: 'track', width, ...optionalExpr('effective', options.effective) };
+  }
+
+  private motor(keyword: Token): MotorStmt {
+    this.optionWords = OPTIONS.motor;
+    const speed = this.expr(NEEDS.motor, stopsOf(MOTOR_OPTIONS));
+    const options = this.options(MOTOR_OPTIONS);
+    return { ...this.finish(keyword, keyword), kind: 'motor', speed, ...optionalExpr('lag', options.lag) };
+  }
+
+  private body(keyword: Token): BodyStmt {
+    this.optionWords = OPTIONS.body;
+    const width = this.expr(NEEDS.body, new Set(['by', 'axle']));
+    this.separator('by', NEEDS.body);
+    const length = this.expr(NEEDS.body, stopsOf(BODY_OPTIONS));
+    const options = this.options(BODY_OPTIONS);
+    return { ...this.finish(keyword, keyword), kind: 'body', width, length, ...optionalExpr('axle', options.axle) };
+  }
+
+  private field(keyword: Token): FieldStmt {
+    this.optionWords = OPTIONS.field;
+    const width = this.expr(NEEDS.field, new Set(['by', 'grid']));
+    this.separator('by', NEEDS.field);
+    const height = this.expr(NEEDS.field, stopsOf(FIELD_OPTIONS));
+    const options = this.options(FIELD_OPTIONS);
+    return { ...this.finish(keyword, keyword), kind: 'field', width, height, ...optionalExpr('grid', options.grid) };
+  }
+
+  private twoCorners<K extends 'box' | 'zone'>(keyword: Token, kind: K): BoxStmt | ZoneStmt {
+    const name = this.string(NEEDS[kind]);
+    const a = this.point(NEEDS[kind]);
+    this.separator('to', NEEDS[kind]);
+    const b = this.point(NEEDS[kind]);
+    return { ...this.finish(keyword, keyword), kind, name, a, b };
+  }
+
+  private circle(keyword: Token): CircleStmt {
+    const name = this.string(NEEDS.circle);
+    const center = this.point(NEEDS.circle);
+    this.separator('radius', NEEDS.circle);
+    const radius = this.expr(NEEDS.circle, NO_STOPS);
+    return { ...this.finish(keyword, keyword), kind: 'circle', name, center, radius };
+  }
+
+  private noise(keyword: Token): NoiseStmt {
+    this.optionWords = OPTIONS.noise;
+    const options = this.options(NOISE_OPTIONS);
+    const statement: NoiseStmt = { ...this.finish(keyword, keyword), kind: 'noise' };
+    for (const name of ['drive', 'turn', 'gyro', 'drift'] as const) {
+      const value = options[name]?.expr;
+      if (value) statement[name] = value;
+    }
+    return statement;
+  }
+
+  private let(keyword: Token): Statement {
+    const name = this.peek();
+    if (!name || name.kind !== 'ident') return this.fail(name ?? keyword, NEEDS.let);
+    this.pos++;
+    const equals = this.peek();
+    if (!equals || equals.text !== '=') {
+      return this.fail(equals ?? name, `expected \`=\` after \`${name.text}\`, e.g. \`let ${name.text} = 250 mm\``);
+    }
+    this.pos++;
+    const value = this.expr(NEEDS.let, NO_STOPS);
+    return {
+      ...this.finish(keyword, keyword),
+      kind: 'let',
+      name: name.text,
+      nameRange: this.range(name.start, name.end),
+      value,
+    };
+  }
+
+  private start(keyword: Token): Statement {
+    this.optionWords = OPTIONS.start;
+    const at = this.point(NEEDS.start);
+    const headingWord = this.peek();
+    if (!headingWord || headingWord.kind !== 'ident' || headingWord.text !== 'heading') {
+      if (headingWord?.kind === 'ident') this.unknownWord(headingWord, ['heading'], () => NEEDS.start);
+      return this.fail(headingWord ?? keyword, NEEDS.start);
+    }
+    this.pos++;
+    const heading = this.expr(NEEDS.start, NO_STOPS, headingWord);
+    this.optionRanges.heading = this.range(headingWord.start, heading.range.end.character);
+    return { ...this.finish(keyword, keyword), kind: 'start', at, heading };
+  }
+
+  private drive(keyword: Token): DriveStmt {
+    this.optionWords = OPTIONS.drive;
+    const distance = this.expr(NEEDS.drive, stopsOf(DRIVE_OPTIONS));
+    const options = this.options(DRIVE_OPTIONS);
+    if (options.step && !options.hold) {
+      this.failRange(this.optionRanges.step, '`step` belongs to `hold`: write the heading to turn onto, e.g. `hold 90 step`');
+    }
+    return {
+      ...this.finish(keyword, keyword),
+      kind: 'drive',
+      distance,
+      step: options.step !== undefined,
+      ...optionalExpr('speed', options.speed),
+      ...optionalExpr('hold', options.hold),
+      ...optionalExpr('gain', options.gain),
+      ...optionalExpr('ramp', options.ramp),
+    };
+  }
+
+  private turn(keyword: Token): TurnStmt {
+    this.optionWords = OPTIONS.turn;
+    const toWord = this.peek();
+    const isTurnTo = toWord?.kind === 'ident' && toWord.text === 'to';
+    if (isTurnTo) this.pos++;
+    const value = this.expr(NEEDS.turn, stopsOf(TURN_OPTIONS));
+    const options = this.options(TURN_OPTIONS);
+    if (options.reverse && !options.arc && !options.ratio) {
+      this.failRange(this.optionRanges.reverse, '`reverse` drives an arc backwards, so it needs `arc` or `ratio`, e.g. `turn 90 arc 200 mm reverse`');
+    }
+    let shape: TurnShapeNode = { kind: 'spin' };
+    if (options.pivot?.word) shape = { kind: 'pivot', side: options.pivot.word.value as 'left' | 'right' };
+    else if (options.arc?.expr) shape = { kind: 'arc', radius: options.arc.expr };
+    else if (options.ratio?.expr) shape = { kind: 'ratio', ratio: options.ratio.expr };
+    return {
+      ...this.finish(keyword, isTurnTo ? toWord : keyword),
+      kind: 'turn',
+      ...(isTurnTo ? { to: value } : { angle: value }),
+      shape,
+      reverse: options.reverse !== undefined,
+      sensing: options.by?.word?.value === 'gyro' ? 'gyro' : 'encoders',
+      ...optionalExpr('speed', options.speed),
+      ...optionalExpr('min', options.min),
+      ...optionalExpr('gain', options.gain),
+      ...optionalExpr('stop', options.stop),
+      ramp: options.ramp !== undefined,
+      reset: options.reset !== undefined,
+    };
+  }
+
+  private resetYaw(keyword: Token): Statement {
+    const second = this.secondWord('yaw', NEEDS.resetYaw);
+    return { ...this.finish(keyword, second), kind: 'resetYaw' };
+  }
+
+  private square(keyword: Token): Statement {
+    this.optionWords = OPTIONS.square;
+    const side = this.word(['front', 'back'], NEEDS.square);
+    const options = this.options(SQUARE_OPTIONS);
+    return {
+      ...this.finish(keyword, keyword),
+      kind: 'square',
+      side: side.value as 'front' | 'back',
+      ...optionalExpr('speed', options.speed),
+    };
+  }
+
+  private mark(keyword: Token): MarkStmt {
+    this.optionWords = OPTIONS.mark;
+    const name = this.string(NEEDS.mark);
+    const options = this.options(MARK_OPTIONS);
+    const statement: MarkStmt = { ...this.finish(keyword, keyword), kind: 'mark', name };
+    if (options.at?.point) statement.at = options.at.point;
+    if (options.heading?.expr) statement.heading = options.heading.expr;
+    if (options.within?.expr) statement.within = options.within.expr;
+    if (options.in?.string) statement.inZone = options.in.string;
+    return statement;
+  }
+
+  // -------------------------------------------------------------------------
+  // Pieces
+
+  /** Fields every statement shares; also rejects anything left on the line. */
+  private finish(keyword: Token, keywordEnd: Token): SharedFields {
+    const stray = this.peek();
+    if (stray) {
+      const last = this.tokens[this.tokens.length - 1];
+      throw new LineProblem(stray.start, last.end,
+        `unexpected \`${abbreviate(this.source.slice(stray.start, last.end))}\` after the end of the statement`);
+    }
+    const last = this.tokens[this.tokens.length - 1];
+    return {
+      line: this.line,
+      range: this.range(keyword.start, last.end),
+      keywordRange: this.range(keyword.start, keywordEnd.end),
+      optionRanges: this.optionRanges,
+    };
+  }
+
+  private secondWord(expected: string, message: string): Token {
+    const token = this.peek();
+    if (!token || token.kind !== 'ident' || token.text !== expected) {
+      if (token?.kind === 'ident') this.unknownWord(token, [expected], () => message);
+      return this.fail(token ?? this.tokens[this.pos - 1], message);
+    }
+    this.pos++;
+    return token;
+  }
+
+  private separator(expected: string, message: string): void {
+    const token = this.peek();
+    if (!token || token.kind !== 'ident' || token.text !== expected) {
+      if (token?.kind === 'ident') this.unknownWord(token, [expected], () => message);
+      this.fail(token ?? this.tokens[this.pos - 1], message);
+    }
+    this.pos++;
+    this.optionRanges[expected] = this.range(token.start, token.end);
+  }
+
+  private string(message: string): StringNode {
+    const token = this.peek();
+    if (!token || token.kind !== 'string') return this.fail(token ?? this.tokens[this.pos - 1], message);
+    this.pos++;
+    return { kind: 'string', value: token.value ?? '', range: this.range(token.start, token.end) };
+  }
+
+  private word(words: readonly string[], message: string): WordNode {
+    const token = this.peek();
+    if (!token || token.kind !== 'ident' || !words.includes(token.text)) {
+      if (token?.kind === 'ident') this.unknownWord(token, words, () => message);
+      return this.fail(token ?? this.tokens[this.pos - 1], message);
+    }
+    this.pos++;
+    return { kind: 'word', value: token.text, range: this.range(token.start, token.end) };
+  }
+
+  private point(message: string): PointNode {
+    const open = this.peek();
+    if (!open || open.text !== '(') return this.fail(open ?? this.tokens[this.pos - 1], message);
+    this.pos++;
+    const pointMessage = 'a point is written `(x, y)`, e.g. `(200, 200)`';
+    const x = this.expr(pointMessage, NO_STOPS, open, true);
+    const comma = this.peek();
+    if (!comma || comma.text !== ',') return this.fail(comma ?? open, pointMessage);
+    this.pos++;
+    const y = this.expr(pointMessage, NO_STOPS, comma, true);
+    const close = this.peek();
+    if (!close || close.text !== ')') {
+      if (!close) this.fail(open, 'this `(` is never closed: add `)` after the point\'s y value');
+      return this.fail(close, pointMessage);
+    }
+    this.pos++;
+    return { kind: 'point', x, y, range: this.range(open.start, close.end) };
+  }
+
+  /**
+   * An expression up to the next stop word at depth 0 (when it is not an operand
+   * of an operator), a `,` or `)` at depth 0, a string, or the end of the line.
+   * `before` is the token a missing value is reported on.
+   */
+  private expr(message: string, stops: ReadonlySet<string>, before?: Token, inPoint = false): ExprNode {
+    const first = this.pos;
+    const openParens: Token[] = [];
+    while (this.pos < this.tokens.length) {
+      const token = this.tokens[this.pos];
+      if (openParens.length === 0) {
+        if (token.text === ')' || token.text === ',' || token.kind === 'string') break;
+        if (token.kind === 'ident' && this.inOptionPlace(first)) {
+          if (stops.has(token.text) && this.startsOption(first)) break;
+          if (!inPoint && this.pos > first) this.checkMisspeltOption(token);
+        }
+      }
+      if (token.text === '(') openParens.push(token);
+      else if (token.text === ')') openParens.pop();
+      this.pos++;
+    }
+    if (openParens.length > 0) {
+      this.fail(openParens[openParens.length - 1], 'this `(` is never closed: add the matching `)`');
+    }
+    if (this.pos === first) {
+      return this.fail(this.tokens[this.pos] ?? before ?? this.tokens[this.pos - 1], message);
+    }
+    const start = this.tokens[first].start;
+    const end = this.tokens[this.pos - 1].end;
+    return { kind: 'expr', text: this.source.slice(start, end), range: this.range(start, end) };
+  }
+
+  /** An identifier after an operator is an operand (`deg/min`, `2 * speed`), never an option. */
+  private inOptionPlace(first: number): boolean {
+    if (this.pos === first) return true;
+    const previous = this.tokens[this.pos - 1];
+    return !(previous.kind === 'symbol' && OPERATOR_ENDINGS.has(previous.text[previous.text.length - 1]));
+  }
+
+  private startsOption(first: number): boolean {
+    const token = this.tokens[this.pos];
+    const following = this.tokens[this.pos + 1];
+    // An empty value followed by `min(...)` is a call, not a missing value.
+    if (this.pos === first && following?.text === '(' && following.start === token.end) return false;
+    // `within 2 in` ends in a unit; `in` as an option always names a zone.
+    if (token.text === 'in') return following?.kind === 'string';
+    return true;
+  }
+
+  private checkMisspeltOption(token: Token): void {
+    if (this.letNames.has(token.text) || isMathName(token.text)) return;
+    this.unknownWord(token, this.optionWords);
+  }
+
+  /** Reads the options (and flags and shapes) after a statement's fixed part. */
+  private options(specs: OptionSpecs): Partial<Record<string, OptionResult>> {
+    const results: Partial<Record<string, OptionResult>> = {};
+    const stops = stopsOf(specs);
+    let shape: Token | undefined;
+    while (this.pos < this.tokens.length) {
+      const name = this.tokens[this.pos];
+      const spec = name.kind === 'ident' && Object.prototype.hasOwnProperty.call(specs, name.text)
+        ? specs[name.text] : undefined;
+      if (!spec) {
+        const known = Object.keys(specs);
+        if (name.kind === 'ident') this.unknownWord(name, known);
+        const takes = known.length > 0 ? `; options here: ${known.map((word) => `\`${word}\``).join(', ')}` : '';
+        this.fail(name, `unexpected \`${abbreviate(name.text)}\`${takes}`);
+      }
+      const earlier = this.optionRanges[name.text];
+      if (earlier) {
+        throw new LineProblem(name.start, name.end, `\`${name.text}\` is given twice; keep one`, undefined,
+          { start: earlier.start.character, end: earlier.end.character, message: `first \`${name.text}\` here` });
+      }
+      if (spec.group === 'shape') {
+        if (shape) {
+          throw new LineProblem(name.start, name.end,
+            `a turn has one shape, but \`${name.text}\` comes after \`${shape.text}\`: keep one of spin, pivot left|right, arc R, ratio Q`,
+            undefined, { start: shape.start, end: shape.end, message: `\`${shape.text}\` here` });
+        }
+        shape = name;
+      }
+      this.pos++;
+      const needs = `\`${name.text}\` needs a value, e.g. \`${spec.example}\``;
+      const result: OptionResult = {};
+      switch (spec.value.kind) {
+        case 'flag': break;
+        case 'expr': result.expr = this.expr(needs, stops, name); break;
+        case 'point': result.point = this.point(needs); break;
+        case 'string': result.string = this.string(needs); break;
+        case 'word': result.word = this.word(spec.value.words, `\`${name.text}\` takes ${spec.value.words.map((word) => `\`${word}\``).join(' or ')}, e.g. \`${spec.example}\``); break;
+      }
+      results[name.text] = result;
+      this.optionRanges[name.text] = this.range(name.start, this.tokens[this.pos - 1].end);
+    }
+    return results;
+  }
+
+  /** Fails with a did-you-mean fix when `token` is a case change or a slip of the pen from a candidate. */
+  private unknownWord(token: Token, candidates: readonly string[], otherwise?: () => string): void {
+    const suggestion = suggestWord(token.text, candidates);
+    if (suggestion !== undefined) {
+      throw new LineProblem(token.start, token.end,
+        `unknown word \`${abbreviate(token.text)}\`: did you mean \`${suggestion}\`?`,
+        [{
+          title: `Change to \`${suggestion}\``,
+          edits: [{ range: this.range(token.start, token.end), newText: suggestion }],
+          preferred: true,
+        }]);
+    }
+    if (otherwise) this.fail(token, otherwise());
+  }
+
+  private peek(): Token | undefined {
+    return this.tokens[this.pos];
+  }
+
+  private next(): Token {
+    return this.tokens[this.pos++];
+  }
+
+  private fail(token: Token, message: string): never {
+    throw new LineProblem(token.start, token.end, message);
+  }
+
+  private failRange(range: Range | undefined, message: string): never {
+    throw new LineProblem(range?.start.character ?? 0, range?.end.character ?? 0, message);
+  }
+
+  private range(start: number, end: number): Range {
+    return span(this.line, start, end);
+  }
+}
+
+function stopsOf(specs: OptionSpecs): ReadonlySet<string> {
+  return new Set(Object.keys(specs));
+}
+
+function optionalExpr<K extends string>(name: K, result: OptionResult | undefined): Partial<Record<K, ExprNode>> {
+  return result?.expr ? ({ [name]: result.expr } as Record<K, ExprNode>) : {};
+}
+
+/** Keeps messages readable when the offending text is a whole line of junk. */
+function abbreviate(text: string): string {
+  return text.length > 40 ? `${text.slice(0, 37)}...` : text;
+}

@@ -1,0 +1,273 @@
+// Expressions and units: one sandboxed math.js instance, compiled expressions
+// cached by their text so a re-check after a keystroke only compiles what
+// changed.
+import { create, all, type MathNode, type EvalFunction, type Unit } from 'mathjs';
+import type { Dimension, LengthUnitName } from '../types';
+
+const math = create(all, {});
+math.createUnit('rpm', '360 deg/min');
+
+// Kept before the sandbox below replaces them on the instance.
+const parseExpression = math.parse.bind(math);
+const UnitClass = math.Unit;
+
+// Sandbox, as math.js's security notes recommend: plan text may not alter the
+// instance or parse/compile new expressions from strings at run time.
+const disabled = (name: string) => () => {
+  throw new Error(`the function ${name} is not available in plan files`);
+};
+math.import(
+  Object.fromEntries(
+    ['import', 'createUnit', 'evaluate', 'parse', 'compile', 'simplify', 'derivative', 'resolve', 'reviver', 'replacer', 'chain', 'parser', 'splitUnit']
+      .map((n) => [n, disabled(n)]),
+  ),
+  { override: true },
+);
+
+/** Names that plan text may not bind with `let`: math.js functions, constants and units. */
+export function isMathName(name: string): boolean {
+  if (isUnitName(name)) return true;
+  return Object.prototype.hasOwnProperty.call(math, name) || name in math;
+}
+
+export function isUnitName(name: string): boolean {
+  try {
+    return UnitClass.isValuelessUnit(name);
+  } catch {
+    return false;
+  }
+}
+
+export const LENGTH_UNIT_MM: Record<LengthUnitName, number> = { mm: 1, cm: 10, m: 1000, in: 25.4 };
+
+type MathValue = number | Unit;
+
+interface Compiled {
+  ok: true;
+  code: EvalFunction;
+  /** Free names that are neither units nor math.js names: must come from `let`. */
+  freeNames: string[];
+  percent: boolean;
+}
+interface CompileError {
+  ok: false;
+  message: string;
+}
+
+/**
+ * Compiled expressions by source text. Keep one per document (the editor) or
+ * share one across files (the command line); it only grows with distinct
+ * texts, and is bounded.
+ */
+export class ExpressionCache {
+  private readonly map = new Map<string, Compiled | CompileError>();
+  hits = 0;
+  misses = 0;
+  constructor(private readonly capacity = 20000) {}
+
+  get(text: string): Compiled | CompileError {
+    const found = this.map.get(text);
+    if (found) {
+      this.hits++;
+      return found;
+    }
+    this.misses++;
+    const made = compileExpression(text);
+    if (this.map.size >= this.capacity) this.map.clear();
+    this.map.set(text, made);
+    return made;
+  }
+}
+
+function compileExpression(text: string): Compiled | CompileError {
+  let node: MathNode;
+  try {
+    node = parseExpression(text);
+  } catch (e) {
+    return { ok: false, message: (e as Error).message };
+  }
+  const freeNames = new Set<string>();
+  let percent = false;
+  let forbidden: string | undefined;
+  // `min` is a function and a unit: where it is not called, it is the unit
+  // (so `deg/min` works).
+  const transformed = node.transform((n: MathNode, path: string) => {
+    if ((n as { isPercentage?: boolean }).isPercentage) percent = true;
+    if (n.type === 'AssignmentNode' || n.type === 'FunctionAssignmentNode' || n.type === 'BlockNode') {
+      forbidden = 'assignments';
+    }
+    if (n.type === 'SymbolNode' && path !== 'fn') {
+      const name = (n as unknown as { name: string }).name;
+      if (isUnitName(name) && typeof (math as unknown as Record<string, unknown>)[name] === 'function') {
+        return new math.ConstantNode(math.unit(1, name) as unknown as number);
+      }
+      if (!isUnitName(name) && !(name in math)) freeNames.add(name);
+    }
+    return n;
+  });
+  if (forbidden) return { ok: false, message: `${forbidden} are not allowed in an expression; use \`let NAME = value\`` };
+  try {
+    return { ok: true, code: transformed.compile(), freeNames: [...freeNames], percent };
+  } catch (e) {
+    return { ok: false, message: (e as Error).message };
+  }
+}
+
+/** What a value position accepts, and how a bare number there is read. */
+export type Expected =
+  | 'length' | 'angle' | 'time' | 'acceleration' | 'angularSpeed' | 'number' | 'fraction' | 'gain'
+  /** A power fraction or a linear speed (drive `speed`). */
+  | 'power|speed';
+
+export interface EvalContext {
+  lengthUnit: LengthUnitName;
+  scope: Map<string, MathValue>;
+}
+
+export type EvalOutcome =
+  | { ok: true; value: number; dimension: Dimension; raw: MathValue }
+  | { ok: false; code: 'unit' | 'name' | 'syntax'; message: string; name?: string };
+
+const DIMENSION_LABEL: Record<Dimension, string> = {
+  number: 'a plain number',
+  length: 'a length',
+  angle: 'an angle',
+  time: 'a time',
+  speed: 'a speed (length per time)',
+  angularSpeed: 'an angular speed (angle per time)',
+  acceleration: 'an acceleration (length per time squared)',
+  fraction: 'a fraction or percentage',
+};
+
+const EXPECTED_LABEL: Record<Expected, string> = {
+  length: 'a length such as `300 mm`',
+  angle: 'an angle such as `90 deg`',
+  time: 'a time such as `2 s`',
+  acceleration: 'an acceleration such as `800 mm/s^2`',
+  angularSpeed: 'an angular speed such as `900 deg/s` or `150 rpm`',
+  number: 'a plain number',
+  fraction: 'a percentage such as `50%`',
+  gain: 'a gain in % power per degree, such as `1.5`',
+  'power|speed': 'a power such as `60%` or a speed such as `300 mm/s`',
+};
+
+/** The dimension of a math.js value, or undefined when the plan language has no name for it. */
+export function dimensionOf(v: MathValue): Dimension | undefined {
+  if (typeof v === 'number') return 'number';
+  if (!v || typeof v !== 'object' || !('dimensions' in v)) return undefined;
+  const d = (v as Unit).dimensions;
+  const [mass, length, time, current, temp, lum, amount, angle, bit] = d;
+  if (mass || current || temp || lum || amount || bit) return undefined;
+  if (angle === 0 && length === 1 && time === 0) return 'length';
+  if (angle === 0 && length === 1 && time === -1) return 'speed';
+  if (angle === 0 && length === 1 && time === -2) return 'acceleration';
+  if (angle === 0 && length === 0 && time === 1) return 'time';
+  if (angle === 1 && length === 0 && time === 0) return 'angle';
+  if (angle === 1 && length === 0 && time === -1) return 'angularSpeed';
+  if (angle === 0 && length === 0 && time === -1) return 'angularSpeed'; // e.g. `1/s`? not an angle rate
+  return undefined;
+}
+
+function unitNumber(v: Unit, unit: string): number {
+  return (v as Unit).toNumber(unit);
+}
+
+/**
+ * Evaluates `text` where a value of `expected` kind belongs, returning it in
+ * canonical units (mm, deg, s, mm/s, deg/s, mm/s^2, fraction 0..1).
+ */
+export function evaluateExpr(cache: ExpressionCache, text: string, expected: Expected, ctx: EvalContext): EvalOutcome {
+  const compiled = cache.get(text);
+  if (!compiled.ok) return { ok: false, code: 'syntax', message: `cannot read the expression \`${text}\`: ${compiled.message}` };
+  for (const name of compiled.freeNames) {
+    if (!ctx.scope.has(name)) return { ok: false, code: 'name', name, message: `unknown name \`${name}\`` };
+  }
+  let raw: MathValue;
+  try {
+    raw = compiled.code.evaluate(ctx.scope) as MathValue;
+  } catch (e) {
+    const msg = (e as Error).message;
+    if (/Unit|unit/.test(msg)) return { ok: false, code: 'unit', message: `\`${text}\`: ${msg}` };
+    return { ok: false, code: 'syntax', message: `cannot evaluate \`${text}\`: ${msg}` };
+  }
+  if (typeof raw !== 'number' && !(raw && typeof raw === 'object' && 'dimensions' in raw)) {
+    return { ok: false, code: 'unit', message: `\`${text}\` is not a single number or quantity` };
+  }
+  let dim = dimensionOf(raw);
+  if (dim === 'number' && compiled.percent) dim = 'fraction';
+  if (typeof raw === 'number' && !Number.isFinite(raw)) {
+    return { ok: false, code: 'unit', message: `\`${text}\` is not a finite number` };
+  }
+  return coerce(raw, dim, expected, text, ctx);
+}
+
+function coerce(raw: MathValue, dim: Dimension | undefined, expected: Expected, text: string, ctx: EvalContext): EvalOutcome {
+  const lenFactor = LENGTH_UNIT_MM[ctx.lengthUnit];
+  const ok = (value: number, dimension: Dimension): EvalOutcome =>
+    Number.isFinite(value) ? { ok: true, value, dimension, raw } : { ok: false, code: 'unit', message: `\`${text}\` is not a finite number` };
+  const n = typeof raw === 'number' ? raw : NaN;
+  switch (expected) {
+    case 'length':
+      if (dim === 'number') return ok(n * lenFactor, 'length');
+      if (dim === 'length') return ok(unitNumber(raw as Unit, 'mm'), 'length');
+      break;
+    case 'angle':
+      if (dim === 'number') return ok(n, 'angle');
+      if (dim === 'angle') return ok(unitNumber(raw as Unit, 'deg'), 'angle');
+      break;
+    case 'time':
+      if (dim === 'number') return ok(n, 'time');
+      if (dim === 'time') return ok(unitNumber(raw as Unit, 's'), 'time');
+      break;
+    case 'acceleration':
+      if (dim === 'number') return ok(n * lenFactor, 'acceleration');
+      if (dim === 'acceleration') return ok(unitNumber(raw as Unit, 'mm/s^2'), 'acceleration');
+      break;
+    case 'angularSpeed':
+      if (dim === 'number') return ok(n, 'angularSpeed');
+      if (dim === 'angularSpeed' && (raw as Unit).dimensions[7] === 1) return ok(unitNumber(raw as Unit, 'deg/s'), 'angularSpeed');
+      break;
+    case 'number':
+      if (dim === 'number') return ok(n, 'number');
+      break;
+    case 'gain':
+      // `gain 2` and `gain 2%` both mean 2 % power per degree.
+      if (dim === 'number') return ok(n, 'number');
+      if (dim === 'fraction') return ok(n * 100, 'number');
+      break;
+    case 'fraction':
+      if (dim === 'fraction') return ok(n, 'fraction');
+      // A bare number where a power belongs is read as percent: `speed 60` is 60 %.
+      if (dim === 'number') return ok(n / 100, 'fraction');
+      break;
+    case 'power|speed':
+      if (dim === 'fraction') return ok(n, 'fraction');
+      if (dim === 'number') return ok(n / 100, 'fraction');
+      if (dim === 'speed') return ok(unitNumber(raw as Unit, 'mm/s'), 'speed');
+      break;
+  }
+  const got = dim ? DIMENSION_LABEL[dim] : `a quantity of unit ${(raw as Unit).formatUnits?.() ?? '?'}`;
+  return { ok: false, code: 'unit', message: `expected ${EXPECTED_LABEL[expected]}, but \`${text}\` is ${got}` };
+}
+
+/** A value in the file's own units, for hovers and messages. */
+export function displayValue(value: number, dimension: Dimension, lengthUnit: LengthUnitName): string {
+  const f = LENGTH_UNIT_MM[lengthUnit];
+  switch (dimension) {
+    case 'length': return `${fmt(value / f)} ${lengthUnit}`;
+    case 'angle': return `${fmt(value)}°`;
+    case 'time': return `${fmt(value)} s`;
+    case 'speed': return `${fmt(value / f)} ${lengthUnit}/s`;
+    case 'acceleration': return `${fmt(value / f)} ${lengthUnit}/s²`;
+    case 'angularSpeed': return `${fmt(value)}°/s`;
+    case 'fraction': return `${fmt(value * 100)} %`;
+    case 'number': return fmt(value);
+  }
+}
+
+/** Rounds for display: at most 2 decimals, no trailing zeros. */
+export function fmt(v: number, decimals = 2): string {
+  if (!Number.isFinite(v)) return String(v);
+  const r = Number(v.toFixed(decimals));
+  return String(Object.is(r, -0) ? 0 : r);
+}

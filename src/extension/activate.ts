@@ -1,0 +1,29 @@
+// Entry point of the VS Code extension: wires each feature adapter to the
+// shared per-document analysis.
+import * as vscode from 'vscode';
+import { registerAnalysis } from './analysis';
+import { registerCodeActions } from './codeActions';
+import { registerCompletion } from './completion';
+import { setExtensionUri } from './convert';
+import { registerDiagnostics } from './diagnostics';
+import { registerHover } from './hover';
+import { registerInlayHints } from './inlayHints';
+import { registerNewPlan } from './newPlan';
+import { registerPreview } from './preview';
+import { registerStatusBar } from './statusBar';
+import { registerSymbols } from './symbols';
+
+export function activate(context: vscode.ExtensionContext): void {
+  setExtensionUri(context.extensionUri);
+  // Subscribers first, so the analyses of already open plans reach them.
+  registerDiagnostics(context);
+  registerInlayHints(context);
+  registerStatusBar(context);
+  registerPreview(context);
+  registerHover(context);
+  registerSymbols(context);
+  registerCompletion(context);
+  registerCodeActions(context);
+  registerNewPlan(context);
+  registerAnalysis(context);
+}

@@ -1,0 +1,299 @@
+// The path preview's host side: one webview panel beside the editor that
+// follows the active plan, renders the core's SVG for it, keeps the drawing
+// and the text linked both ways, exports, and comes back after a reload.
+import { randomBytes } from 'crypto';
+import * as vscode from 'vscode';
+import { renderSvg } from '../core';
+import {
+  buildRenderMessage,
+  parsePreviewMessage,
+  type DocumentStamp,
+  type HostMessage,
+  type PreviewMessage,
+} from '../shared/messages';
+import { getAnalysis, isPlan, onDidAnalyse } from './analysis';
+
+export const PREVIEW_VIEW_TYPE = 'veer.preview';
+export const OPEN_PREVIEW_COMMAND = 'veer.openPreview';
+
+/** The cursor highlight follows selection changes at most this often, ms. */
+const CURSOR_THROTTLE_MS = 50;
+const DEFAULT_DELAY_MS = 100;
+const PNG_SIGNATURE = [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a];
+
+let current: PathPreview | undefined;
+
+export function registerPreview(context: vscode.ExtensionContext): void {
+  const mediaRoot = vscode.Uri.joinPath(context.extensionUri, 'media');
+  context.subscriptions.push(
+    vscode.commands.registerCommand(OPEN_PREVIEW_COMMAND, async (resource?: unknown) => {
+      const document = await planToPreview(resource);
+      if (!document) {
+        void vscode.window.showInformationMessage('Open a Veer plan (.veer) to preview its path.');
+        return;
+      }
+      if (current) {
+        current.reveal();
+      } else {
+        const panel = vscode.window.createWebviewPanel(
+          PREVIEW_VIEW_TYPE,
+          'Path Preview',
+          { viewColumn: vscode.ViewColumn.Beside, preserveFocus: true },
+          webviewOptions(mediaRoot),
+        );
+        current = new PathPreview(panel, mediaRoot);
+      }
+      current.show(document);
+    }),
+    vscode.window.registerWebviewPanelSerializer(PREVIEW_VIEW_TYPE, {
+      async deserializeWebviewPanel(panel: vscode.WebviewPanel, state: unknown) {
+        panel.webview.options = webviewOptions(mediaRoot);
+        current?.dispose();
+        current = new PathPreview(panel, mediaRoot);
+        const restored = restoredState(state);
+        const document = restored ? await openDocument(restored.uri) : undefined;
+        if (document) current.show(document, restored?.run);
+      },
+    }),
+    vscode.window.onDidChangeActiveTextEditor((editor) => {
+      if (editor && isPlan(editor.document)) current?.show(editor.document);
+    }),
+    vscode.workspace.onDidChangeTextDocument((event) => current?.documentChanged(event.document)),
+    onDidAnalyse((analysis) => current?.analysed(analysis.uri, analysis.version)),
+    vscode.window.onDidChangeTextEditorSelection((event) => current?.selectionChanged(event.textEditor)),
+    { dispose: () => current?.dispose() },
+  );
+}
+
+function webviewOptions(mediaRoot: vscode.Uri): vscode.WebviewOptions & vscode.WebviewPanelOptions {
+  return { enableScripts: true, localResourceRoots: [mediaRoot] };
+}
+
+async function planToPreview(resource: unknown): Promise<vscode.TextDocument | undefined> {
+  // From the editor title button the command gets the file's URI.
+  if (resource instanceof vscode.Uri) {
+    const document = await openDocument(resource.toString());
+    if (document && isPlan(document)) return document;
+  }
+  const active = vscode.window.activeTextEditor?.document;
+  if (active && isPlan(active)) return active;
+  return vscode.window.visibleTextEditors.map((e) => e.document).find(isPlan);
+}
+
+async function openDocument(uri: string): Promise<vscode.TextDocument | undefined> {
+  try {
+    return await vscode.workspace.openTextDocument(vscode.Uri.parse(uri, true));
+  } catch {
+    return undefined;
+  }
+}
+
+/** The webview's saved state is untrusted data: keep only the fields the host needs. */
+function restoredState(state: unknown): { uri: string; run: number } | undefined {
+  if (typeof state !== 'object' || state === null) return undefined;
+  const s = state as Record<string, unknown>;
+  if (typeof s.uri !== 'string' || s.uri === '') return undefined;
+  return { uri: s.uri, run: typeof s.run === 'number' && Number.isInteger(s.run) ? s.run : -1 };
+}
+
+export function previewHtml(webview: vscode.Webview, mediaRoot: vscode.Uri): string {
+  const nonce = randomBytes(18).toString('base64');
+  const css = webview.asWebviewUri(vscode.Uri.joinPath(mediaRoot, 'preview.css'));
+  const script = webview.asWebviewUri(vscode.Uri.joinPath(mediaRoot, 'preview.js'));
+  const csp = [
+    "default-src 'none'",
+    `img-src ${webview.cspSource} data:`,
+    `style-src ${webview.cspSource}`,
+    `script-src 'nonce-${nonce}'`,
+  ].join('; ');
+  return `<!DOCTYPE html>
+<html lang="en">
+<head>
+<meta charset="UTF-8">
+<meta http-equiv="Content-Security-Policy" content="${csp}">
+<meta name="viewport" content="width=device-width, initial-scale=1.0">
+<link rel="stylesheet" href="${css.toString()}">
+<title>Path Preview</title>
+</head>
+<body>
+<script nonce="${nonce}" src="${script.toString()}"></script>
+</body>
+</html>`;
+}
+
+class PathPreview implements vscode.Disposable {
+  private document: vscode.TextDocument | undefined;
+  private run = -1;
+  /** What the webview was last sent; its messages about anything else are stale. */
+  private posted: DocumentStamp | undefined;
+  private renderTimer: ReturnType<typeof setTimeout> | undefined;
+  private cursorTimer: ReturnType<typeof setTimeout> | undefined;
+  private cursorPending = false;
+  private readonly disposables: vscode.Disposable[] = [];
+  private disposed = false;
+
+  constructor(private readonly panel: vscode.WebviewPanel, mediaRoot: vscode.Uri) {
+    panel.webview.html = previewHtml(panel.webview, mediaRoot);
+    this.disposables.push(
+      panel.webview.onDidReceiveMessage((raw: unknown) => {
+        const message = parsePreviewMessage(raw);
+        if (message) void this.onMessage(message);
+      }),
+      panel.onDidDispose(() => this.dispose()),
+    );
+  }
+
+  reveal(): void {
+    this.panel.reveal(undefined, true);
+  }
+
+  show(document: vscode.TextDocument, run = -1): void {
+    if (this.document?.uri.toString() !== document.uri.toString()) {
+      this.document = document;
+      this.run = run;
+      this.posted = undefined;
+    }
+    this.panel.title = `Preview ${basename(document.uri)}`;
+    this.renderNow();
+    this.postCursor();
+  }
+
+  documentChanged(document: vscode.TextDocument): void {
+    if (!this.isPreviewing(document.uri)) return;
+    this.document = document;
+    if (this.renderTimer) clearTimeout(this.renderTimer);
+    const delay = vscode.workspace.getConfiguration('veer', document).get<number>('preview.delay', DEFAULT_DELAY_MS);
+    this.renderTimer = setTimeout(() => this.renderNow(), Math.max(0, delay));
+  }
+
+  /** Another feature checked the plan: draw it unless this version is already shown. */
+  analysed(uri: vscode.Uri, version: number): void {
+    if (this.isPreviewing(uri) && (this.posted?.version ?? -1) < version && this.document?.version === version) this.renderNow();
+  }
+
+  selectionChanged(editor: vscode.TextEditor): void {
+    if (!this.isPreviewing(editor.document.uri)) return;
+    if (this.cursorTimer) {
+      this.cursorPending = true;
+      return;
+    }
+    this.postCursor(editor);
+    this.cursorTimer = setTimeout(() => {
+      this.cursorTimer = undefined;
+      if (this.cursorPending) {
+        this.cursorPending = false;
+        this.postCursor();
+      }
+    }, CURSOR_THROTTLE_MS);
+  }
+
+  dispose(): void {
+    if (this.disposed) return;
+    this.disposed = true;
+    if (current === this) current = undefined;
+    if (this.renderTimer) clearTimeout(this.renderTimer);
+    if (this.cursorTimer) clearTimeout(this.cursorTimer);
+    this.disposables.forEach((d) => d.dispose());
+    this.panel.dispose();
+  }
+
+  private isPreviewing(uri: vscode.Uri): boolean {
+    return !this.disposed && this.document?.uri.toString() === uri.toString();
+  }
+
+  private editorOf(document: vscode.TextDocument): vscode.TextEditor | undefined {
+    const uri = document.uri.toString();
+    const active = vscode.window.activeTextEditor;
+    if (active?.document.uri.toString() === uri) return active;
+    return vscode.window.visibleTextEditors.find((e) => e.document.uri.toString() === uri);
+  }
+
+  private post(message: HostMessage): void {
+    if (!this.disposed) void this.panel.webview.postMessage(message);
+  }
+
+  private renderNow(): void {
+    if (this.renderTimer) clearTimeout(this.renderTimer);
+    this.renderTimer = undefined;
+    const document = this.document;
+    if (!document || this.disposed) return;
+    const { result, version } = getAnalysis(document);
+    if (this.run >= result.runs.length) this.run = -1;
+    const svg = renderSvg(result, { standalone: false, ...runOption(this.run) });
+    const message = buildRenderMessage(result, { uri: document.uri.toString(), version }, this.run, svg);
+    this.posted = { uri: message.uri, version: message.version };
+    this.post(message);
+  }
+
+  private postCursor(editor = this.document && this.editorOf(this.document)): void {
+    if (!editor || !this.posted) return;
+    this.post({ type: 'cursor', uri: editor.document.uri.toString(), version: editor.document.version, line: editor.selection.active.line });
+  }
+
+  private async onMessage(message: PreviewMessage): Promise<void> {
+    if (message.type === 'ready') {
+      // The webview (re)loaded, e.g. after being hidden: it has nothing drawn.
+      this.posted = undefined;
+      this.renderNow();
+      this.postCursor();
+      return;
+    }
+    const document = this.document;
+    if (!document || !this.posted || message.uri !== this.posted.uri) return;
+    switch (message.type) {
+      case 'reveal':
+        if (message.version === this.posted.version && message.line < document.lineCount) await this.revealLine(document, message.line);
+        return;
+      case 'selectRun':
+        this.run = message.run;
+        this.renderNow();
+        return;
+      case 'exportSvg': {
+        const svg = renderSvg(getAnalysis(document).result, { standalone: true, ...runOption(this.run) });
+        await this.save(document, 'svg', new TextEncoder().encode(svg));
+        return;
+      }
+      case 'exportPng': {
+        const bytes = Buffer.from(message.base64, 'base64');
+        if (!PNG_SIGNATURE.every((b, i) => bytes[i] === b)) return;
+        await this.save(document, 'png', bytes);
+        return;
+      }
+    }
+  }
+
+  private async revealLine(document: vscode.TextDocument, line: number): Promise<void> {
+    const text = document.lineAt(line);
+    const selection = new vscode.Selection(line, text.firstNonWhitespaceCharacterIndex, line, text.range.end.character);
+    const column = this.editorOf(document)?.viewColumn ?? vscode.ViewColumn.One;
+    const editor = await vscode.window.showTextDocument(document, { viewColumn: column, selection, preserveFocus: false });
+    editor.revealRange(selection, vscode.TextEditorRevealType.InCenterIfOutsideViewport);
+  }
+
+  /** The save dialog asks before replacing an existing file; nothing is written without it. */
+  private async save(document: vscode.TextDocument, extension: 'svg' | 'png', bytes: Uint8Array): Promise<void> {
+    const runName = this.run >= 0 ? getAnalysis(document).result.runs[this.run]?.name : undefined;
+    const stem = basename(document.uri).replace(/\.veer$/i, '') + (runName ? `-${safeFileName(runName)}` : '');
+    const target = await vscode.window.showSaveDialog({
+      defaultUri: vscode.Uri.joinPath(document.uri, '..', `${stem}.${extension}`),
+      filters: extension === 'svg' ? { 'SVG drawing': ['svg'] } : { 'PNG image': ['png'] },
+      saveLabel: `Export ${extension.toUpperCase()}`,
+      title: `Export the path drawing as ${extension.toUpperCase()}`,
+    });
+    if (!target) return;
+    await vscode.workspace.fs.writeFile(target, bytes);
+    void vscode.window.showInformationMessage(`Saved the path drawing to ${vscode.workspace.asRelativePath(target)}.`);
+  }
+}
+
+function runOption(run: number): { run?: number } {
+  return run >= 0 ? { run } : {};
+}
+
+function basename(uri: vscode.Uri): string {
+  return uri.path.split('/').pop() || uri.toString();
+}
+
+function safeFileName(name: string): string {
+  return name.replace(/[^\p{L}\p{N}_-]+/gu, '-').replace(/^-+|-+$/g, '').slice(0, 60) || 'run';
+}

@@ -1,0 +1,284 @@
+// The path preview's webview: shows the SVG the host rendered with the core,
+// links it to the editor (cursor highlight, click to reveal, hover numbers),
+// and offers zoom, pan, a run selector and export. No geometry here: the
+// drawing comes whole from the core's renderer.
+import {
+  parseHostMessage,
+  type CursorMessage,
+  type PreviewMessage,
+  type RenderMessage,
+  type SegmentSummary,
+} from '../shared/messages';
+import { rasterise } from './rasterise';
+import { importSvg } from './safeSvg';
+import { tooltipLines } from './tooltip';
+import { formatViewBox, isViewBox, panBy, parseViewBox, zoomAbout, type ViewBox } from './viewport';
+
+/** What survives a window reload (the host's serializer gets it too). */
+interface PreviewState {
+  uri: string;
+  version: number;
+  run: number;
+  /** Absent while the drawing is fitted to the panel. */
+  view?: ViewBox;
+}
+
+interface VsCodeApi {
+  postMessage(message: PreviewMessage): void;
+  getState(): unknown;
+  setState(state: PreviewState): void;
+}
+
+declare function acquireVsCodeApi(): VsCodeApi;
+
+/** The renderer sizes strokes and text for a drawing this many CSS pixels wide. */
+const RENDER_WIDTH_PX = 1000;
+/** Large background shapes: a click on them is a click on empty field, not on a plan line. */
+const NOT_REVEALED = '.field, .grid';
+/** A press that moves less than this many pixels is a click, not a drag. */
+const CLICK_SLOP_PX = 4;
+const BUTTON_ZOOM_FACTOR = 1.5;
+
+function readState(value: unknown): PreviewState | undefined {
+  if (typeof value !== 'object' || value === null) return undefined;
+  const s = value as Record<string, unknown>;
+  if (typeof s.uri !== 'string' || typeof s.version !== 'number' || typeof s.run !== 'number') return undefined;
+  return { uri: s.uri, version: s.version, run: s.run, ...(isViewBox(s.view) ? { view: s.view } : {}) };
+}
+
+function element<K extends keyof HTMLElementTagNameMap>(tag: K, props: Partial<HTMLElementTagNameMap[K]> = {}): HTMLElementTagNameMap[K] {
+  return Object.assign(document.createElement(tag), props);
+}
+
+class Preview {
+  private readonly api = acquireVsCodeApi();
+  private state: PreviewState = readState(this.api.getState()) ?? { uri: '', version: -1, run: -1 };
+  private svg: SVGSVGElement | undefined;
+  private fit: ViewBox | undefined;
+  private segments = new Map<string, SegmentSummary>();
+  private currentLine: number | undefined;
+
+  private readonly title = element('span', { className: 'title' });
+  private readonly counts = element('span', { className: 'counts' });
+  private readonly runSelect = element('select', { className: 'run-select', title: 'Run to draw' });
+  private readonly stage = element('div', { className: 'stage' });
+  private readonly tooltip = element('div', { className: 'tooltip' });
+  private readonly status = element('div', { className: 'status', textContent: 'Waiting for the plan…' });
+  private readonly notice = element('span', { className: 'notice' });
+
+  constructor() {
+    const button = (label: string, title: string, action: () => void): HTMLButtonElement => {
+      const b = element('button', { type: 'button', textContent: label, title });
+      b.dataset.action = label.toLowerCase();
+      b.addEventListener('click', action);
+      return b;
+    };
+    this.runSelect.hidden = true;
+    this.runSelect.setAttribute('aria-label', 'Run to draw');
+    this.runSelect.addEventListener('change', () => this.post({ type: 'selectRun', ...this.stamp(), run: Number(this.runSelect.value) }));
+    const toolbar = element('div', { className: 'toolbar' });
+    toolbar.setAttribute('role', 'toolbar');
+    toolbar.append(
+      this.title, this.runSelect, this.counts, this.notice, element('span', { className: 'spacer' }),
+      button('Fit', 'Fit the drawing to the panel', () => this.setView(undefined)),
+      button('+', 'Zoom in', () => this.zoomCentre(BUTTON_ZOOM_FACTOR)),
+      button('−', 'Zoom out', () => this.zoomCentre(1 / BUTTON_ZOOM_FACTOR)),
+      button('SVG', 'Export the drawing as an SVG file', () => this.post({ type: 'exportSvg', ...this.stamp() })),
+      button('PNG', 'Export the drawing as a PNG image', () => void this.exportPng()),
+    );
+    this.tooltip.hidden = true;
+    this.tooltip.setAttribute('role', 'tooltip');
+    this.stage.append(this.status);
+    document.body.append(toolbar, this.stage, this.tooltip);
+
+    window.addEventListener('message', (event) => this.onMessage(event.data));
+    this.stage.addEventListener('wheel', (event) => this.onWheel(event), { passive: false });
+    this.stage.addEventListener('pointerdown', (event) => this.onPointerDown(event));
+    this.stage.addEventListener('pointermove', (event) => this.onHover(event));
+    this.stage.addEventListener('pointerleave', () => { this.tooltip.hidden = true; });
+    this.post({ type: 'ready', uri: this.state.uri, version: this.state.version });
+  }
+
+  private stamp(): { uri: string; version: number } {
+    return { uri: this.state.uri, version: this.state.version };
+  }
+
+  private post(message: PreviewMessage): void {
+    this.api.postMessage(message);
+  }
+
+  private saveState(): void {
+    this.api.setState(this.state);
+  }
+
+  private onMessage(data: unknown): void {
+    const message = parseHostMessage(data);
+    if (!message) return;
+    if (message.type === 'render') this.render(message);
+    else this.highlight(message);
+  }
+
+  private render(message: RenderMessage): void {
+    const sameDocument = message.uri === this.state.uri;
+    if (sameDocument && message.version < this.state.version) return;
+    const svg = importSvg(message.svg, document);
+    if (!svg) {
+      this.status.textContent = 'The drawing could not be read.';
+      return;
+    }
+    svg.removeAttribute('width');
+    svg.removeAttribute('height');
+    svg.classList.add('drawing');
+    const keepView = sameDocument && message.run === this.state.run ? this.state.view : undefined;
+    this.state = { uri: message.uri, version: message.version, run: message.run, ...(keepView ? { view: keepView } : {}) };
+    this.fit = parseViewBox(svg.getAttribute('viewBox')) ?? undefined;
+    this.svg?.remove();
+    this.status.remove();
+    this.svg = svg;
+    this.stage.append(svg);
+    if (!this.fit) {
+      const box = svg.getBBox();
+      this.fit = { x: box.x, y: box.y, width: Math.max(box.width, 1), height: Math.max(box.height, 1) };
+    }
+    svg.style.setProperty('--veer-unit', String(this.fit.width / RENDER_WIDTH_PX));
+    this.applyView();
+    this.segments = new Map(message.segments.map((s) => [s.id, s]));
+    this.title.textContent = message.title;
+    this.counts.textContent = [
+      message.errorCount ? `${message.errorCount} error${message.errorCount === 1 ? '' : 's'}` : '',
+      message.warningCount ? `${message.warningCount} warning${message.warningCount === 1 ? '' : 's'}` : '',
+    ].filter(Boolean).join(', ');
+    this.counts.classList.toggle('has-errors', message.errorCount > 0);
+    this.fillRunSelect(message);
+    if (!sameDocument) this.currentLine = undefined;
+    this.applyHighlight();
+    this.saveState();
+    document.body.dataset.version = String(message.version);
+  }
+
+  private fillRunSelect(message: RenderMessage): void {
+    this.runSelect.replaceChildren(
+      element('option', { value: '-1', textContent: 'All runs' }),
+      ...message.runNames.map((name, i) => element('option', { value: String(i), textContent: name })),
+    );
+    this.runSelect.value = String(message.run);
+    this.runSelect.hidden = message.runNames.length < 2;
+  }
+
+  private highlight(message: CursorMessage): void {
+    if (message.uri !== this.state.uri || message.version < this.state.version) return;
+    this.currentLine = message.line;
+    this.applyHighlight();
+  }
+
+  private applyHighlight(): void {
+    for (const el of Array.from(this.stage.querySelectorAll('.is-current'))) el.classList.remove('is-current');
+    if (this.currentLine === undefined || !this.svg) return;
+    for (const el of Array.from(this.svg.querySelectorAll(`[data-line="${this.currentLine}"]`))) el.classList.add('is-current');
+  }
+
+  private setView(view: ViewBox | undefined): void {
+    if (view) this.state.view = view;
+    else delete this.state.view;
+    this.applyView();
+    this.saveState();
+  }
+
+  private applyView(): void {
+    const view = this.state.view ?? this.fit;
+    if (this.svg && view) this.svg.setAttribute('viewBox', formatViewBox(view));
+    document.body.classList.toggle('is-fitted', !this.state.view);
+  }
+
+  /** The user-space point under a client (screen) point, or undefined before the first drawing. */
+  private toUser(clientX: number, clientY: number): DOMPoint | undefined {
+    const ctm = this.svg?.getScreenCTM();
+    return ctm ? new DOMPoint(clientX, clientY).matrixTransform(ctm.inverse()) : undefined;
+  }
+
+  private zoomAt(factor: number, clientX: number, clientY: number): void {
+    const view = this.state.view ?? this.fit;
+    const p = this.toUser(clientX, clientY);
+    if (!view || !this.fit || !p) return;
+    this.setView(zoomAbout(view, this.fit, factor, p.x, p.y));
+  }
+
+  private zoomCentre(factor: number): void {
+    const r = this.stage.getBoundingClientRect();
+    this.zoomAt(factor, r.left + r.width / 2, r.top + r.height / 2);
+  }
+
+  private onWheel(event: WheelEvent): void {
+    event.preventDefault();
+    // Exponential in the wheel distance, so trackpads and wheels feel alike.
+    this.zoomAt(Math.exp(-event.deltaY * 0.0015), event.clientX, event.clientY);
+  }
+
+  private onPointerDown(event: PointerEvent): void {
+    if (event.button !== 0 || !this.svg) return;
+    const hit = (event.target as Element | null)?.closest?.('[data-line]');
+    const lineElement = hit && !hit.matches(NOT_REVEALED) ? hit : undefined;
+    const start = { x: event.clientX, y: event.clientY };
+    let last = start;
+    let dragging = false;
+    const move = (e: PointerEvent): void => {
+      if (!dragging && Math.hypot(e.clientX - start.x, e.clientY - start.y) < CLICK_SLOP_PX) return;
+      if (!dragging) {
+        dragging = true;
+        this.stage.setPointerCapture(e.pointerId);
+        this.stage.classList.add('is-dragging');
+        this.tooltip.hidden = true;
+      }
+      const view = this.state.view ?? this.fit;
+      const scale = this.svg?.getScreenCTM()?.a;
+      if (view && scale) this.setView(panBy(view, (e.clientX - last.x) / scale, (e.clientY - last.y) / scale));
+      last = { x: e.clientX, y: e.clientY };
+    };
+    const up = (): void => {
+      this.stage.removeEventListener('pointermove', move);
+      this.stage.removeEventListener('pointerup', up);
+      this.stage.removeEventListener('pointercancel', up);
+      this.stage.classList.remove('is-dragging');
+      if (dragging || !lineElement) return;
+      const line = Number(lineElement.getAttribute('data-line'));
+      if (Number.isInteger(line) && line >= 0) this.post({ type: 'reveal', ...this.stamp(), line });
+    };
+    this.stage.addEventListener('pointermove', move);
+    this.stage.addEventListener('pointerup', up);
+    this.stage.addEventListener('pointercancel', up);
+  }
+
+  private onHover(event: PointerEvent): void {
+    if (this.stage.classList.contains('is-dragging')) return;
+    const id = (event.target as Element | null)?.closest?.('[data-segment]')?.getAttribute('data-segment');
+    const seg = id ? this.segments.get(id) : undefined;
+    if (!seg) {
+      this.tooltip.hidden = true;
+      return;
+    }
+    this.tooltip.replaceChildren(...tooltipLines(seg).map((text) => element('div', { textContent: text })));
+    this.tooltip.hidden = false;
+    // Keep the tooltip inside the panel near the right and bottom edges.
+    const pad = 12;
+    const w = this.tooltip.offsetWidth;
+    const h = this.tooltip.offsetHeight;
+    const left = event.clientX + pad + w > window.innerWidth ? event.clientX - pad - w : event.clientX + pad;
+    const top = event.clientY + pad + h > window.innerHeight ? event.clientY - pad - h : event.clientY + pad;
+    this.tooltip.style.left = `${Math.max(0, left)}px`;
+    this.tooltip.style.top = `${Math.max(0, top)}px`;
+  }
+
+  private async exportPng(): Promise<void> {
+    if (!this.svg || !this.fit) return;
+    const background = getComputedStyle(document.body).backgroundColor;
+    this.notice.textContent = '';
+    try {
+      const base64 = await rasterise(this.svg, this.fit, background);
+      this.post({ type: 'exportPng', ...this.stamp(), base64 });
+    } catch (error) {
+      this.notice.textContent = error instanceof Error ? error.message : String(error);
+    }
+  }
+}
+
+new Preview();

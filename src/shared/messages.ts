@@ -1,0 +1,183 @@
+// The messages between the preview's host (extension side) and its webview.
+// Every message names the document (URI string) and the document version it
+// belongs to, so either side can drop what arrives late for an older text.
+import type { CheckResult, RunResult, SegmentKind, TurnShape, WheelPair } from '../core/types';
+import { normaliseHeading } from '../core/solve/frame';
+
+export interface DocumentStamp {
+  uri: string;
+  version: number;
+}
+
+/** What the tooltip of one drawn segment shows; `id` matches the element's `data-segment`. */
+export interface SegmentSummary {
+  id: string;
+  line: number;
+  kind: SegmentKind;
+  shape?: TurnShape;
+  /** Axle midpoint at the end, mm; heading normalised into [0, 360). */
+  endX: number;
+  endY: number;
+  endHeading: number;
+  yawEnd: number;
+  motorDeg?: WheelPair;
+  /** Seconds. */
+  duration: number;
+  complete: boolean;
+}
+
+// ---------------------------------------------------------------------------
+// Host -> webview
+
+export interface RenderMessage extends DocumentStamp {
+  type: 'render';
+  /** Shown in the toolbar and used for export file names. */
+  title: string;
+  /** The core's SVG fragment (already escaped by the core's renderer). */
+  svg: string;
+  runNames: string[];
+  /** Index into `runNames` of the run drawn, or -1 when every run is drawn. */
+  run: number;
+  segments: SegmentSummary[];
+  errorCount: number;
+  warningCount: number;
+}
+
+/** The 0-based line of the editor's cursor in the previewed document. */
+export interface CursorMessage extends DocumentStamp {
+  type: 'cursor';
+  line: number;
+}
+
+export type HostMessage = RenderMessage | CursorMessage;
+
+// ---------------------------------------------------------------------------
+// Webview -> host
+
+/** Sent once the script runs; `uri` is the restored document or '' when unknown. */
+export interface ReadyMessage extends DocumentStamp {
+  type: 'ready';
+}
+
+/** A click on the drawing: show and select that plan line in the editor. */
+export interface RevealMessage extends DocumentStamp {
+  type: 'reveal';
+  line: number;
+}
+
+/** The run selector changed; -1 draws every run. */
+export interface SelectRunMessage extends DocumentStamp {
+  type: 'selectRun';
+  run: number;
+}
+
+/** Export the current run as a standalone SVG, drawn by the host with the core's renderer. */
+export interface ExportSvgMessage extends DocumentStamp {
+  type: 'exportSvg';
+}
+
+/** Export the drawing as the webview rasterised it: a PNG file, base64 without a data: prefix. */
+export interface ExportPngMessage extends DocumentStamp {
+  type: 'exportPng';
+  base64: string;
+}
+
+export type PreviewMessage = ReadyMessage | RevealMessage | SelectRunMessage | ExportSvgMessage | ExportPngMessage;
+
+/** Largest PNG the host accepts from the webview (base64 characters), so a runaway canvas cannot fill memory. */
+export const MAX_PNG_BASE64 = 64 * 1024 * 1024;
+
+const MAX_LINE = 10_000_000;
+
+function isRecord(value: unknown): value is Record<string, unknown> {
+  return typeof value === 'object' && value !== null && !Array.isArray(value);
+}
+
+function isIndex(value: unknown, min: number): value is number {
+  return typeof value === 'number' && Number.isInteger(value) && value >= min && value <= MAX_LINE;
+}
+
+function hasStamp(value: Record<string, unknown>): boolean {
+  return typeof value.uri === 'string' && value.uri.length < 4096 && isIndex(value.version, -1);
+}
+
+/**
+ * The webview runs page content we do not fully control, so the host treats
+ * everything it posts as untrusted: returns the message only when its shape
+ * and types are exactly as declared.
+ */
+export function parsePreviewMessage(value: unknown): PreviewMessage | undefined {
+  if (!isRecord(value) || !hasStamp(value)) return undefined;
+  const stamp = { uri: value.uri as string, version: value.version as number };
+  switch (value.type) {
+    case 'ready':
+      return { type: 'ready', ...stamp };
+    case 'reveal':
+      return isIndex(value.line, 0) ? { type: 'reveal', ...stamp, line: value.line } : undefined;
+    case 'selectRun':
+      return isIndex(value.run, -1) ? { type: 'selectRun', ...stamp, run: value.run } : undefined;
+    case 'exportSvg':
+      return { type: 'exportSvg', ...stamp };
+    case 'exportPng':
+      return typeof value.base64 === 'string' && value.base64.length > 0 && value.base64.length <= MAX_PNG_BASE64
+        && /^[A-Za-z0-9+/]+={0,2}$/.test(value.base64)
+        ? { type: 'exportPng', ...stamp, base64: value.base64 }
+        : undefined;
+    default:
+      return undefined;
+  }
+}
+
+/** The webview's check of what the host posts (the host is trusted; this guards against stray window messages). */
+export function parseHostMessage(value: unknown): HostMessage | undefined {
+  if (!isRecord(value) || !hasStamp(value)) return undefined;
+  if (value.type === 'cursor') return isIndex(value.line, 0) ? (value as unknown as CursorMessage) : undefined;
+  if (value.type === 'render') {
+    return typeof value.svg === 'string' && typeof value.title === 'string' && Array.isArray(value.runNames)
+      && Array.isArray(value.segments) && isIndex(value.run, -1)
+      ? (value as unknown as RenderMessage)
+      : undefined;
+  }
+  return undefined;
+}
+
+/** The key the renderer writes into `data-segment` for segment `segIndex` of run `runIndex`. */
+export function segmentId(runIndex: number, segIndex: number): string {
+  return `${runIndex}:${segIndex}`;
+}
+
+/** Tooltip data for every segment of every run (the drawing may show one run or all). */
+export function summariseSegments(runs: readonly RunResult[]): SegmentSummary[] {
+  return runs.flatMap((run, runIndex) => run.segments.map((seg, segIndex): SegmentSummary => ({
+    id: segmentId(runIndex, segIndex),
+    line: seg.line,
+    kind: seg.kind,
+    ...(seg.shape ? { shape: seg.shape } : {}),
+    endX: seg.end.x,
+    endY: seg.end.y,
+    endHeading: normaliseHeading(seg.end.heading),
+    yawEnd: seg.yawEnd,
+    ...(seg.motorDeg ? { motorDeg: seg.motorDeg } : {}),
+    duration: seg.duration,
+    complete: seg.complete,
+  })));
+}
+
+/**
+ * The render message for `result`, whose drawing `svg` the caller made with the
+ * core's renderer (kept out of here so the webview bundle never pulls in the core).
+ */
+export function buildRenderMessage(result: CheckResult, stamp: DocumentStamp, run: number, svg: string): RenderMessage {
+  const severities = result.diagnostics.map((d) => d.severity);
+  return {
+    type: 'render',
+    ...stamp,
+    title: result.setup.title,
+    svg,
+    runNames: result.runs.map((r) => r.name),
+    run,
+    segments: summariseSegments(result.runs),
+    errorCount: severities.filter((s) => s === 'error').length,
+    warningCount: severities.filter((s) => s === 'warning').length,
+  };
+}
