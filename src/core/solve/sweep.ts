@@ -498,21 +498,84 @@ function farthestOutside(start: Shape, motion: Motion, field: Field): Point | nu
 // ---------------------------------------------------------------------------
 // Marker point
 
-/**
- * A point where two touching shapes meet: alternating projections onto the two
- * convex shapes converge to a common point (or to the closest pair when they
- * only touch within TOUCH); the midpoint of the last pair is returned.
- */
+/** Corners nearer than this to the other shape count as lying on it when placing a marker. */
+const ON_SHAPE = 4 * TOUCH;
+
+/** A point where two touching shapes meet. */
 function contactPoint(a: Shape, b: Shape): Point {
-  let px = a.x;
-  let py = a.y;
-  let qx = px;
-  let qy = py;
-  for (let i = 0; i < 32; i++) {
-    [qx, qy] = project(b, px, py);
-    [px, py] = project(a, qx, qy);
+  if (isRound(a) || isRound(b)) {
+    // The point of the other shape nearest to the round one's centre lies within its radius.
+    const [round, other] = isRound(a) ? [a, b] : [b, a];
+    const [x, y] = project(other, round.x, round.y);
+    return { x, y };
   }
-  return { x: (px + qx) / 2, y: (py + qy) / 2 };
+  // The overlap of two rectangles is a convex polygon whose vertices are
+  // corners of one inside the other and crossings of their edges; the mean of
+  // those lies in it.
+  let sumX = 0;
+  let sumY = 0;
+  let count = 0;
+  for (let k = 0; k < 4; k++) {
+    for (const [own, other] of [[a, b], [b, a]]) {
+      const x = cornerX(own, k);
+      const y = cornerY(own, k);
+      if (pointShapeDist(other, x, y) <= ON_SHAPE) {
+        sumX += x;
+        sumY += y;
+        count++;
+      }
+    }
+    for (let j = 0; j < 4; j++) {
+      const t = edgeCrossing(a, k, b, j);
+      if (t === NO_HIT) continue;
+      const n = (k + 1) % 4;
+      sumX += cornerX(a, k) + t * (cornerX(a, n) - cornerX(a, k));
+      sumY += cornerY(a, k) + t * (cornerY(a, n) - cornerY(a, k));
+      count++;
+    }
+  }
+  if (count > 0) return { x: sumX / count, y: sumY / count };
+  // Only reached through rounding: the shapes are within TOUCH but no corner
+  // was judged on the other shape; the nearest corner stands in.
+  return nearestCorner(a, b);
+}
+
+function pointShapeDist(s: Shape, x: number, y: number): number {
+  const rx = x - s.x;
+  const ry = y - s.y;
+  return localRectDist(s, rx * s.ux + ry * s.uy, ry * s.ux - rx * s.uy) - s.r;
+}
+
+/** Where edge k of `a` (from corner k to k + 1) crosses edge j of `b`, as a fraction along a's edge, or NO_HIT. */
+function edgeCrossing(a: Shape, k: number, b: Shape, j: number): number {
+  const ax = cornerX(a, k);
+  const ay = cornerY(a, k);
+  const adx = cornerX(a, (k + 1) % 4) - ax;
+  const ady = cornerY(a, (k + 1) % 4) - ay;
+  const bx = cornerX(b, j);
+  const by = cornerY(b, j);
+  const bdx = cornerX(b, (j + 1) % 4) - bx;
+  const bdy = cornerY(b, (j + 1) % 4) - by;
+  const denom = adx * bdy - ady * bdx;
+  if (Math.abs(denom) < TINY) return NO_HIT;
+  const t = ((bx - ax) * bdy - (by - ay) * bdx) / denom;
+  const u = ((bx - ax) * ady - (by - ay) * adx) / denom;
+  return t >= 0 && t <= 1 && u >= 0 && u <= 1 ? t : NO_HIT;
+}
+
+function nearestCorner(a: Shape, b: Shape): Point {
+  let best: Point = { x: a.x, y: a.y };
+  let bestDist = Infinity;
+  for (let k = 0; k < 4; k++) {
+    for (const [own, other] of [[a, b], [b, a]]) {
+      const d = pointShapeDist(other, cornerX(own, k), cornerY(own, k));
+      if (d < bestDist) {
+        bestDist = d;
+        best = { x: cornerX(own, k), y: cornerY(own, k) };
+      }
+    }
+  }
+  return best;
 }
 
 /** The point of a shape (rectangle grown by its radius) nearest to (x, y). */

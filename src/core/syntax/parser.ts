@@ -104,6 +104,8 @@ interface OptionSpec {
 
 type OptionSpecs = Readonly<Record<string, OptionSpec>>;
 
+const stopSets = new WeakMap<OptionSpecs, ReadonlySet<string>>();
+
 const EXPR: OptionValue = { kind: 'expr' };
 const FLAG: OptionValue = { kind: 'flag' };
 
@@ -178,6 +180,9 @@ const NEEDS = {
 } as const;
 
 const NO_STOPS: ReadonlySet<string> = new Set();
+const YAW_LOW_STOPS: ReadonlySet<string> = new Set(['to']);
+const BODY_WIDTH_STOPS: ReadonlySet<string> = new Set(['by', 'axle']);
+const FIELD_WIDTH_STOPS: ReadonlySet<string> = new Set(['by', 'grid']);
 
 function parseLine(line: number, source: string, letNames: ReadonlySet<string>): Statement | undefined {
   const lexed = lexLine(source);
@@ -286,7 +291,7 @@ class LineReader {
   private yawRange(keyword: Token): Statement {
     const second = this.secondWord('range', '`yaw` is written `yaw range LO to HI`, e.g. `yaw range -180 to 180`');
     this.optionWords = OPTIONS.yawRange;
-    const lo = this.expr(NEEDS.yawRange, new Set(['to']));
+    const lo = this.expr(NEEDS.yawRange, YAW_LOW_STOPS);
     this.separator('to', NEEDS.yawRange);
     const hi = this.expr(NEEDS.yawRange, NO_STOPS);
     return { ...this.finish(keyword, second), kind: 'yawRange', lo, hi };
@@ -317,7 +322,7 @@ class LineReader {
 
   private body(keyword: Token): BodyStmt {
     this.optionWords = OPTIONS.body;
-    const width = this.expr(NEEDS.body, new Set(['by', 'axle']));
+    const width = this.expr(NEEDS.body, BODY_WIDTH_STOPS);
     this.separator('by', NEEDS.body);
     const length = this.expr(NEEDS.body, stopsOf(BODY_OPTIONS));
     const options = this.options(BODY_OPTIONS);
@@ -326,7 +331,7 @@ class LineReader {
 
   private field(keyword: Token): FieldStmt {
     this.optionWords = OPTIONS.field;
-    const width = this.expr(NEEDS.field, new Set(['by', 'grid']));
+    const width = this.expr(NEEDS.field, FIELD_WIDTH_STOPS);
     this.separator('by', NEEDS.field);
     const height = this.expr(NEEDS.field, stopsOf(FIELD_OPTIONS));
     const options = this.options(FIELD_OPTIONS);
@@ -597,6 +602,8 @@ class LineReader {
   }
 
   private checkMisspeltOption(token: Token): void {
+    // The math.js unit lookup is slow, so it only runs for the rare word that looks like a slip.
+    if (suggestWord(token.text, this.optionWords) === undefined) return;
     if (this.letNames.has(token.text) || isMathName(token.text)) return;
     this.unknownWord(token, this.optionWords);
   }
@@ -682,7 +689,12 @@ class LineReader {
 }
 
 function stopsOf(specs: OptionSpecs): ReadonlySet<string> {
-  return new Set(Object.keys(specs));
+  let stops = stopSets.get(specs);
+  if (!stops) {
+    stops = new Set(Object.keys(specs));
+    stopSets.set(specs, stops);
+  }
+  return stops;
 }
 
 function optionalExpr<K extends string>(name: K, result: OptionResult | undefined): Partial<Record<K, ExprNode>> {

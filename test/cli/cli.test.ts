@@ -1,0 +1,131 @@
+import { strict as assert } from 'node:assert';
+import { mkdtempSync, readFileSync, writeFileSync, existsSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { spawnSync } from 'node:child_process';
+import { runCli } from '../../src/cli/main';
+
+const example = join(__dirname, '..', '..', 'examples', 'parcel-table.veer');
+
+function run(args: string[]) {
+  let out = '';
+  let err = '';
+  const status = runCli(args, { out: (s) => { out += s; }, err: (s) => { err += s; }, isTTY: false });
+  return { status, out, err };
+}
+
+function tempPlan(text: string | Buffer, name = 'plan.veer'): string {
+  const dir = mkdtempSync(join(tmpdir(), 'veer-cli-'));
+  const file = join(dir, name);
+  writeFileSync(file, text);
+  return file;
+}
+
+describe('veer command line', () => {
+  it('checks the example plan: no problems, one summary line, exit 0', () => {
+    const r = run(['check', example]);
+    assert.equal(r.status, 0, r.out + r.err);
+    assert.match(r.out, /run "to the dock": \d+\.\d\d m, \d+\.\d s, 2 turns, 0 wrap crossings/);
+  });
+
+  it('prints problems as FILE:LINE:COL: SEVERITY: MESSAGE [CODE] and exits 1 on errors', () => {
+    const file = tempPlan('wheel 56\ntrack 160\nstart (0, 0) heading 0\nturn 200 by gyro\n');
+    const r = run(['check', file]);
+    assert.equal(r.status, 1);
+    // Line 4, column 1: the turn statement (1-based, as problem matchers read).
+    assert.match(r.out, new RegExp(`^${file.replace(/[.\\/]/g, '\\$&')}:4:1: error: .+ \\[wrap-cross\\]$`, 'm'));
+  });
+
+  it('warnings pass, but fail under --strict', () => {
+    const file = tempPlan('wheel 56\ntrack 160\nlimit 1 s\nstart (0, 0) heading 0\ndrive 2000\n');
+    assert.equal(run(['check', file]).status, 0);
+    const strict = run(['check', '--strict', file]);
+    assert.equal(strict.status, 1);
+    assert.match(strict.out, /warning: .*\[over-time\]/);
+  });
+
+  it('--json gives the document of the command-line spec', () => {
+    const r = run(['check', '--json', example]);
+    assert.equal(r.status, 0);
+    const doc = JSON.parse(r.out);
+    assert.equal(doc.file, example);
+    assert.deepEqual(doc.diagnostics, []);
+    assert.equal(doc.runs.length, 1);
+    const turn = doc.runs[0].segments.find((s: { kind: string }) => s.kind === 'turn');
+    assert.equal(turn.line, 17);
+    assert.equal(turn.shape, 'spin');
+    assert.equal(turn.sensing, 'gyro');
+    assert.deepEqual(turn.start, { x_mm: 200, y_mm: 950, heading_deg: 0 });
+    // Spin wheel arc = (W/2)·θ; wheel degrees = arc / (π d) · 360 (differential-drive relation):
+    // (128/2 · π/2) / (π · 62) · 360 = 185.806 (the spec's example shows 185.8).
+    assert.ok(Math.abs(turn.wheel_deg.left - 185.806) < 0.01);
+    assert.ok(Math.abs(turn.wheel_deg.right + 185.806) < 0.01);
+    assert.equal(turn.yaw_target_deg, 90);
+    for (const key of ['duration_s', 'distance_mm']) assert.equal(typeof doc.runs[0][key], 'number');
+  });
+
+  it('--json with several files prints an array', () => {
+    const r = run(['check', '--json', example, example]);
+    const docs = JSON.parse(r.out);
+    assert.ok(Array.isArray(docs));
+    assert.equal(docs.length, 2);
+  });
+
+  it('renders an SVG and exits 0', () => {
+    const out = join(mkdtempSync(join(tmpdir(), 'veer-svg-')), 'demo.svg');
+    const r = run(['render', example, '-o', out]);
+    assert.equal(r.status, 0, r.err);
+    const svg = readFileSync(out, 'utf8');
+    assert.match(svg, /^(<\?xml[^>]*>\s*)?<svg[\s>]/);
+    assert.match(svg, /data-line="16"/);
+  });
+
+  it('render --run picks a run by name and refuses an unknown one', () => {
+    const file = tempPlan('wheel 56\ntrack 160\nrun "a"\nstart (0, 0) heading 0\ndrive 100\nrun "b"\nstart (500, 0) heading 0\ndrive 200\n');
+    const out = join(mkdtempSync(join(tmpdir(), 'veer-svg-')), 'b.svg');
+    assert.equal(run(['render', file, '-o', out, '--run', 'b']).status, 0);
+    assert.ok(existsSync(out));
+    const bad = run(['render', file, '-o', out, '--run', 'c']);
+    assert.equal(bad.status, 2);
+    assert.match(bad.err, /no run "c" \(runs: "a", "b"\)/);
+  });
+
+  it('bad input: one clear line and exit 2, nothing on stdout', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'veer-bad-'));
+    const cases: Array<[string[], RegExp]> = [
+      [['check', join(dir, 'missing.veer')], /missing\.veer: no such file/],
+      [['check', dir], /is a directory/],
+      [['check', tempPlan(Buffer.from([0x77, 0x68, 0x65, 0x65, 0x6c, 0x20, 0xff, 0xfe, 0x0a]))], /is not UTF-8 text/],
+      [['check'], /needs at least one plan file/],
+      [['frobnicate', example], /unknown command `frobnicate`/],
+      [['check', '--bogus', example], /Unknown option '--bogus'/],
+      [['render', example], /needs `-o OUT.svg`/],
+    ];
+    for (const [args, message] of cases) {
+      const r = run(args);
+      assert.equal(r.status, 2, args.join(' '));
+      assert.equal(r.out, '');
+      assert.match(r.err, message);
+      assert.equal(r.err.trim().split('\n')[0].startsWith('veer: '), true);
+    }
+  });
+
+  it('--help and --version exit 0', () => {
+    const h = run(['--help']);
+    assert.equal(h.status, 0);
+    assert.match(h.out, /veer check/);
+    const v = run(['--version']);
+    assert.equal(v.status, 0);
+    assert.equal(v.out.trim(), JSON.parse(readFileSync(join(__dirname, '..', '..', 'package.json'), 'utf8')).version);
+  });
+
+  it('the built `veer` binary runs (after `npm run build`)', function () {
+    const bin = join(__dirname, '..', '..', 'bin', 'veer.js');
+    if (!existsSync(join(__dirname, '..', '..', 'dist', 'cli.js'))) {
+      throw new Error('dist/cli.js is missing: run `npm run build` first (npm test does)');
+    }
+    const r = spawnSync(process.execPath, [bin, 'check', example], { encoding: 'utf8' });
+    assert.equal(r.status, 0, r.stderr);
+    assert.match(r.stdout, /to the dock/);
+  });
+});

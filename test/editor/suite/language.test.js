@@ -1,0 +1,143 @@
+// Language features in a real editor: diagnostics, hovers, inlay hints, quick
+// fixes, the source action, the outline, completion and the New Plan command.
+const assert = require('assert');
+const vscode = require('vscode');
+const { fixtureUri, diagnosticsWhere, codeOf, scratchCopy, hoverText } = require('./helpers');
+
+const FIXTURE = 'wrap-check.veer';
+const WRAP_LINE = 11; // the second `turn 90 by gyro`: reading 90 + 90 = target 180, outside [-180, 180)
+
+// Wheel and motor degrees of a 90° spin on 62 mm wheels: each wheel runs the arc
+// s = (W/2)·θ (arc length formula), i.e. W·θ/D wheel degrees; W = 128 mm measured
+// (gyro turns), 130 mm effective (encoder turns, spec section 5).
+const GYRO_SPIN_WHEEL_DEG = ((128 * 90) / 62).toFixed(1); // 185.8
+const ENCODER_SPIN_MOTOR_DEG = ((130 * 90) / 62).toFixed(1); // 188.7
+
+const hasWrapCross = (diagnostics) => diagnostics.some((d) => codeOf(d) === 'wrap-cross');
+
+describe('Veer language features', () => {
+  let document;
+
+  before(async () => {
+    const extension = vscode.extensions.all.find((e) => e.packageJSON.name === 'veer');
+    assert.ok(extension, 'the Veer extension is loaded');
+    document = await vscode.workspace.openTextDocument(fixtureUri(FIXTURE));
+    await vscode.window.showTextDocument(document);
+    assert.equal(document.languageId, 'veer');
+  });
+
+  it('reports the wrap crossing with its range, related docs link and no other problem', async () => {
+    const diagnostics = await diagnosticsWhere(document.uri, hasWrapCross);
+    assert.deepEqual(diagnostics.map(codeOf), ['wrap-cross']);
+    const [wrap] = diagnostics;
+    assert.equal(wrap.severity, vscode.DiagnosticSeverity.Error);
+    assert.deepEqual(
+      [wrap.range.start.line, wrap.range.start.character, wrap.range.end.line, wrap.range.end.character],
+      [WRAP_LINE, 0, WRAP_LINE, 'turn 90 by gyro'.length],
+    );
+    assert.equal(wrap.source, 'veer');
+    assert.ok(wrap.code.target.path.endsWith('/docs/diagnostics.md'), wrap.code.target.toString());
+    assert.equal(wrap.code.target.fragment, 'wrap-cross');
+  });
+
+  it('hovers a motion line with its wheel degrees and yaw target', async () => {
+    const hovers = await vscode.commands.executeCommand('vscode.executeHoverProvider', document.uri, new vscode.Position(10, 1));
+    const text = hoverText(hovers);
+    assert.match(text, /\*\*turn\*\* · spin · by gyro/);
+    assert.ok(text.includes(`wheel degrees: L ${GYRO_SPIN_WHEEL_DEG}°, R -${GYRO_SPIN_WHEEL_DEG}°`), text);
+    assert.ok(text.includes('yaw target: 90°'), text);
+    assert.ok(text.includes('| heading | 0° | 90° |'), text);
+  });
+
+  it('hovers a name and a value with units', async () => {
+    const onName = hoverText(await vscode.commands.executeCommand('vscode.executeHoverProvider', document.uri, new vscode.Position(9, 12)));
+    assert.ok(onName.includes('`lane` = **250 mm**'), onName);
+    const onValue = hoverText(await vscode.commands.executeCommand('vscode.executeHoverProvider', document.uri, new vscode.Position(9, 6)));
+    assert.ok(onValue.includes('**750 mm**'), onValue); // 3 × 250 mm
+  });
+
+  it('shows end heading, yaw reading and encoder motor degrees as inlay hints', async () => {
+    const range = new vscode.Range(0, 0, document.lineCount, 0);
+    const hints = await vscode.commands.executeCommand('vscode.executeInlayHintProvider', document.uri, range);
+    const label = (line) => {
+      const hint = hints.find((h) => h.position.line === line);
+      return hint && (typeof hint.label === 'string' ? hint.label : hint.label.map((p) => p.value).join(''));
+    };
+    assert.equal(label(10), '→ heading 90° · yaw 90°');
+    // 0 + 3 × 90 = 270° on the field; the yaw reading wrapped at 180 reads -180 + 90 = -90.
+    assert.equal(label(12), `→ heading 270° · yaw -90° · motor L ${ENCODER_SPIN_MOTOR_DEG}°, R -${ENCODER_SPIN_MOTOR_DEG}°`);
+    assert.equal(hints.find((h) => h.position.line === 12).position.character, 'turn 90 by encoders'.length);
+  });
+
+  it('lists the runs, their motion lines and marks in the outline', async () => {
+    const symbols = await vscode.commands.executeCommand('vscode.executeDocumentSymbolProvider', document.uri);
+    assert.deepEqual(symbols.map((s) => s.name), ['loop', 'second']);
+    assert.deepEqual(symbols[0].children.map((c) => c.name), [
+      'start (200, 200) heading 0', 'drive 3 * lane speed 60% hold 0', 'turn 90 by gyro', 'turn 90 by gyro',
+      'turn 90 by encoders', 'end',
+    ]);
+    assert.equal(symbols[0].children[5].kind, vscode.SymbolKind.Key);
+  });
+
+  for (const [title, expectedLine, expectedNextLine] of [
+    ['Add `reset` to the turn', 'turn 90 by gyro reset', 'turn 90 by encoders'],
+    ['Insert `reset yaw` before this line', 'reset yaw', 'turn 90 by gyro'],
+  ]) {
+    it(`quick fix "${title}" removes the wrap crossing`, async () => {
+      const scratch = await scratchCopy(FIXTURE);
+      const [wrap] = await diagnosticsWhere(scratch.uri, hasWrapCross);
+      const actions = await vscode.commands.executeCommand(
+        'vscode.executeCodeActionProvider', scratch.uri, wrap.range, vscode.CodeActionKind.QuickFix.value,
+      );
+      const action = actions.find((a) => a.title.startsWith(title));
+      assert.ok(action, `no "${title}" among ${actions.map((a) => a.title).join(' | ')}`);
+      assert.equal(actions.filter((a) => a.isPreferred).length, 1, 'exactly one preferred fix');
+      assert.ok(await vscode.workspace.applyEdit(action.edit));
+      assert.equal(scratch.lineAt(WRAP_LINE).text, expectedLine);
+      assert.equal(scratch.lineAt(WRAP_LINE + 1).text, expectedNextLine);
+      await diagnosticsWhere(scratch.uri, (d) => !hasWrapCross(d));
+      await vscode.commands.executeCommand('workbench.action.revertAndCloseActiveEditor');
+    });
+  }
+
+  it('source action inserts the fewest yaw resets', async () => {
+    const scratch = await scratchCopy(FIXTURE);
+    await diagnosticsWhere(scratch.uri, hasWrapCross);
+    const whole = new vscode.Range(0, 0, scratch.lineCount, 0);
+    const actions = await vscode.commands.executeCommand(
+      'vscode.executeCodeActionProvider', scratch.uri, whole, 'source.veer.fewestResets',
+    );
+    assert.equal(actions.length, 1, actions.map((a) => a.title).join(' | '));
+    const resets = () => scratch.getText().split(/\r?\n/).filter((l) => /\breset\b/.test(l)).length;
+    const before = resets();
+    assert.ok(await vscode.workspace.applyEdit(actions[0].edit));
+    const after = resets();
+    assert.equal(after - before, 1, 'one reset is enough for one crossing');
+    await diagnosticsWhere(scratch.uri, (d) => !hasWrapCross(d));
+    await vscode.commands.executeCommand('workbench.action.revertAndCloseActiveEditor');
+  });
+
+  it('completes turn options, the words after `pivot`, and units', async () => {
+    const scratch = await vscode.workspace.openTextDocument({ language: 'veer', content: 'turn 90 pivot \ndrive 40 ' });
+    const labels = async (line, character) => {
+      const list = await vscode.commands.executeCommand('vscode.executeCompletionItemProvider', scratch.uri, new vscode.Position(line, character));
+      return list.items.map((i) => (typeof i.label === 'string' ? i.label : i.label.label));
+    };
+    const afterPivot = await labels(0, 14);
+    assert.ok(afterPivot.includes('left') && afterPivot.includes('right'), afterPivot.join(','));
+    const afterNumber = await labels(1, 9);
+    assert.ok(afterNumber.includes('mm') && afterNumber.includes('speed') && afterNumber.includes('hold'), afterNumber.join(','));
+  });
+
+  it('"Veer: New Plan" opens a template plan that checks cleanly', async () => {
+    await vscode.commands.executeCommand('veer.newPlan');
+    const editor = vscode.window.activeTextEditor;
+    assert.ok(editor);
+    assert.equal(editor.document.languageId, 'veer');
+    assert.ok(editor.document.isUntitled);
+    const symbols = await vscode.commands.executeCommand('vscode.executeDocumentSymbolProvider', editor.document.uri);
+    assert.deepEqual(symbols.map((s) => s.name), ['to the tap']);
+    assert.deepEqual(vscode.languages.getDiagnostics(editor.document.uri).map(codeOf), []);
+    await vscode.commands.executeCommand('workbench.action.revertAndCloseActiveEditor');
+  });
+});
