@@ -6,7 +6,7 @@
 set -euo pipefail
 ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 TOOL="${REAL_EDITOR:-$(dirname "$ROOT")/shared/tools/real-editor/real-editor.sh}"
-[ -x "$TOOL" ] || { echo "test-editor: real-editor tool not found at $TOOL (set REAL_EDITOR)" >&2; exit 2; }
+[ -f "$TOOL" ] || { echo "test-editor: real-editor tool not found at $TOOL (set REAL_EDITOR)" >&2; exit 2; }
 cd "$ROOT"
 node scripts/build.mjs
-exec "$TOOL" ext-test "$ROOT/test/editor/workspace" "$ROOT" "$ROOT/test/editor"
+exec bash "$TOOL" ext-test "$ROOT/test/editor/workspace" "$ROOT" "$ROOT/test/editor"

@@ -37,7 +37,7 @@ export function registerPreview(context: vscode.ExtensionContext): void {
       } else {
         const panel = vscode.window.createWebviewPanel(
           PREVIEW_VIEW_TYPE,
-          'Path Preview',
+          previewTitle(document),
           { viewColumn: vscode.ViewColumn.Beside, preserveFocus: true },
           webviewOptions(mediaRoot),
         );
@@ -153,7 +153,7 @@ class PathPreview implements vscode.Disposable {
       this.run = run;
       this.posted = undefined;
     }
-    this.panel.title = `Preview ${basename(document.uri)}`;
+    this.panel.title = previewTitle(document);
     this.renderNow();
     this.postCursor();
   }
@@ -284,6 +284,10 @@ class PathPreview implements vscode.Disposable {
     await vscode.workspace.fs.writeFile(target, bytes);
     void vscode.window.showInformationMessage(`Saved the path drawing to ${vscode.workspace.asRelativePath(target)}.`);
   }
+}
+
+function previewTitle(document: vscode.TextDocument): string {
+  return `Preview ${basename(document.uri)}`;
 }
 
 function runOption(run: number): { run?: number } {

@@ -57,6 +57,6 @@ export function importSvg(text: string, doc: Document): SVGSVGElement | undefine
   if (root.namespaceURI !== SVG_NS || root.localName !== 'svg' || parsed.getElementsByTagName('parsererror').length > 0) {
     return undefined;
   }
-  void sanitiseSvg;
+  sanitiseSvg(root);
   return doc.importNode(root, true) as unknown as SVGSVGElement;
 }

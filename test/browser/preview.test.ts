@@ -169,10 +169,10 @@ describe('path preview webview (Chromium)', function () {
     await host.setTheme('vscode-light');
     const light = await colours();
     // Expected colours: the stand-in host's theme variables (standInHost.ts THEMES).
-    assert.deepStrictEqual([light.background, light.path, light.current], ['rgb(255, 255, 255)', 'rgb(26, 133, 255)', 'rgb(0, 95, 184)']);
+    assert.deepStrictEqual([light.background, light.path, light.current], ['rgb(255, 255, 255)', 'rgb(26, 133, 255)', 'rgb(209, 134, 22)']);
     await host.setTheme('vscode-dark');
     const dark = await colours();
-    assert.deepStrictEqual([dark.background, dark.path, dark.current], ['rgb(31, 31, 31)', 'rgb(55, 148, 255)', 'rgb(0, 120, 212)']);
+    assert.deepStrictEqual([dark.background, dark.path, dark.current], ['rgb(31, 31, 31)', 'rgb(55, 148, 255)', 'rgb(224, 145, 58)']);
     await host.setTheme('vscode-high-contrast');
     const contrast = await colours();
     assert.deepStrictEqual([contrast.background, contrast.current], ['rgb(0, 0, 0)', 'rgb(243, 133, 24)']);

@@ -100,8 +100,10 @@ describe('package.json', () => {
   });
 
   it('points at files that exist and that the package includes', () => {
+    const globToRegExp = (glob: string) =>
+      new RegExp(`^${glob.replace(/[.+^${}()|[\]\\]/g, '\\$&').replace(/\*\*\/?|\*/g, (m) => (m === '*' ? '[^/]*' : '.*'))}$`);
     const allowList = readFileSync(join(root, '.vscodeignore'), 'utf8')
-      .split(/\r?\n/).filter((l) => l.startsWith('!')).map((l) => l.slice(1).replace(/\/\*\*$/, '').replace(/\/$/, ''));
+      .split(/\r?\n/).filter((l) => l.startsWith('!')).map((l) => globToRegExp(l.slice(1)));
     const paths = [...collect(pkg.contributes, 'path'), ...collect(pkg.contributes, 'configuration')]
       .filter((p): p is string => typeof p === 'string');
     const icons = collect(pkg.contributes, 'icon').flatMap((i) =>
@@ -112,7 +114,7 @@ describe('package.json', () => {
       const relative = posix.normalize(file);
       assert.ok(existsSync(join(root, relative)), `${file} does not exist`);
       assert.ok(
-        allowList.some((allowed) => relative === allowed || relative.startsWith(`${allowed}/`)),
+        allowList.some((allowed) => allowed.test(relative)),
         `${file} is not in the .vscodeignore allow-list`,
       );
     }

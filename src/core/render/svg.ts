@@ -20,7 +20,9 @@
 //   mark          a `mark` checkpoint (diamond and name)
 //   start, end    where a run starts (with its heading) and ends
 //   marker        a diagnostic, plus marker-error, marker-warning or marker-info,
-//                 and marker-wrap for a yaw wrap crossing; tag, tag-text: its tag
+//                 and marker-wrap for a yaw wrap crossing; tag, tag-text: its tag.
+//                 Drawn at the diagnostic's `at`, or failing that at the start of
+//                 the drawn segment on the diagnostic's line.
 //   scale         the scale bar and the field size
 //
 // Attributes: every element drawn from a plan line has data-line (0-based); the
@@ -65,8 +67,9 @@ const SIZE = {
 };
 
 /**
- * Draws the field, obstacles, zones, the runs' paths, footprints and the
- * diagnostics that have a field position. Throws when `options.run` names no run.
+ * Draws the field, obstacles, zones, the runs' paths and footprints, and a
+ * marker for each diagnostic that has a place on the field (see `marker` above).
+ * Throws when `options.run` names no run, so that a caller can report the choice.
  */
 export function renderSvg(result: CheckResult, options: RenderOptions = {}): string {
   const standalone = options.standalone ?? true;
@@ -80,7 +83,7 @@ export function renderSvg(result: CheckResult, options: RenderOptions = {}): str
   const view = makeView(
     contentBounds(result, runs, diagnostics, footprint),
     targetWidth,
-    (px, width) => header.height(px, width),
+    header.height,
     SIZE.footer,
   );
   const d = new Drawing(view, turns, footprint);
@@ -125,11 +128,24 @@ function selectRuns(runs: RunResult[], which: number | string | undefined): Inde
   return [found];
 }
 
+interface PlacedDiagnostic {
+  diag: Diagnostic;
+  at: Point;
+}
+
 /**
  * Diagnostics with a field position, less those inside runs that are not drawn:
- * a marker with no path near it would only confuse.
+ * a marker with no path near it would only confuse. A diagnostic without `at`
+ * on the line of a drawn segment is placed where that segment starts, so that a
+ * problem found on the yaw reading (a wrap crossing) still shows on the path.
  */
-function visibleDiagnostics(result: CheckResult, shown: IndexedRun[]): Diagnostic[] {
+function visibleDiagnostics(result: CheckResult, shown: IndexedRun[]): PlacedDiagnostic[] {
+  const segmentStartAtLine = new Map<number, Point>();
+  for (const { run } of shown) {
+    for (const seg of run.segments) {
+      if (!segmentStartAtLine.has(seg.line) && finite(seg.start)) segmentStartAtLine.set(seg.line, seg.start);
+    }
+  }
   const starts = result.runs.map((r) => r.line);
   const runAtLine = (line: number): number => {
     let found = -1;
@@ -139,11 +155,14 @@ function visibleDiagnostics(result: CheckResult, shown: IndexedRun[]): Diagnosti
     return found;
   };
   const shownIndices = new Set(shown.map((r) => r.index));
-  return result.diagnostics.filter((diag) => {
-    if (!diag.at || !finite(diag.at)) return false;
-    const owner = runAtLine(diag.range.start.line);
-    return owner < 0 || shownIndices.has(owner);
-  });
+  const placed: PlacedDiagnostic[] = [];
+  for (const diag of result.diagnostics) {
+    const line = diag.range.start.line;
+    const at = diag.at && finite(diag.at) ? diag.at : segmentStartAtLine.get(line);
+    const owner = runAtLine(line);
+    if (at && (owner < 0 || shownIndices.has(owner))) placed.push({ diag, at: { x: at.x, y: at.y } });
+  }
+  return placed;
 }
 
 function finite(p: Point): boolean {
@@ -160,7 +179,7 @@ function footprintReach(fp: Footprint): number {
   return Math.hypot(fp.length / 2 + Math.abs(fp.axle), fp.width / 2);
 }
 
-function contentBounds(result: CheckResult, runs: IndexedRun[], diagnostics: Diagnostic[], fp: Footprint): Bounds {
+function contentBounds(result: CheckResult, runs: IndexedRun[], diagnostics: PlacedDiagnostic[], fp: Footprint): Bounds {
   const b = new Bounds();
   const { field, obstacles, zones } = result.setup;
   if (field) {
@@ -192,7 +211,7 @@ function contentBounds(result: CheckResult, runs: IndexedRun[], diagnostics: Dia
       }
     }
   }
-  for (const diag of diagnostics) if (diag.at) b.add(diag.at.x, diag.at.y);
+  for (const { at } of diagnostics) b.add(at.x, at.y);
   return b;
 }
 
@@ -572,11 +591,14 @@ function drawAnnotations(out: string[], d: Drawing, run: RunResult, runIndex: nu
         // The angle goes on the bisector of the glyph, clear of the paths in and out.
         const f = forwardVector(piece.from.heading, d.turns);
         const shown = Math.sign(piece.turned || 1) * Math.min(Math.max(Math.abs(piece.turned), 45), 320);
-        const reach = (SIZE.spinGlyph + 10) * px;
+        const reach = (SIZE.spinGlyph + 5) * px;
         const at = rotateAbout({ x: piece.center.x + f.x * reach, y: piece.center.y + f.y * reach }, piece.center, shown / 2, d.turns);
+        // Anchor the text on its side nearest the glyph, so it grows away from it.
+        const outwardX = at.x - piece.center.x;
+        const anchor = outwardX > 0.4 * reach ? 'start' : outwardX < -0.4 * reach ? 'end' : 'middle';
         const angle = Math.round(piece.turned * 10) / 10;
         out.push(
-          d.text('label turn-label', { x: at.x, y: at.y }, `${angle > 0 ? '+' : ''}${angle}°`, SIZE.smallFont, `${attrs} text-anchor="middle" dy="0.35em"`),
+          d.text('label turn-label', at, `${angle > 0 ? '+' : ''}${angle}°`, SIZE.smallFont, `${attrs} text-anchor="${anchor}" dy="0.35em"`),
           '\n',
         );
       }
@@ -630,16 +652,15 @@ function drawStartEnd(out: string[], d: Drawing, run: RunResult, runIndex: numbe
 
 const SEVERITY_ORDER = { information: 0, warning: 1, error: 2 } as const;
 
-function drawMarkers(out: string[], d: Drawing, diagnostics: Diagnostic[]): void {
+function drawMarkers(out: string[], d: Drawing, diagnostics: PlacedDiagnostic[]): void {
   if (diagnostics.length === 0) return;
   // Errors on top of warnings, wrap crossings on top of everything.
-  const rank = (diag: Diagnostic): number => SEVERITY_ORDER[diag.severity] + (diag.code === 'wrap-cross' ? 3 : 0);
+  const rank = ({ diag }: PlacedDiagnostic): number => SEVERITY_ORDER[diag.severity] + (diag.code === 'wrap-cross' ? 3 : 0);
   const sorted = [...diagnostics].sort((a, b) => rank(a) - rank(b));
   const px = d.view.px;
   const p = (n: number): string => d.px(n);
   out.push(`<g class="markers" stroke-width="${p(2)}">\n`);
-  for (const diag of sorted) {
-    const at = diag.at as Point;
+  for (const { diag, at } of sorted) {
     const wrap = diag.code === 'wrap-cross';
     const severityClass = diag.severity === 'information' ? 'marker-info' : `marker-${diag.severity}`;
     const cls = `marker ${severityClass}${wrap ? ' marker-wrap' : ''}`;
@@ -650,12 +671,13 @@ function drawMarkers(out: string[], d: Drawing, diagnostics: Diagnostic[]): void
     );
     const r = SIZE.marker;
     if (wrap) {
-      const tagX = (r + 6) * px;
+      // Two rings wide enough to leave a spin glyph at the same point readable.
+      const tagX = (r + 9) * px;
       out.push(
-        `<circle r="${p(r + 4)}" fill="currentColor" fill-opacity="0.15" stroke-width="${p(2.5)}"/>`,
-        `<circle r="${p(r - 2)}" stroke-width="${p(2)}"/>`,
-        `<rect class="tag" x="${num(tagX)}" y="${p(-r - 14)}" width="${p(34)}" height="${p(15)}" rx="${p(3)}" fill="currentColor" fill-opacity="0.15" stroke-width="${p(1)}"/>`,
-        `<text class="tag-text" x="${num(tagX + 17 * px)}" y="${p(-r - 3)}" font-size="${p(11)}" font-weight="700" text-anchor="middle" fill="currentColor" stroke="none">wrap</text>`,
+        `<circle r="${p(r + 7)}" fill="currentColor" fill-opacity="0.1" stroke-width="${p(2.5)}"/>`,
+        `<circle r="${p(r + 3)}" stroke-width="${p(1.5)}"/>`,
+        `<rect class="tag" x="${num(tagX)}" y="${p(-r - 17)}" width="${p(34)}" height="${p(15)}" rx="${p(3)}" fill="currentColor" fill-opacity="0.15" stroke-width="${p(1)}"/>`,
+        `<text class="tag-text" x="${num(tagX + 17 * px)}" y="${p(-r - 6)}" font-size="${p(11)}" font-weight="700" text-anchor="middle" fill="currentColor" stroke="none">wrap</text>`,
       );
     } else if (diag.severity === 'error') {
       const s = r * 0.4;

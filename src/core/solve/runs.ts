@@ -176,7 +176,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       if (s.hold && dm.hold !== undefined) {
         yawTarget = dm.hold;
         const holdRange = s.optionRanges.hold ?? s.range;
-        checkTarget(dm.hold, holdRange, s, 'hold', yawStart);
+        checkTarget(dm.hold, holdRange, s, 'hold', yawStart, from);
         const jump = dm.hold - yawStart; // the code's raw error
         if (Math.abs(jump) > MOTION_DEFAULTS.headingJump) {
           if (!s.step) {
@@ -242,7 +242,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         if (gyro) target = yawStart + turned;
       }
       // The wrap point and the long way round.
-      if (target !== undefined && gyro) checkTarget(target, s.range, s, 'turn', yawStart);
+      if (target !== undefined && gyro) checkTarget(target, s.range, s, 'turn', yawStart, from);
       if (s.to !== undefined && tm.to !== undefined && Math.abs(turned) > 180) {
         const short = turned > 0 ? turned - 360 : turned + 360;
         report(s.range, 'warning', 'long-way',
@@ -411,7 +411,8 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
     }
 
     /** A gyro target outside the sensor's range, or within the noise band of the wrap point. */
-    function checkTarget(target: number, range: Range, stmt: TurnStmt | DriveStmt, what: 'turn' | 'hold', yawStart: number) {
+    function checkTarget(target: number, range: Range, stmt: TurnStmt | DriveStmt, what: 'turn' | 'hold', yawStart: number, where: Point) {
+      const at = { x: where.x, y: where.y };
       if (target < lo || target >= hi) {
         wrapCrossings++;
         const wrapAt = target >= hi ? hi : lo;
@@ -419,31 +420,37 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         report(range, 'error', 'wrap-cross',
           `the yaw target ${fmt(target)}° lies outside the sensor's range [${fmt(lo)}, ${fmt(hi)}): as the robot passes ${fmt(wrapAt)}° the reading jumps to ${fmt(wrapAt === hi ? lo : hi)}°, the error grows instead of shrinking and the robot ${what === 'turn' ? 'spins on and never settles' : 'swerves round in circles'}. ` +
           `Reset the yaw before this line, or aim for the reading ${fmt(seen)}° instead.`,
-          { fixes: wrapFixes(stmt, target, yawStart) });
+          { fixes: wrapFixes(stmt, target, yawStart, 'wrap-cross'), at });
         return;
       }
-      if (target - lo < MOTION_DEFAULTS.wrapEdge || hi - target <= MOTION_DEFAULTS.wrapEdge) {
+      if (nearWrapPoint(target)) {
         report(range, 'warning', 'wrap-edge',
-          `the yaw target ${fmt(target)}° is within ${MOTION_DEFAULTS.wrapEdge}° of the sensor's wrap point (${fmt(target - lo < MOTION_DEFAULTS.wrapEdge ? lo : hi)}°): sensor noise will flip the reading between ${fmt(lo)}° and ${fmt(hi)}° and the robot can spin or swerve. Reset the yaw before this line so the target sits mid-range.`,
-          { fixes: wrapFixes(stmt, target, yawStart) });
+          `the yaw target ${fmt(target)}° is within ${MOTION_DEFAULTS.wrapEdge}° of the sensor's wrap point (${fmt(target - lo <= MOTION_DEFAULTS.wrapEdge ? lo : hi)}°): sensor noise will flip the reading between ${fmt(lo)}° and ${fmt(hi)}° and the robot can spin or swerve. Reset the yaw before this line so the target sits mid-range.`,
+          { fixes: wrapFixes(stmt, target, yawStart, 'wrap-edge'), at });
       }
     }
 
-    function wrapFixes(stmt: TurnStmt | DriveStmt, target: number, yawStart: number): Fix[] {
+    /** Within the noise band of either end of the range: the same distance counts at both ends. */
+    function nearWrapPoint(target: number): boolean {
+      return target - lo <= MOTION_DEFAULTS.wrapEdge || hi - target <= MOTION_DEFAULTS.wrapEdge;
+    }
+
+    function wrapFixes(stmt: TurnStmt | DriveStmt, target: number, yawStart: number, problem: 'wrap-cross' | 'wrap-edge'): Fix[] {
       const fixes: Fix[] = [];
+      // After a reset here the reading is 0, so the code's target becomes the
+      // raw change it asks for; a reset helps only when that removes the problem.
+      const afterReset = target - yawStart;
+      if (afterReset < lo || afterReset >= hi || (problem === 'wrap-edge' && nearWrapPoint(afterReset))) return fixes;
       const indent = ' '.repeat(stmt.range.start.character);
       const insertReset = { range: { start: { line: stmt.line, character: 0 }, end: { line: stmt.line, character: 0 } }, newText: `${indent}reset yaw\n` };
       if (stmt.kind === 'turn' && stmt.angle) {
-        // A reset makes the target the turn angle itself, which helps only when that lies in range.
-        const angle = target - yawStart;
-        if (angle < lo || angle >= hi) return fixes;
         if (!stmt.reset) fixes.push({ title: 'Add `reset` to the turn (zero the yaw just before it)', edits: [{ range: { start: stmt.range.end, end: stmt.range.end }, newText: ' reset' }], preferred: true });
         fixes.push({ title: 'Insert `reset yaw` before this line', edits: [insertReset] });
       } else if (stmt.kind === 'turn' && stmt.to) {
         // After a reset the reading is 0 here, so the same turn is `turn to (target − reading)`.
-        fixes.push({ title: `Insert \`reset yaw\` before this line and aim for ${fmt(target - yawStart)}°`, edits: [insertReset, { range: stmt.to.range, newText: fmt(target - yawStart, 3) }], preferred: true });
+        fixes.push({ title: `Insert \`reset yaw\` before this line and aim for ${fmt(afterReset)}°`, edits: [insertReset, { range: stmt.to.range, newText: fmt(afterReset, 3) }], preferred: true });
       } else if (stmt.kind === 'drive' && stmt.hold) {
-        fixes.push({ title: `Insert \`reset yaw\` before this line and hold ${fmt(target - yawStart)}°`, edits: [insertReset, { range: stmt.hold.range, newText: fmt(target - yawStart, 3) }], preferred: true });
+        fixes.push({ title: `Insert \`reset yaw\` before this line and hold ${fmt(afterReset)}°`, edits: [insertReset, { range: stmt.hold.range, newText: fmt(afterReset, 3) }], preferred: true });
       }
       return fixes;
     }
@@ -451,6 +458,8 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
     function headingJumpFixes(stmt: DriveStmt, hold: number): Fix[] {
       const fixes: Fix[] = [];
       if (stmt.hold) fixes.push({ title: 'Add `step` (the change of heading is meant)', edits: [{ range: { start: stmt.hold.range.end, end: stmt.hold.range.end }, newText: ' step' }], preferred: true });
+      // Turning onto a target outside the range first would itself cross the wrap point.
+      if (hold < lo || hold >= hi) return fixes;
       const indent = ' '.repeat(stmt.range.start.character);
       fixes.push({ title: `Insert \`turn to ${fmt(hold)} by gyro\` before the drive`, edits: [{ range: { start: { line: stmt.line, character: 0 }, end: { line: stmt.line, character: 0 } }, newText: `${indent}turn to ${fmt(hold, 3)} by gyro\n` }] });
       return fixes;

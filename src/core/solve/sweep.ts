@@ -35,7 +35,11 @@
 // distance).
 // Field: the bounding box of the swept region is exact. For a rotation each
 // vertex's arc contributes its end points and the axis extremes inside the
-// swept angle; for a translation, the vertices at both ends.
+// swept angle; for a translation, the vertices at both ends. Lying flush with
+// an edge (a squared robot) is still on the field; sticking out by more than
+// TOUCH is not.
+// Markers: the contact point is placed on the footprint at the fraction of the
+// motion where the contact was found (a point in the overlap of the two shapes).
 import type { Field, Obstacle, PathPiece, Point, Pose, TurnDirection } from '../types';
 import { forwardVector, turnSign, type Footprint } from './frame';
 
@@ -311,19 +315,16 @@ function segmentNear(s: Shape, px: number, py: number, dx: number, dy: number, r
   let bestT = 0;
   let best = localRectDist(s, lpx, lpy);
   const len2 = ldx * ldx + ldy * ldy;
-  const consider = (t: number): void => {
-    const d = localRectDist(s, lpx + t * ldx, lpy + t * ldy);
-    if (d < best) {
-      best = d;
-      bestT = t;
-    }
-  };
   if (len2 > 0) {
-    consider(1);
-    for (let k = 0; k < cornerCount(s); k++) {
-      const qx = cornerU(k) * s.hu - lpx;
-      const qy = cornerV(k) * s.hv - lpy;
-      consider(Math.max(0, Math.min(1, (qx * ldx + qy * ldy) / len2)));
+    // Candidates: the far end (k = -1), then each corner's projection on the segment.
+    for (let k = -1; k < cornerCount(s); k++) {
+      const t = k < 0 ? 1
+        : Math.max(0, Math.min(1, ((cornerU(k) * s.hu - lpx) * ldx + (cornerV(k) * s.hv - lpy) * ldy) / len2));
+      const d = localRectDist(s, lpx + t * ldx, lpy + t * ldy);
+      if (d < best) {
+        best = d;
+        bestT = t;
+      }
     }
   }
   return best <= reach ? bestT : NO_HIT;
@@ -453,46 +454,55 @@ function arcDistance(arc: Arc, qx: number, qy: number, t: number): number {
 
 /** The point of the swept footprint farthest outside the field, or null when it stays inside. */
 function farthestOutside(start: Shape, motion: Motion, field: Field): Point | null {
-  let worst = TOUCH;
-  let at: Point | null = null;
-  // Each extreme point of the swept footprint, pushed out by the footprint's radius.
-  const visit = (x: number, y: number, dirX: number, dirY: number): void => {
-    const px = x + dirX * start.r;
-    const py = y + dirY * start.r;
-    const excess = Math.max(-px, px - field.width, -py, py - field.height);
-    if (excess > worst) {
-      worst = excess;
-      at = { x: px, y: py };
-    }
-  };
-  const visitAllDirections = (x: number, y: number): void => {
-    visit(x, y, -1, 0);
-    visit(x, y, 1, 0);
-    visit(x, y, 0, -1);
-    visit(x, y, 0, 1);
-  };
+  const out: Outside = { excess: TOUCH, x: 0, y: 0, found: false };
   for (let k = 0; k < cornerCount(start); k++) {
     const x = cornerX(start, k);
     const y = cornerY(start, k);
-    visitAllDirections(x, y);
+    considerDisc(out, field, x, y, start.r);
     if (motion.kind === 'line') {
-      visitAllDirections(x + motion.dx, y + motion.dy);
+      considerDisc(out, field, x + motion.dx, y + motion.dy, start.r);
       continue;
     }
     const rho = Math.hypot(x - motion.cx, y - motion.cy);
     if (rho < TINY) continue;
     const arc: Arc = { cx: motion.cx, cy: motion.cy, rho, phi0: Math.atan2(y - motion.cy, x - motion.cx), alpha: motion.alpha };
     const end = arc.phi0 + arc.alpha;
-    visitAllDirections(motion.cx + rho * Math.cos(end), motion.cy + rho * Math.sin(end));
+    considerDisc(out, field, motion.cx + rho * Math.cos(end), motion.cy + rho * Math.sin(end), start.r);
     // The arc's axis extremes (east, north, west, south) when the sweep passes them.
     for (let q = 0; q < 4; q++) {
       if (sweepFraction(arc, (q * Math.PI) / 2) === NO_HIT) continue;
       const dirX = q === 0 ? 1 : q === 2 ? -1 : 0;
       const dirY = q === 1 ? 1 : q === 3 ? -1 : 0;
-      visit(motion.cx + dirX * rho, motion.cy + dirY * rho, dirX, dirY);
+      considerPoint(out, field, motion.cx + dirX * (rho + start.r), motion.cy + dirY * (rho + start.r));
     }
   }
-  return at;
+  return out.found ? { x: out.x, y: out.y } : null;
+}
+
+/** The worst point outside the field found so far. */
+interface Outside {
+  excess: number;
+  x: number;
+  y: number;
+  found: boolean;
+}
+
+/** The four axis extremes of a disc (a point when r = 0). */
+function considerDisc(out: Outside, field: Field, x: number, y: number, r: number): void {
+  considerPoint(out, field, x - r, y);
+  considerPoint(out, field, x + r, y);
+  considerPoint(out, field, x, y - r);
+  considerPoint(out, field, x, y + r);
+}
+
+function considerPoint(out: Outside, field: Field, x: number, y: number): void {
+  const excess = Math.max(-x, x - field.width, -y, y - field.height);
+  if (excess > out.excess) {
+    out.excess = excess;
+    out.x = x;
+    out.y = y;
+    out.found = true;
+  }
 }
 
 // ---------------------------------------------------------------------------
@@ -515,16 +525,17 @@ function contactPoint(a: Shape, b: Shape): Point {
   let sumX = 0;
   let sumY = 0;
   let count = 0;
-  for (let k = 0; k < 4; k++) {
-    for (const [own, other] of [[a, b], [b, a]]) {
-      const x = cornerX(own, k);
-      const y = cornerY(own, k);
-      if (pointShapeDist(other, x, y) <= ON_SHAPE) {
-        sumX += x;
-        sumY += y;
-        count++;
-      }
+  for (let k = 0; k < 8; k++) {
+    const own = k < 4 ? a : b;
+    const x = cornerX(own, k % 4);
+    const y = cornerY(own, k % 4);
+    if (pointShapeDist(k < 4 ? b : a, x, y) <= ON_SHAPE) {
+      sumX += x;
+      sumY += y;
+      count++;
     }
+  }
+  for (let k = 0; k < 4; k++) {
     for (let j = 0; j < 4; j++) {
       const t = edgeCrossing(a, k, b, j);
       if (t === NO_HIT) continue;
@@ -566,13 +577,12 @@ function edgeCrossing(a: Shape, k: number, b: Shape, j: number): number {
 function nearestCorner(a: Shape, b: Shape): Point {
   let best: Point = { x: a.x, y: a.y };
   let bestDist = Infinity;
-  for (let k = 0; k < 4; k++) {
-    for (const [own, other] of [[a, b], [b, a]]) {
-      const d = pointShapeDist(other, cornerX(own, k), cornerY(own, k));
-      if (d < bestDist) {
-        bestDist = d;
-        best = { x: cornerX(own, k), y: cornerY(own, k) };
-      }
+  for (let k = 0; k < 8; k++) {
+    const own = k < 4 ? a : b;
+    const d = pointShapeDist(k < 4 ? b : a, cornerX(own, k % 4), cornerY(own, k % 4));
+    if (d < bestDist) {
+      bestDist = d;
+      best = { x: cornerX(own, k % 4), y: cornerY(own, k % 4) };
     }
   }
   return best;

@@ -12,22 +12,32 @@ import { lexLine, type Token } from './lexer';
 import { OPTIONS, STATEMENT_KEYWORDS, suggestWord } from './keywords';
 
 export function parsePlan(text: string): { ast: PlanAst; diagnostics: Diagnostic[] } {
-  const lines = String(text).split('\n');
+  const document = String(text);
   const statements: Statement[] = [];
   const diagnostics: Diagnostic[] = [];
   const letNames = new Set<string>();
-  for (let lineIndex = 0; lineIndex < lines.length; lineIndex++) {
-    const source = lines[lineIndex].endsWith('\r') ? lines[lineIndex].slice(0, -1) : lines[lineIndex];
+  let lineIndex = 0;
+  let lineStart = 0;
+  // Lines are cut one at a time so that a large file is not held twice.
+  for (;;) {
+    const lineBreak = document.indexOf('\n', lineStart);
+    const lineEnd = lineBreak === -1 ? document.length : lineBreak;
+    const contentEnd = lineEnd > lineStart && document.charCodeAt(lineEnd - 1) === 0x0d ? lineEnd - 1 : lineEnd;
+    const source = document.slice(lineStart, contentEnd);
     try {
       const statement = parseLine(lineIndex, source, letNames);
-      if (!statement) continue;
-      statements.push(statement);
-      if (statement.kind === 'let') letNames.add(statement.name);
+      if (statement) {
+        statements.push(statement);
+        if (statement.kind === 'let') letNames.add(statement.name);
+      }
     } catch (problem) {
       diagnostics.push(toDiagnostic(problem, lineIndex, source));
     }
+    if (lineBreak === -1) break;
+    lineStart = lineBreak + 1;
+    lineIndex++;
   }
-  return { ast: { statements, lineCount: lines.length }, diagnostics };
+  return { ast: { statements, lineCount: lineIndex + 1 }, diagnostics };
 }
 
 /** Thrown (without a stack, so bad lines stay cheap) to abandon the current line. */

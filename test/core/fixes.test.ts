@@ -1,0 +1,144 @@
+import { strict as assert } from 'node:assert';
+import fc from 'fast-check';
+import { checkPlan, fewestResets } from '../../src/core';
+import type { CheckResult, Pose, TextEdit } from '../../src/core/types';
+
+// fewestResets: the whole-file fix that inserts `reset yaw` lines. Checked
+// against its promises (no wrap-cross left, the same path) and, on small
+// plans, against a brute-force minimum over every subset of insert positions.
+
+const header = ['wheel 56', 'track 160', 'start (5000, 5000) heading 0'];
+
+/** Applies non-overlapping edits to `text`, last first so earlier offsets stay valid. */
+function applyEdits(text: string, edits: readonly TextEdit[]): string {
+  const lineStarts = [0];
+  for (let i = 0; i < text.length; i++) if (text[i] === '\n') lineStarts.push(i + 1);
+  const offset = (p: { line: number; character: number }) => lineStarts[p.line] + p.character;
+  let out = text;
+  for (const e of [...edits].sort((a, b) => offset(b.range.start) - offset(a.range.start))) {
+    out = out.slice(0, offset(e.range.start)) + e.newText + out.slice(offset(e.range.end));
+  }
+  return out;
+}
+
+function crossings(result: CheckResult): number {
+  return result.diagnostics.filter((d) => d.code === 'wrap-cross').length;
+}
+
+/** End poses of every moving segment, in order (resets do not move the robot). */
+function path(result: CheckResult): Pose[] {
+  return result.runs.flatMap((r) => r.segments.filter((s) => s.kind !== 'reset').map((s) => s.end));
+}
+
+function samePath(a: Pose[], b: Pose[]): boolean {
+  return a.length === b.length && a.every((p, i) =>
+    Math.abs(p.x - b[i].x) < 1e-6 && Math.abs(p.y - b[i].y) < 1e-6 && Math.abs(p.heading - b[i].heading) < 1e-9);
+}
+
+function insertedResets(edits: readonly TextEdit[]): number {
+  return edits.filter((e) => /^\s*reset yaw\n$/.test(e.newText)).length;
+}
+
+/** The fewest `reset yaw` lines, inserted before motions, that leave no wrap-cross (every subset, smallest first). */
+function bruteForceMinimum(motions: string[]): number | undefined {
+  const n = motions.length;
+  let best: number | undefined;
+  for (let mask = 0; mask < 1 << n; mask++) {
+    const size = popcount(mask);
+    if (best !== undefined && size >= best) continue;
+    const lines = [...header];
+    motions.forEach((m, i) => {
+      if (mask & (1 << i)) lines.push('reset yaw');
+      lines.push(m);
+    });
+    if (crossings(checkPlan(lines.join('\n'))) === 0) best = size;
+  }
+  return best;
+}
+
+function popcount(v: number): number {
+  let c = 0;
+  for (let x = v; x; x &= x - 1) c++;
+  return c;
+}
+
+describe('fewestResets', () => {
+  it('offers nothing when nothing crosses', () => {
+    assert.equal(fewestResets(checkPlan([...header, 'turn 90 by gyro', 'turn 80 by gyro'].join('\n'))), undefined);
+  });
+
+  it('a worked example: 150 then three 100° gyro turns need three resets (hand-derived)', () => {
+    // Readings 150 → 250 crosses; every later 100° turn from a reading ≥ 80 crosses too.
+    const text = [...header, 'turn 150 by gyro', 'turn 100 by gyro', 'turn 100 by gyro', 'turn 100 by gyro', 'drive 10 hold 90'].join('\n');
+    const before = checkPlan(text);
+    const fix = fewestResets(before)!;
+    assert.ok(fix);
+    assert.equal(insertedResets(fix.edits), 3);
+    const after = checkPlan(applyEdits(text, fix.edits));
+    assert.equal(crossings(after), 0);
+    assert.ok(samePath(path(before), path(after)));
+    assert.equal(bruteForceMinimum(['turn 150 by gyro', 'turn 100 by gyro', 'turn 100 by gyro', 'turn 100 by gyro']), 3);
+  });
+
+  it('matches a brute-force minimum over all subsets of insert positions (relative gyro turns)', () => {
+    const motion = fc.oneof(
+      { weight: 4, arbitrary: fc.integer({ min: -179, max: 179 }).map((a) => `turn ${a} by gyro`) },
+      { weight: 1, arbitrary: fc.integer({ min: -200, max: 200 }).map((a) => `turn ${a}`) },
+      { weight: 1, arbitrary: fc.integer({ min: -100, max: 300 }).map((d) => `drive ${d}`) },
+    );
+    fc.assert(fc.property(fc.array(motion, { minLength: 1, maxLength: 7 }), (motions) => {
+      const text = [...header, ...motions].join('\n');
+      const before = checkPlan(text);
+      const fix = fewestResets(before);
+      const minimum = bruteForceMinimum(motions);
+      if (crossings(before) === 0) {
+        assert.equal(fix, undefined);
+        return;
+      }
+      assert.ok(fix, 'a fix exists');
+      assert.equal(insertedResets(fix.edits), minimum, `fewestResets inserted ${insertedResets(fix.edits)}, brute force needs ${minimum}`);
+      const after = checkPlan(applyEdits(text, fix.edits));
+      assert.equal(crossings(after), 0);
+      assert.ok(samePath(path(before), path(after)), 'the path is unchanged');
+    }), { numRuns: 120, seed: 41 });
+  });
+
+  it('with `turn to` and `hold` targets rewritten, removes every crossing and keeps the path', () => {
+    const motion = fc.oneof(
+      fc.integer({ min: -170, max: 170 }).map((a) => `turn ${a} by gyro`),
+      fc.integer({ min: -170, max: 170 }).map((h) => `turn to ${h}`),
+      fc.integer({ min: -170, max: 170 }).map((h) => `drive 50 hold ${h} step`),
+      fc.integer({ min: -170, max: 170 }).map((a) => `turn ${a} pivot left`),
+      fc.integer({ min: -170, max: 170 }).map((a) => `turn ${a} by gyro reset`),
+      fc.constant('reset yaw'),
+    );
+    fc.assert(fc.property(fc.constantFrom('-180 to 180', '0 to 360'), fc.array(motion, { minLength: 2, maxLength: 10 }), (range, motions) => {
+      const text = [`yaw range ${range}`, ...header, ...motions].join('\n');
+      const before = checkPlan(text);
+      // Only plans where every gyro segment's own change of reading fits the range can be fixed by resets.
+      const { lo, hi } = before.setup.yawRange;
+      const fixable = before.runs[0].segments.every((s) => s.yawTarget === undefined || (s.yawTarget - s.yawStart >= lo && s.yawTarget - s.yawStart < hi));
+      fc.pre(fixable && crossings(before) > 0);
+      const fix = fewestResets(before);
+      assert.ok(fix);
+      const after = checkPlan(applyEdits(text, fix.edits));
+      assert.deepEqual(after.diagnostics.filter((d) => d.code === 'wrap-cross' || d.code === 'syntax').map((d) => d.message), []);
+      assert.ok(samePath(path(before), path(after)), 'the path is unchanged');
+    }), { numRuns: 100, seed: 42 });
+  });
+
+  it('fixes every run of a file with several runs', () => {
+    const text = [
+      'wheel 56', 'track 160',
+      'run "a"', 'start (500, 500) heading 0', 'turn 120 by gyro', 'turn 120 by gyro',
+      'run "b"', 'start (500, 500) heading 0', 'turn -100 by gyro', 'turn -100 by gyro', 'turn to 150',
+    ].join('\n');
+    const before = checkPlan(text);
+    const fix = fewestResets(before)!;
+    // Run a: one reset before its second turn; run b: one before its second turn (then `turn to` is rewritten).
+    assert.equal(insertedResets(fix.edits), 2);
+    const after = checkPlan(applyEdits(text, fix.edits));
+    assert.equal(crossings(after), 0);
+    assert.ok(samePath(path(before), path(after)));
+  });
+});

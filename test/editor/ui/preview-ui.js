@@ -1,0 +1,78 @@
+// The path preview through the real editor's UI, as a person would use it:
+//   EXTENSIONS=veer.vsix real-editor.sh ui test/editor/workspace test/editor/ui/preview-ui.js [OUT_DIR] [PLAN]
+// Opens the plan, sees its squiggle and Problems entry, opens the preview, and
+// checks the drawing, the cursor highlight and click-to-reveal. Leaves
+// screenshots in OUT_DIR (default test-output/).
+const fs = require('fs');
+const path = require('path');
+const { openEditor, openFile, runCommand, problems, webview } = require(path.join(
+  process.env.REAL_EDITOR_DIR || path.join(__dirname, '..', '..', '..', '..', 'shared', 'tools', 'real-editor'),
+  'editor-page.js',
+));
+
+const outDir = path.resolve(process.argv[2] || 'test-output');
+const planName = process.argv[3] || 'wrap-check.veer';
+// 0-based lines of test/editor/workspace/wrap-check.veer.
+const DRIVE_LINE = 9; // drive 3 * lane speed 60% hold 0
+const WRAP_LINE = 11; // the turn whose yaw target crosses the wrap point
+const SECOND_RUN_DRIVE_LINE = 17; // drive lane
+
+function check(condition, message) {
+  if (!condition) throw new Error(message);
+}
+
+/** Goes to a 1-based line with the editor's Go to Line box. */
+async function goToLine(page, line) {
+  await page.keyboard.press('Control+G');
+  await page.waitForSelector('.quick-input-widget .quick-input-box input');
+  await page.keyboard.type(String(line));
+  await page.keyboard.press('Enter');
+  await page.waitForSelector(`.statusbar-item:has-text("Ln ${line},")`);
+}
+
+(async () => {
+  fs.mkdirSync(outDir, { recursive: true });
+  const { page, close } = await openEditor();
+  let failed = false;
+  try {
+    await openFile(page, planName);
+    await page.waitForSelector('.monaco-editor .squiggly-error');
+    const rows = await problems(page);
+    check(rows.some((r) => r.includes('wrap-cross')), `Problems panel: ${rows.join(' | ')}`);
+    await page.keyboard.press('Control+Shift+M'); // hide the panel again: more room for the drawing
+
+    await page.locator('.monaco-editor .view-lines').first().click();
+    await runCommand(page, 'Veer: Open Path Preview to the Side');
+    const view = webview(page);
+    await view.locator('svg.drawing path.seg').first().waitFor();
+    const segments = await view.locator('svg.drawing path.seg').count();
+    check(segments >= 5, `only ${segments} segments drawn`);
+    check(await view.locator('svg.drawing .marker-wrap').count() >= 1, 'no wrap marker in the drawing');
+
+    await page.locator('.monaco-editor .view-lines').first().click();
+    await goToLine(page, WRAP_LINE + 1);
+    await view.locator(`svg.drawing .seg.is-current[data-line="${WRAP_LINE}"]`).waitFor();
+    await page.screenshot({ path: path.join(outDir, 'preview-ui-highlight.png') });
+
+    await view.locator(`svg.drawing path.seg[data-line="${DRIVE_LINE}"]`).click();
+    await page.waitForSelector(`.statusbar-item:has-text("Ln ${DRIVE_LINE + 1},")`);
+    // The click selected the line's text, so the status bar counts a selection.
+    await page.waitForSelector('.statusbar-item:has-text("selected")');
+    await view.locator(`svg.drawing .seg.is-current[data-line="${DRIVE_LINE}"]`).waitFor();
+
+    await view.locator(`svg.drawing path.seg[data-line="${SECOND_RUN_DRIVE_LINE}"]`).hover();
+    const tooltip = view.locator('.tooltip', { hasText: `line ${SECOND_RUN_DRIVE_LINE + 1}: drive` });
+    await tooltip.waitFor({ state: 'visible' });
+    const tip = await tooltip.innerText();
+    check(/time \d+\.\d\d s/.test(tip), `tooltip: ${tip}`);
+    await page.screenshot({ path: path.join(outDir, 'preview-ui.png') });
+    console.log(`preview-ui: ${segments} segments drawn; highlight, reveal and tooltip seen; screenshots in ${outDir}`);
+  } catch (e) {
+    failed = true;
+    console.error('preview-ui FAILED:', e.message);
+    await page.screenshot({ path: path.join(outDir, 'preview-ui-failure.png') }).catch(() => {});
+  } finally {
+    await close();
+  }
+  process.exit(failed ? 1 : 0);
+})();
