@@ -222,7 +222,8 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       } else seg.complete = false;
       if (s.gain && dm.gain !== undefined && dm.gain <= 0) report(s.optionRanges.gain ?? s.range, 'error', 'setup', 'the gain must be greater than zero.');
       segments.push(seg);
-      sweep(seg, 'drive');
+      // A drive whose length could not be read has no path to check.
+      if (dm.distance !== undefined) sweep(seg, 'drive');
       return end;
     }
 
@@ -335,7 +336,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         seg.complete = false;
       }
       segments.push(seg);
-      sweep(seg, shape);
+      if (s.to !== undefined ? tm.to !== undefined : tm.angle !== undefined) sweep(seg, shape);
       return end;
     }
 
@@ -506,7 +507,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         if (spinHits.length === 0) hint = ' A spin turn here clears it (the robot would then end at a different position).';
       }
       report(range, 'error', 'collision',
-        `the robot's footprint hits the ${o.kind} "${o.name}" during ${what}.${hint || ' Move the path away from it, or change the turn shape.'}`,
+        `the robot's footprint hits the ${o.kind} "${o.name}" during ${what}.${hint || (piece?.type === 'rotate' && seg.kind === 'turn' ? ' Turn further from it, or use a turn shape that sweeps less (a spin sweeps the least).' : ' Move the path away from it: change the drives before this line.')}`,
         { at: hit.at, related: [{ range: { start: { line: o.line, character: 0 }, end: { line: o.line, character: 0 } }, message: `"${o.name}" is declared here` }] });
     }
   }

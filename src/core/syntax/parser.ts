@@ -4,9 +4,10 @@
 // user types. Expressions stay source text: math.js evaluates them later.
 import * as math from 'mathjs';
 import type {
-  BodyStmt, BoxStmt, CircleStmt, Diagnostic, DriveStmt, ExprNode, FieldStmt, Fix, MarkStmt, MotorStmt,
-  PlanAst, PointNode, Range, RelatedInfo, Statement, StringNode, TrackStmt, TurnShapeNode, TurnStmt, WordNode,
-  ZoneStmt, LengthUnitName, NoiseStmt,
+  BodyStmt, BoxStmt, CircleStmt, Diagnostic, DriveStmt, ExprNode, FieldStmt, Fix, GearStmt, LengthUnitName,
+  LetStmt, LimitStmt, MarkStmt, MotorStmt, NoiseStmt, PlanAst, PlanStmt, PointNode, Range, RelatedInfo,
+  ResetYawStmt, RunStmt, SquareStmt, StartStmt, Statement, StringNode, TrackStmt, TurnShapeNode, TurnStmt,
+  TurnsStmt, UnitsStmt, WaitStmt, WheelStmt, WordNode, YawRangeStmt, ZoneStmt,
 } from '../types';
 import { lexLine, type Token } from './lexer';
 import { OPTIONS, STATEMENT_KEYWORDS, suggestWord } from './keywords';
@@ -161,7 +162,6 @@ const TRACK_OPTIONS: OptionSpecs = { effective: { value: EXPR, example: 'effecti
 const MOTOR_OPTIONS: OptionSpecs = { lag: { value: EXPR, example: 'lag 80 ms' } };
 const BODY_OPTIONS: OptionSpecs = { axle: { value: EXPR, example: 'axle -30' } };
 const FIELD_OPTIONS: OptionSpecs = { grid: { value: EXPR, example: 'grid 100' } };
-const NO_OPTIONS: OptionSpecs = {};
 
 const NEEDS = {
   plan: '`plan` needs a title in double quotes, e.g. `plan "Practice run"`',
@@ -197,7 +197,7 @@ const FIELD_WIDTH_STOPS: ReadonlySet<string> = new Set(['by', 'grid']);
 function parseLine(line: number, source: string, letNames: ReadonlySet<string>): Statement | undefined {
   const lexed = lexLine(source);
   if (lexed.error) {
-    // Report the earliest problem: a string error after a bad keyword is secondary.
+    // A misspelt keyword is the more useful report than a string problem later on the line.
     const { start, end, message } = lexed.error;
     if (lexed.tokens.length === 0 || isKnownKeyword(lexed.tokens[0])) throw new LineProblem(start, end, message);
     new LineReader(line, source, lexed.tokens, letNames).checkFirstWord();
@@ -207,11 +207,18 @@ function parseLine(line: number, source: string, letNames: ReadonlySet<string>):
   return new LineReader(line, source, lexed.tokens, letNames).statement();
 }
 
+const KEYWORD_SET: ReadonlySet<string> = new Set(STATEMENT_KEYWORDS);
+
 function isKnownKeyword(token: Token): boolean {
-  return token.kind === 'ident' && STATEMENT_KEYWORDS.includes(token.text);
+  return token.kind === 'ident' && KEYWORD_SET.has(token.text);
 }
 
+/** Error messages that need building are built only when the line is bad. */
+type Message = string | (() => string);
+
 type SharedFields = Pick<Statement, 'line' | 'range' | 'keywordRange' | 'optionRanges'>;
+/** A statement before the shared fields are added (distributes over unions such as `BoxStmt | ZoneStmt`). */
+type StatementFields<S extends Statement> = S extends Statement ? Omit<S, keyof SharedFields> : never;
 
 /** A parsed option value, by kind. */
 interface OptionResult {
@@ -239,8 +246,8 @@ class LineReader {
     if (first.kind !== 'ident') {
       this.fail(first, 'a line starts with a keyword, e.g. `drive 300 mm` or `turn 90`');
     }
-    if (!STATEMENT_KEYWORDS.includes(first.text)) this.unknownWord(first, STATEMENT_KEYWORDS, () =>
-      `unknown word \`${first.text}\`: a line starts with a keyword such as \`drive\`, \`turn\`, \`start\` or \`let\``);
+    if (!KEYWORD_SET.has(first.text)) this.unknownWord(first, STATEMENT_KEYWORDS, () =>
+      `unknown word \`${abbreviate(first.text)}\`: a line starts with a keyword such as \`drive\`, \`turn\`, \`start\` or \`let\``);
   }
 
   statement(): Statement {
@@ -251,10 +258,10 @@ class LineReader {
       case 'units': return this.units(keyword);
       case 'turns': return this.turns(keyword);
       case 'yaw': return this.yawRange(keyword);
-      case 'wheel': return this.single(keyword, 'wheel', (base, value) => ({ ...base, kind: 'wheel', diameter: value }));
-      case 'gear': return this.single(keyword, 'gear', (base, value) => ({ ...base, kind: 'gear', ratio: value }));
-      case 'limit': return this.single(keyword, 'limit', (base, value) => ({ ...base, kind: 'limit', time: value }));
-      case 'wait': return this.single(keyword, 'wait', (base, value) => ({ ...base, kind: 'wait', time: value }));
+      case 'wheel': return this.wheel(keyword);
+      case 'gear': return this.gear(keyword);
+      case 'limit': return this.limit(keyword);
+      case 'wait': return this.wait(keyword);
       case 'track': return this.track(keyword);
       case 'motor': return this.motor(keyword);
       case 'body': return this.body(keyword);
@@ -278,56 +285,71 @@ class LineReader {
   // -------------------------------------------------------------------------
   // Statements
 
-  private plan(keyword: Token): Statement {
+  private plan(keyword: Token): PlanStmt {
     const title = this.string(NEEDS.plan);
-    return { ...this.finish(keyword, keyword), kind: 'plan', title };
+    return this.finish<PlanStmt>(keyword, keyword, { kind: 'plan', title });
   }
 
-  private run(keyword: Token): Statement {
+  private run(keyword: Token): RunStmt {
     const name = this.string(NEEDS.run);
-    return { ...this.finish(keyword, keyword), kind: 'run', name };
+    return this.finish<RunStmt>(keyword, keyword, { kind: 'run', name });
   }
 
-  private units(keyword: Token): Statement {
+  private units(keyword: Token): UnitsStmt {
     const unit = this.word(['mm', 'cm', 'm', 'in'], NEEDS.units) as WordNode<LengthUnitName>;
-    return { ...this.finish(keyword, keyword), kind: 'units', unit };
+    return this.finish<UnitsStmt>(keyword, keyword, { kind: 'units', unit });
   }
 
-  private turns(keyword: Token): Statement {
+  private turns(keyword: Token): TurnsStmt {
     const direction = this.word(['clockwise', 'counterclockwise'], NEEDS.turns) as WordNode<'clockwise' | 'counterclockwise'>;
-    return { ...this.finish(keyword, keyword), kind: 'turns', direction };
+    return this.finish<TurnsStmt>(keyword, keyword, { kind: 'turns', direction });
   }
 
-  private yawRange(keyword: Token): Statement {
+  private yawRange(keyword: Token): YawRangeStmt {
     const second = this.secondWord('range', '`yaw` is written `yaw range LO to HI`, e.g. `yaw range -180 to 180`');
     this.optionWords = OPTIONS.yawRange;
     const lo = this.expr(NEEDS.yawRange, YAW_LOW_STOPS);
     this.separator('to', NEEDS.yawRange);
     const hi = this.expr(NEEDS.yawRange, NO_STOPS);
-    return { ...this.finish(keyword, second), kind: 'yawRange', lo, hi };
+    return this.finish<YawRangeStmt>(keyword, second, { kind: 'yawRange', lo, hi });
   }
 
-  private single<S extends Statement>(
-    keyword: Token,
-    kind: 'wheel' | 'gear' | 'limit' | 'wait',
-    build: (base: SharedFields, value: ExprNode) => S,
-  ): S {
-    const value = this.expr(NEEDS[kind], NO_STOPS);
-    return build(this.finish(keyword, keyword), value);
+  private wheel(keyword: Token): WheelStmt {
+    const diameter = this.expr(NEEDS.wheel, NO_STOPS);
+    return this.finish<WheelStmt>(keyword, keyword, { kind: 'wheel', diameter });
+  }
+
+  private gear(keyword: Token): GearStmt {
+    const ratio = this.expr(NEEDS.gear, NO_STOPS);
+    return this.finish<GearStmt>(keyword, keyword, { kind: 'gear', ratio });
+  }
+
+  private limit(keyword: Token): LimitStmt {
+    const time = this.expr(NEEDS.limit, NO_STOPS);
+    return this.finish<LimitStmt>(keyword, keyword, { kind: 'limit', time });
+  }
+
+  private wait(keyword: Token): WaitStmt {
+    const time = this.expr(NEEDS.wait, NO_STOPS);
+    return this.finish<WaitStmt>(keyword, keyword, { kind: 'wait', time });
   }
 
   private track(keyword: Token): TrackStmt {
     this.optionWords = OPTIONS.track;
     const width = this.expr(NEEDS.track, stopsOf(TRACK_OPTIONS));
     const options = this.options(TRACK_OPTIONS);
-    return { ...this.finish(keyword, keyword), kind: 'track', width, ...optionalExpr('effective', options.effective) };
+    const fields: StatementFields<TrackStmt> = { kind: 'track', width };
+    copyExprs(fields, options, ['effective']);
+    return this.finish<TrackStmt>(keyword, keyword, fields);
   }
 
   private motor(keyword: Token): MotorStmt {
     this.optionWords = OPTIONS.motor;
     const speed = this.expr(NEEDS.motor, stopsOf(MOTOR_OPTIONS));
     const options = this.options(MOTOR_OPTIONS);
-    return { ...this.finish(keyword, keyword), kind: 'motor', speed, ...optionalExpr('lag', options.lag) };
+    const fields: StatementFields<MotorStmt> = { kind: 'motor', speed };
+    copyExprs(fields, options, ['lag']);
+    return this.finish<MotorStmt>(keyword, keyword, fields);
   }
 
   private body(keyword: Token): BodyStmt {
@@ -336,7 +358,9 @@ class LineReader {
     this.separator('by', NEEDS.body);
     const length = this.expr(NEEDS.body, stopsOf(BODY_OPTIONS));
     const options = this.options(BODY_OPTIONS);
-    return { ...this.finish(keyword, keyword), kind: 'body', width, length, ...optionalExpr('axle', options.axle) };
+    const fields: StatementFields<BodyStmt> = { kind: 'body', width, length };
+    copyExprs(fields, options, ['axle']);
+    return this.finish<BodyStmt>(keyword, keyword, fields);
   }
 
   private field(keyword: Token): FieldStmt {
@@ -345,15 +369,17 @@ class LineReader {
     this.separator('by', NEEDS.field);
     const height = this.expr(NEEDS.field, stopsOf(FIELD_OPTIONS));
     const options = this.options(FIELD_OPTIONS);
-    return { ...this.finish(keyword, keyword), kind: 'field', width, height, ...optionalExpr('grid', options.grid) };
+    const fields: StatementFields<FieldStmt> = { kind: 'field', width, height };
+    copyExprs(fields, options, ['grid']);
+    return this.finish<FieldStmt>(keyword, keyword, fields);
   }
 
-  private twoCorners<K extends 'box' | 'zone'>(keyword: Token, kind: K): BoxStmt | ZoneStmt {
+  private twoCorners(keyword: Token, kind: 'box' | 'zone'): BoxStmt | ZoneStmt {
     const name = this.string(NEEDS[kind]);
     const a = this.point(NEEDS[kind]);
     this.separator('to', NEEDS[kind]);
     const b = this.point(NEEDS[kind]);
-    return { ...this.finish(keyword, keyword), kind, name, a, b };
+    return this.finish<BoxStmt | ZoneStmt>(keyword, keyword, { kind, name, a, b });
   }
 
   private circle(keyword: Token): CircleStmt {
@@ -361,21 +387,18 @@ class LineReader {
     const center = this.point(NEEDS.circle);
     this.separator('radius', NEEDS.circle);
     const radius = this.expr(NEEDS.circle, NO_STOPS);
-    return { ...this.finish(keyword, keyword), kind: 'circle', name, center, radius };
+    return this.finish<CircleStmt>(keyword, keyword, { kind: 'circle', name, center, radius });
   }
 
   private noise(keyword: Token): NoiseStmt {
     this.optionWords = OPTIONS.noise;
     const options = this.options(NOISE_OPTIONS);
-    const statement: NoiseStmt = { ...this.finish(keyword, keyword), kind: 'noise' };
-    for (const name of ['drive', 'turn', 'gyro', 'drift'] as const) {
-      const value = options[name]?.expr;
-      if (value) statement[name] = value;
-    }
-    return statement;
+    const fields: StatementFields<NoiseStmt> = { kind: 'noise' };
+    copyExprs(fields, options, ['drive', 'turn', 'gyro', 'drift']);
+    return this.finish<NoiseStmt>(keyword, keyword, fields);
   }
 
-  private let(keyword: Token): Statement {
+  private let(keyword: Token): LetStmt {
     const name = this.peek();
     if (!name || name.kind !== 'ident') return this.fail(name ?? keyword, NEEDS.let);
     this.pos++;
@@ -385,46 +408,38 @@ class LineReader {
     }
     this.pos++;
     const value = this.expr(NEEDS.let, NO_STOPS);
-    return {
-      ...this.finish(keyword, keyword),
+    return this.finish<LetStmt>(keyword, keyword, {
       kind: 'let',
       name: name.text,
       nameRange: this.range(name.start, name.end),
       value,
-    };
+    });
   }
 
-  private start(keyword: Token): Statement {
+  private start(keyword: Token): StartStmt {
     this.optionWords = OPTIONS.start;
     const at = this.point(NEEDS.start);
     const headingWord = this.peek();
     if (!headingWord || headingWord.kind !== 'ident' || headingWord.text !== 'heading') {
-      if (headingWord?.kind === 'ident') this.unknownWord(headingWord, ['heading'], () => NEEDS.start);
+      if (headingWord?.kind === 'ident') this.unknownWord(headingWord, ['heading'], NEEDS.start);
       return this.fail(headingWord ?? keyword, NEEDS.start);
     }
     this.pos++;
     const heading = this.expr(NEEDS.start, NO_STOPS, headingWord);
     this.optionRanges.heading = this.range(headingWord.start, heading.range.end.character);
-    return { ...this.finish(keyword, keyword), kind: 'start', at, heading };
+    return this.finish<StartStmt>(keyword, keyword, { kind: 'start', at, heading });
   }
 
   private drive(keyword: Token): DriveStmt {
     this.optionWords = OPTIONS.drive;
     const distance = this.expr(NEEDS.drive, stopsOf(DRIVE_OPTIONS));
     const options = this.options(DRIVE_OPTIONS);
-    if (options.step && !options.hold) {
+    if (options.has('step') && !options.has('hold')) {
       this.failRange(this.optionRanges.step, '`step` belongs to `hold`: write the heading to turn onto, e.g. `hold 90 step`');
     }
-    return {
-      ...this.finish(keyword, keyword),
-      kind: 'drive',
-      distance,
-      step: options.step !== undefined,
-      ...optionalExpr('speed', options.speed),
-      ...optionalExpr('hold', options.hold),
-      ...optionalExpr('gain', options.gain),
-      ...optionalExpr('ramp', options.ramp),
-    };
+    const fields: StatementFields<DriveStmt> = { kind: 'drive', distance, step: options.has('step') };
+    copyExprs(fields, options, ['speed', 'hold', 'gain', 'ramp']);
+    return this.finish<DriveStmt>(keyword, keyword, fields);
   }
 
   private turn(keyword: Token): TurnStmt {
@@ -434,116 +449,114 @@ class LineReader {
     if (isTurnTo) this.pos++;
     const value = this.expr(NEEDS.turn, stopsOf(TURN_OPTIONS));
     const options = this.options(TURN_OPTIONS);
-    if (options.reverse && !options.arc && !options.ratio) {
+    const arc = options.get('arc')?.expr;
+    const ratio = options.get('ratio')?.expr;
+    const pivot = options.get('pivot')?.word;
+    if (options.has('reverse') && !arc && !ratio) {
       this.failRange(this.optionRanges.reverse, '`reverse` drives an arc backwards, so it needs `arc` or `ratio`, e.g. `turn 90 arc 200 mm reverse`');
     }
     let shape: TurnShapeNode = { kind: 'spin' };
-    if (options.pivot?.word) shape = { kind: 'pivot', side: options.pivot.word.value as 'left' | 'right' };
-    else if (options.arc?.expr) shape = { kind: 'arc', radius: options.arc.expr };
-    else if (options.ratio?.expr) shape = { kind: 'ratio', ratio: options.ratio.expr };
-    return {
-      ...this.finish(keyword, isTurnTo ? toWord : keyword),
+    if (pivot) shape = { kind: 'pivot', side: pivot.value as 'left' | 'right' };
+    else if (arc) shape = { kind: 'arc', radius: arc };
+    else if (ratio) shape = { kind: 'ratio', ratio };
+    const fields: StatementFields<TurnStmt> = {
       kind: 'turn',
-      ...(isTurnTo ? { to: value } : { angle: value }),
       shape,
-      reverse: options.reverse !== undefined,
-      sensing: options.by?.word?.value === 'gyro' ? 'gyro' : 'encoders',
-      ...optionalExpr('speed', options.speed),
-      ...optionalExpr('min', options.min),
-      ...optionalExpr('gain', options.gain),
-      ...optionalExpr('stop', options.stop),
-      ramp: options.ramp !== undefined,
-      reset: options.reset !== undefined,
+      reverse: options.has('reverse'),
+      sensing: options.get('by')?.word?.value === 'gyro' ? 'gyro' : 'encoders',
+      ramp: options.has('ramp'),
+      reset: options.has('reset'),
     };
+    if (isTurnTo) fields.to = value;
+    else fields.angle = value;
+    copyExprs(fields, options, ['speed', 'min', 'gain', 'stop']);
+    return this.finish<TurnStmt>(keyword, isTurnTo ? toWord : keyword, fields);
   }
 
-  private resetYaw(keyword: Token): Statement {
+  private resetYaw(keyword: Token): ResetYawStmt {
     const second = this.secondWord('yaw', NEEDS.resetYaw);
-    return { ...this.finish(keyword, second), kind: 'resetYaw' };
+    return this.finish<ResetYawStmt>(keyword, second, { kind: 'resetYaw' });
   }
 
-  private square(keyword: Token): Statement {
+  private square(keyword: Token): SquareStmt {
     this.optionWords = OPTIONS.square;
     const side = this.word(['front', 'back'], NEEDS.square);
     const options = this.options(SQUARE_OPTIONS);
-    return {
-      ...this.finish(keyword, keyword),
-      kind: 'square',
-      side: side.value as 'front' | 'back',
-      ...optionalExpr('speed', options.speed),
-    };
+    const fields: StatementFields<SquareStmt> = { kind: 'square', side: side.value as 'front' | 'back' };
+    copyExprs(fields, options, ['speed']);
+    return this.finish<SquareStmt>(keyword, keyword, fields);
   }
 
   private mark(keyword: Token): MarkStmt {
     this.optionWords = OPTIONS.mark;
     const name = this.string(NEEDS.mark);
     const options = this.options(MARK_OPTIONS);
-    const statement: MarkStmt = { ...this.finish(keyword, keyword), kind: 'mark', name };
-    if (options.at?.point) statement.at = options.at.point;
-    if (options.heading?.expr) statement.heading = options.heading.expr;
-    if (options.within?.expr) statement.within = options.within.expr;
-    if (options.in?.string) statement.inZone = options.in.string;
-    return statement;
+    const fields: StatementFields<MarkStmt> = { kind: 'mark', name };
+    const at = options.get('at')?.point;
+    const zone = options.get('in')?.string;
+    if (at) fields.at = at;
+    copyExprs(fields, options, ['heading', 'within']);
+    if (zone) fields.inZone = zone;
+    return this.finish<MarkStmt>(keyword, keyword, fields);
   }
 
   // -------------------------------------------------------------------------
   // Pieces
 
-  /** Fields every statement shares; also rejects anything left on the line. */
-  private finish(keyword: Token, keywordEnd: Token): SharedFields {
+  /** Adds the fields every statement shares; rejects anything left on the line. */
+  private finish<S extends Statement>(keyword: Token, keywordEnd: Token, fields: StatementFields<S>): S {
+    const last = this.tokens[this.tokens.length - 1];
     const stray = this.peek();
     if (stray) {
-      const last = this.tokens[this.tokens.length - 1];
       throw new LineProblem(stray.start, last.end,
         `unexpected \`${abbreviate(this.source.slice(stray.start, last.end))}\` after the end of the statement`);
     }
-    const last = this.tokens[this.tokens.length - 1];
-    return {
-      line: this.line,
-      range: this.range(keyword.start, last.end),
-      keywordRange: this.range(keyword.start, keywordEnd.end),
-      optionRanges: this.optionRanges,
-    };
+    const statement = fields as StatementFields<S> & SharedFields;
+    statement.line = this.line;
+    statement.range = this.range(keyword.start, last.end);
+    statement.keywordRange = this.range(keyword.start, keywordEnd.end);
+    statement.optionRanges = this.optionRanges;
+    return statement as unknown as S;
   }
 
-  private secondWord(expected: string, message: string): Token {
+  private secondWord(expected: string, message: Message): Token {
     const token = this.peek();
     if (!token || token.kind !== 'ident' || token.text !== expected) {
-      if (token?.kind === 'ident') this.unknownWord(token, [expected], () => message);
+      if (token?.kind === 'ident') this.unknownWord(token, [expected], message);
       return this.fail(token ?? this.tokens[this.pos - 1], message);
     }
     this.pos++;
     return token;
   }
 
-  private separator(expected: string, message: string): void {
+  private separator(expected: string, message: Message): void {
     const token = this.peek();
     if (!token || token.kind !== 'ident' || token.text !== expected) {
-      if (token?.kind === 'ident') this.unknownWord(token, [expected], () => message);
+      if (token?.kind === 'ident') this.unknownWord(token, [expected], message);
       this.fail(token ?? this.tokens[this.pos - 1], message);
     }
     this.pos++;
     this.optionRanges[expected] = this.range(token.start, token.end);
   }
 
-  private string(message: string): StringNode {
+  private string(message: Message): StringNode {
     const token = this.peek();
     if (!token || token.kind !== 'string') return this.fail(token ?? this.tokens[this.pos - 1], message);
     this.pos++;
     return { kind: 'string', value: token.value ?? '', range: this.range(token.start, token.end) };
   }
 
-  private word(words: readonly string[], message: string): WordNode {
+  private word(words: readonly string[], message: Message): WordNode {
     const token = this.peek();
     if (!token || token.kind !== 'ident' || !words.includes(token.text)) {
-      if (token?.kind === 'ident') this.unknownWord(token, words, () => message);
+      if (token?.kind === 'ident') this.unknownWord(token, words, message);
       return this.fail(token ?? this.tokens[this.pos - 1], message);
     }
     this.pos++;
     return { kind: 'word', value: token.text, range: this.range(token.start, token.end) };
   }
 
-  private point(message: string): PointNode {
+  private point(message: Message): PointNode {
     const open = this.peek();
     if (!open || open.text !== '(') return this.fail(open ?? this.tokens[this.pos - 1], message);
     this.pos++;
@@ -567,7 +580,7 @@ class LineReader {
    * of an operator), a `,` or `)` at depth 0, a string, or the end of the line.
    * `before` is the token a missing value is reported on.
    */
-  private expr(message: string, stops: ReadonlySet<string>, before?: Token, inPoint = false): ExprNode {
+  private expr(message: Message, stops: ReadonlySet<string>, before?: Token, inPoint = false): ExprNode {
     const first = this.pos;
     const openParens: Token[] = [];
     while (this.pos < this.tokens.length) {
@@ -619,8 +632,8 @@ class LineReader {
   }
 
   /** Reads the options (and flags and shapes) after a statement's fixed part. */
-  private options(specs: OptionSpecs): Partial<Record<string, OptionResult>> {
-    const results: Partial<Record<string, OptionResult>> = {};
+  private options(specs: OptionSpecs): Map<string, OptionResult> {
+    const results = new Map<string, OptionResult>();
     const stops = stopsOf(specs);
     let shape: Token | undefined;
     while (this.pos < this.tokens.length) {
@@ -647,23 +660,28 @@ class LineReader {
         shape = name;
       }
       this.pos++;
-      const needs = `\`${name.text}\` needs a value, e.g. \`${spec.example}\``;
+      const needs = (): string => `\`${name.text}\` needs a value, e.g. \`${spec.example}\``;
       const result: OptionResult = {};
       switch (spec.value.kind) {
         case 'flag': break;
         case 'expr': result.expr = this.expr(needs, stops, name); break;
         case 'point': result.point = this.point(needs); break;
         case 'string': result.string = this.string(needs); break;
-        case 'word': result.word = this.word(spec.value.words, `\`${name.text}\` takes ${spec.value.words.map((word) => `\`${word}\``).join(' or ')}, e.g. \`${spec.example}\``); break;
+        case 'word': {
+          const words = spec.value.words;
+          result.word = this.word(words, () =>
+            `\`${name.text}\` takes ${words.map((word) => `\`${word}\``).join(' or ')}, e.g. \`${spec.example}\``);
+          break;
+        }
       }
-      results[name.text] = result;
+      results.set(name.text, result);
       this.optionRanges[name.text] = this.range(name.start, this.tokens[this.pos - 1].end);
     }
     return results;
   }
 
   /** Fails with a did-you-mean fix when `token` is a case change or a slip of the pen from a candidate. */
-  private unknownWord(token: Token, candidates: readonly string[], otherwise?: () => string): void {
+  private unknownWord(token: Token, candidates: readonly string[], otherwise?: Message): void {
     const suggestion = suggestWord(token.text, candidates);
     if (suggestion !== undefined) {
       throw new LineProblem(token.start, token.end,
@@ -674,7 +692,7 @@ class LineReader {
           preferred: true,
         }]);
     }
-    if (otherwise) this.fail(token, otherwise());
+    if (otherwise) this.fail(token, otherwise);
   }
 
   private peek(): Token | undefined {
@@ -685,8 +703,8 @@ class LineReader {
     return this.tokens[this.pos++];
   }
 
-  private fail(token: Token, message: string): never {
-    throw new LineProblem(token.start, token.end, message);
+  private fail(token: Token, message: Message): never {
+    throw new LineProblem(token.start, token.end, typeof message === 'string' ? message : message());
   }
 
   private failRange(range: Range | undefined, message: string): never {
@@ -707,8 +725,12 @@ function stopsOf(specs: OptionSpecs): ReadonlySet<string> {
   return stops;
 }
 
-function optionalExpr<K extends string>(name: K, result: OptionResult | undefined): Partial<Record<K, ExprNode>> {
-  return result?.expr ? ({ [name]: result.expr } as Record<K, ExprNode>) : {};
+/** Copies the expression values of the named options that were written. */
+function copyExprs<F extends object>(fields: F, options: Map<string, OptionResult>, names: readonly (keyof F & string)[]): void {
+  for (const name of names) {
+    const value = options.get(name)?.expr;
+    if (value) (fields as Record<string, unknown>)[name] = value;
+  }
 }
 
 /** Keeps messages readable when the offending text is a whole line of junk. */

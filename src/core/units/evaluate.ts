@@ -48,6 +48,8 @@ interface Compiled {
   /** Free names that are neither units nor math.js names: must come from `let`. */
   freeNames: string[];
   percent: boolean;
+  /** The value of an expression with no free names, kept after its first evaluation: it cannot change. */
+  constant?: MathValue;
 }
 interface CompileError {
   ok: false;
@@ -184,7 +186,8 @@ export function evaluateExpr(cache: ExpressionCache, text: string, expected: Exp
   }
   let raw: MathValue;
   try {
-    raw = compiled.code.evaluate(ctx.scope) as MathValue;
+    raw = compiled.constant ?? compiled.code.evaluate(ctx.scope) as MathValue;
+    if (compiled.freeNames.length === 0) compiled.constant = raw;
   } catch (e) {
     const msg = (e as Error).message;
     if (/Unit|unit/.test(msg)) return { ok: false, code: 'unit', message: `\`${text}\`: ${msg}` };

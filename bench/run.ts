@@ -1,0 +1,127 @@
+// The core's benchmark: check+solve time of generated plans of 100, 1,000 and
+// 10,000 segments on a field with 20 obstacles, how it scales, and the
+// re-check after a one-line edit with and without the expression cache.
+// Prints the figures and merges them into bench/results.json.
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { checkPlan, ExpressionCache } from '../src/core';
+
+const RESULTS = join(__dirname, 'results.json');
+const TARGET_1K_MS = 16;
+
+/**
+ * A plan of `segments` motions (drives, and turns of every shape and both
+ * sensings) on a large field with 20 obstacles.
+ */
+function generatePlan(segments: number): string {
+  const lines = [
+    'plan "Benchmark"',
+    'wheel 56 mm',
+    'track 160 mm effective 162.4 mm',
+    'body 150 by 190 axle -30',
+    'field 40000 by 40000 grid 500',
+    'let lane = 120 mm',
+  ];
+  for (let i = 0; i < 20; i++) {
+    const x = 2000 + (i % 5) * 8000;
+    const y = 30000 + Math.floor(i / 5) * 2000;
+    lines.push(i % 2 === 0 ? `box "crate ${i}" (${x}, ${y}) to (${x + 400}, ${y + 300})` : `circle "post ${i}" (${x}, ${y}) radius 150`);
+  }
+  lines.push('run "long run"', 'start (20000, 10000) heading 0');
+  // The cycle ends where it began (pose and yaw reading), so any number of
+  // segments stays on the field and clear of the obstacles.
+  const cycle = [
+    'drive lane * 2 speed 60%',
+    'turn 90 arc 200',
+    'turn -90 arc 200 reverse',
+    'drive -2 * lane hold 0 ramp 800 mm/s^2',
+    'turn 90 by gyro reset',
+    'turn -90 pivot left',
+    'turn 90 pivot left',
+    'turn -90 by gyro',
+  ];
+  for (let i = 0; i < segments; i++) lines.push(cycle[i % cycle.length]);
+  return lines.join('\n');
+}
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  const m = Math.floor(s.length / 2);
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
+}
+
+function time(fn: () => void, repetitions: number): number {
+  fn(); // warm-up: JIT and caches
+  const times: number[] = [];
+  for (let i = 0; i < repetitions; i++) {
+    const started = performance.now();
+    fn();
+    times.push(performance.now() - started);
+  }
+  return median(times);
+}
+
+function solveTime(segments: number, repetitions: number): number {
+  const text = generatePlan(segments);
+  const check = checkPlan(text);
+  const motions = check.runs[0]?.segments.length ?? 0;
+  if (motions !== segments + 1) throw new Error(`the generated plan has ${motions} segments, not ${segments + 1}`);
+  const errors = check.diagnostics.filter((d) => d.severity === 'error');
+  if (errors.length) throw new Error(`the generated plan has errors: ${errors.slice(0, 3).map((d) => `${d.range.start.line + 1}: ${d.message}`).join('; ')}`);
+  // One cache, warmed by the first run, as the editor and the command line
+  // keep one: the figure is the check and solve, not math.js compiling the
+  // same few expression texts again (the re-check figures show that cost).
+  const cache = new ExpressionCache();
+  return time(() => checkPlan(text, { cache }), repetitions);
+}
+
+/** One keystroke-sized edit: a drive's length changes on one line in the middle. */
+function recheckTimes(segments: number, repetitions: number): { cached: number; uncached: number } {
+  const text = generatePlan(segments);
+  const lines = text.split('\n');
+  const editLine = lines.findIndex((l, i) => i > lines.length / 2 && l.startsWith('drive lane * 2'));
+  let k = 0;
+  const edited = () => {
+    k++;
+    const copy = [...lines];
+    copy[editLine] = `drive lane * 2 + ${k % 7} mm speed 60%`;
+    return copy.join('\n');
+  };
+  const shared = new ExpressionCache();
+  checkPlan(text, { cache: shared });
+  const cached = time(() => checkPlan(edited(), { cache: shared }), repetitions);
+  const uncached = time(() => checkPlan(edited(), { cache: new ExpressionCache() }), repetitions);
+  return { cached, uncached };
+}
+
+function main(): void {
+  const solve100 = solveTime(100, 31);
+  const solve1k = solveTime(1_000, 21);
+  const solve10k = solveTime(10_000, 7);
+  const recheck = recheckTimes(1_000, 21);
+  const figures = {
+    solve_100_ms: round(solve100),
+    solve_1k_ms: round(solve1k),
+    solve_10k_ms: round(solve10k),
+    scaling_10k_over_1k: round(solve10k / solve1k),
+    recheck_edit_ms: round(recheck.cached),
+    recheck_edit_nocache_ms: round(recheck.uncached),
+  };
+  console.log('check + solve (median):');
+  console.log(`  100 segments     ${figures.solve_100_ms} ms`);
+  console.log(`  1,000 segments   ${figures.solve_1k_ms} ms (target ≤ ${TARGET_1K_MS} ms: ${solve1k <= TARGET_1K_MS ? 'met' : 'MISSED'})`);
+  console.log(`  10,000 segments  ${figures.solve_10k_ms} ms (10k/1k = ${figures.scaling_10k_over_1k}; linear would be 10)`);
+  console.log('re-check after a one-line edit, 1,000 segments (median):');
+  console.log(`  with a warm expression cache  ${figures.recheck_edit_ms} ms`);
+  console.log(`  with a fresh cache            ${figures.recheck_edit_nocache_ms} ms`);
+
+  const existing = existsSync(RESULTS) ? JSON.parse(readFileSync(RESULTS, 'utf8')) as Record<string, unknown> : {};
+  writeFileSync(RESULTS, `${JSON.stringify({ ...existing, ...figures }, null, 2)}\n`);
+  console.log(`merged into ${RESULTS}`);
+}
+
+function round(v: number): number {
+  return Math.round(v * 1000) / 1000;
+}
+
+main();

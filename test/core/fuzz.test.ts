@@ -1,0 +1,203 @@
+import { strict as assert } from 'node:assert';
+import { checkPlan, MAX_PLAN_CHARS } from '../../src/core';
+
+// Generated and mutated plans: the checker never throws, every diagnostic
+// range lies inside the document, and no input takes long (a hang guard, not
+// a speed target). Seeded, so a failure is reproducible; VEER_FUZZ_RUNS raises
+// the count for a longer local run (`npm run fuzz:long`).
+
+const RUNS = Math.max(10_000, Number(process.env.VEER_FUZZ_RUNS) || 0);
+const SEED = Number(process.env.VEER_FUZZ_SEED) || 0x5eed;
+/** Per input; generous on purpose: a slow machine must not fail, a hang must. */
+const MAX_MS_PER_INPUT = 2000;
+
+/** mulberry32: a small, well-known seeded generator, so runs repeat exactly. */
+function generator(seed: number) {
+  let a = seed >>> 0;
+  const next = () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+  const int = (lo: number, hi: number) => lo + Math.floor(next() * (hi - lo + 1));
+  const pick = <T>(xs: readonly T[]): T => xs[Math.floor(next() * xs.length)];
+  return { next, int, pick };
+}
+
+type Rng = ReturnType<typeof generator>;
+
+const NUMBERS = ['0', '1', '-1', '90', '-90', '180', '-180', '360', '0.5', '1e3', '1e308', '1e400', '-0', '12.5'];
+const UNITS = ['', ' mm', ' cm', ' m', ' in', ' deg', ' rad', ' s', ' ms', ' mm/s', ' deg/s', ' deg/min', ' rpm', ' mm/s^2', '%'];
+
+function number(r: Rng): string {
+  return r.next() < 0.5 ? String(r.int(-400, 2000)) : r.pick(NUMBERS);
+}
+
+function value(r: Rng): string {
+  const v = number(r) + r.pick(UNITS);
+  return r.next() < 0.1 ? `(${v} + ${number(r)}) * 2` : r.next() < 0.05 ? `lane${r.pick(['', ' * 2', ' + 1 mm'])}` : v;
+}
+
+const point = (r: Rng) => `(${value(r)}, ${value(r)})`;
+
+/** One statement from the plan language's grammar, with random values. */
+function statement(r: Rng): string {
+  const templates: ((r: Rng) => string)[] = [
+    () => `plan "${r.pick(['Trial', 'Bench \\"B\\"', ''])}"`,
+    () => `units ${r.pick(['mm', 'cm', 'm', 'in', 'ft'])}`,
+    () => `turns ${r.pick(['clockwise', 'counterclockwise'])}`,
+    () => `yaw range ${r.pick(['-180 to 180', '0 to 360', '-90 to 270', '0 to 300'])}`,
+    () => `wheel ${value(r)}`,
+    () => `track ${value(r)}${r.next() < 0.5 ? ` effective ${value(r)}` : ''}`,
+    () => `gear ${number(r)}`,
+    () => `motor ${value(r)}${r.next() < 0.5 ? ` lag ${value(r)}` : ''}`,
+    () => `body ${value(r)} by ${value(r)}${r.next() < 0.5 ? ` axle ${value(r)}` : ''}`,
+    () => `field ${value(r)} by ${value(r)}${r.next() < 0.5 ? ` grid ${value(r)}` : ''}`,
+    () => `box "b${r.int(0, 3)}" ${point(r)} to ${point(r)}`,
+    () => `circle "c${r.int(0, 3)}" ${point(r)} radius ${value(r)}`,
+    () => `zone "z${r.int(0, 2)}" ${point(r)} to ${point(r)}`,
+    () => `noise drive ${value(r)} turn ${value(r)} gyro ${value(r)} drift ${value(r)}`,
+    () => `limit ${value(r)}`,
+    () => `let ${r.pick(['lane', 'gap', 'turn', 'sqrt', 'x1'])} = ${value(r)}`,
+    () => `run "r${r.int(0, 3)}"`,
+    () => `start ${point(r)} heading ${value(r)}`,
+    () => `drive ${value(r)}${r.next() < 0.3 ? ` speed ${value(r)}` : ''}${r.next() < 0.3 ? ` hold ${value(r)}${r.next() < 0.5 ? ' step' : ''}` : ''}${r.next() < 0.2 ? ` gain ${value(r)}` : ''}${r.next() < 0.2 ? ` ramp ${value(r)}` : ''}`,
+    () => `turn ${r.next() < 0.3 ? 'to ' : ''}${value(r)}${r.pick(['', ' spin', ' pivot left', ' pivot right', ` arc ${value(r)}`, ` ratio ${value(r)}`])}${r.next() < 0.2 ? ' reverse' : ''}${r.pick(['', ' by gyro', ' by encoders'])}${r.next() < 0.2 ? ` speed ${value(r)} min ${value(r)}` : ''}${r.next() < 0.1 ? ` gain ${value(r)} stop ${value(r)}` : ''}${r.next() < 0.2 ? ' ramp' : ''}${r.next() < 0.2 ? ' reset' : ''}`,
+    () => 'reset yaw',
+    () => `square ${r.pick(['front', 'back'])}${r.next() < 0.3 ? ` speed ${value(r)}` : ''}`,
+    () => `wait ${value(r)}`,
+    () => `mark "m" ${r.pick([`at ${point(r)}`, `heading ${value(r)}`, `in "z${r.int(0, 2)}"`, `at ${point(r)} within ${value(r)}`])}`,
+    () => `# ${r.pick(['note', 'drive 100', '"'])}`,
+  ];
+  const indent = r.next() < 0.1 ? '  ' : '';
+  const comment = r.next() < 0.1 ? '  # why' : '';
+  return indent + r.pick(templates)(r) + comment;
+}
+
+/** A plausible plan: the robot set up, then runs of motions. */
+function plan(r: Rng): string {
+  const lines = ['wheel 56 mm', 'track 160 mm'];
+  if (r.next() < 0.5) lines.push('field 2000 by 1200', `box "b9" (${r.int(0, 1800)}, ${r.int(0, 1000)}) to (${r.int(0, 1800)}, ${r.int(0, 1000)})`);
+  if (r.next() < 0.3) lines.push('body 150 by 190 axle -30');
+  lines.push(`start (${r.int(100, 1900)}, ${r.int(100, 1100)}) heading ${r.int(-180, 360)}`);
+  const n = r.int(0, 25);
+  for (let i = 0; i < n; i++) lines.push(statement(r));
+  return lines.join(r.next() < 0.1 ? '\r\n' : '\n');
+}
+
+const ODD = ['\u0000', '\u00e9', '\u4e2d', '\ud83d\ude80', '\ud83d', '\u202e', '\ufeff', '\t', '\r\n', '\n', '"', '(', ')', ',', '#', '\\', '%', '^', '=', 'NaN', 'Infinity', '-Infinity', 'undefined', 'null', '1e999999', '9'.repeat(400), '0x1F', '1/0', '((((((((((', '))))', '"unterminated', '\\"', 'import', 'evaluate', '__proto__', 'constructor'];
+
+/** One random edit of the text. */
+function mutate(r: Rng, text: string): string {
+  const at = r.int(0, text.length);
+  switch (r.int(0, 7)) {
+    case 0: return text.slice(0, at) + text.slice(at + r.int(1, 8));
+    case 1: return text.slice(0, at) + String.fromCharCode(r.int(0, 0xffff)) + text.slice(at);
+    case 2: {
+      const len = r.int(1, 30);
+      return text.slice(0, at) + text.slice(at, at + len) + text.slice(at);
+    }
+    case 3: {
+      const tokens = text.split(/(\s+)/);
+      const i = r.int(0, tokens.length - 1);
+      const j = r.int(0, tokens.length - 1);
+      [tokens[i], tokens[j]] = [tokens[j], tokens[i]];
+      return tokens.join('');
+    }
+    case 4: return text.slice(0, at) + r.pick(ODD) + text.slice(at);
+    case 5: return text.slice(0, at) + r.pick(['"', '(', ')', '((', '"("']) + text.slice(at);
+    case 6: return text.replace(/\d+(\.\d+)?/, r.pick(['1e308', '1e400', '9'.repeat(50), 'NaN', '-0', '0.0000000001']));
+    default: {
+      const lines = text.split('\n');
+      lines.splice(r.int(0, lines.length), 0, lines[r.int(0, lines.length - 1)]);
+      return lines.join('\n');
+    }
+  }
+}
+
+function assertRangesInside(text: string, input: number): void {
+  const result = checkPlan(text);
+  // Lines end at `\n` (a `\r` before it belongs to the line end): spec section 1.
+  const lines = text.split('\n').map((l) => (l.endsWith('\r') ? l.slice(0, -1) : l));
+  for (const d of result.diagnostics) {
+    const { start, end } = d.range;
+    const where = `input ${input}, ${d.code} at ${JSON.stringify(d.range)}`;
+    assert.ok(Number.isInteger(start.line) && Number.isInteger(start.character) && Number.isInteger(end.line) && Number.isInteger(end.character), where);
+    assert.ok(start.line >= 0 && start.character >= 0, where);
+    assert.ok(end.line < lines.length, `${where}: line past the end (${lines.length} lines)`);
+    assert.ok(start.character <= lines[start.line].length && end.character <= lines[end.line].length, `${where}: column past the end of the line`);
+    assert.ok(start.line < end.line || (start.line === end.line && start.character <= end.character), `${where}: start after end`);
+    assert.ok(d.message.length > 0, where);
+  }
+  for (const run of result.runs) {
+    for (const s of run.segments) assert.ok(!Number.isNaN(s.duration), `input ${input}: NaN duration on line ${s.line}`);
+  }
+}
+
+describe('fuzz', function () {
+  this.timeout(180_000);
+
+  it(`checks ${RUNS} generated and mutated plans without throwing, with ranges inside the document`, () => {
+    const r = generator(SEED);
+    let slowest = 0;
+    let slowestInput = '';
+    for (let i = 0; i < RUNS; i++) {
+      let text = plan(r);
+      const mutations = r.next() < 0.2 ? 0 : r.int(1, 6);
+      for (let m = 0; m < mutations; m++) text = mutate(r, text);
+      const started = performance.now();
+      try {
+        assertRangesInside(text, i);
+      } catch (e) {
+        throw new Error(`input ${i} (seed ${SEED}): ${(e as Error).message}\n--- plan ---\n${text}`);
+      }
+      const ms = performance.now() - started;
+      if (ms > slowest) {
+        slowest = ms;
+        slowestInput = text;
+      }
+    }
+    assert.ok(slowest < MAX_MS_PER_INPUT, `slowest input took ${slowest.toFixed(0)} ms:\n${slowestInput}`);
+    console.log(`      fuzz: ${RUNS} inputs, slowest ${slowest.toFixed(1)} ms`);
+  });
+
+  it('a plan of about 10 MB with very long lines is checked without hanging', () => {
+    // Long lines are where a parser goes quadratic: 10,000-character comments,
+    // sums, strings and unbalanced parentheses, between ordinary motions.
+    const long = [
+      `# ${'note '.repeat(2_000)}`,
+      `drive ${'1 + '.repeat(2_500)}1`,
+      `plan "${'x'.repeat(10_000)}`,
+      `turn ${'('.repeat(5_000)}90`,
+      `mark "${'m'.repeat(10_000)}" at (1, 1)`,
+    ];
+    const lines = ['wheel 56', 'track 160', 'start (50000, 50000) heading 0'];
+    let size = 0;
+    for (let i = 0; size < 10_000_000; i++) {
+      const line = i % 2 === 0 ? long[(i / 2) % long.length] : 'turn 90 by gyro reset';
+      lines.push(line);
+      size += line.length + 1;
+    }
+    const text = lines.join('\n');
+    assert.ok(text.length >= 10_000_000 && text.length <= MAX_PLAN_CHARS);
+    const started = performance.now();
+    const result = checkPlan(text);
+    const ms = performance.now() - started;
+    assert.ok(result.runs[0].segments.length > 1000);
+    // A hang guard: minutes would be a hang; seconds is a large file.
+    assert.ok(ms < 30_000, `${ms} ms`);
+    console.log(`      10 MB of long lines: ${ms.toFixed(0)} ms`);
+  });
+
+  it('a plan over the size limit is refused at once with a clear message', () => {
+    const text = 'drive 10\n'.repeat(Math.ceil((MAX_PLAN_CHARS + 1) / 9));
+    const started = performance.now();
+    const result = checkPlan(text);
+    assert.ok(performance.now() - started < 1000);
+    assert.equal(result.diagnostics.length, 1);
+    assert.match(result.diagnostics[0].message, /million characters/);
+    assert.deepEqual(result.runs, []);
+  });
+});
