@@ -24,7 +24,7 @@ export interface CheckOptions {
 }
 
 /** Plans longer than this are refused with one diagnostic rather than checked. */
-export const MAX_PLAN_CHARS = 12_000_000;
+export const MAX_PLAN_CHARS = 2_000_000;
 
 const defaultCache = new ExpressionCache();
 
@@ -79,7 +79,7 @@ export function checkPlan(text: string, options: CheckOptions = {}): CheckResult
       return out;
     }
     const d = report(narrowTo(expr, out.name), 'error', out.code, out.message);
-    if (out.code === 'name' && out.name) {
+    if (out.code === 'name' && out.name && !out.message.startsWith('the function')) {
       const guess = suggestWord(out.name, Object.keys(names));
       if (guess) {
         d.message += `: did you mean \`${guess}\`?`;

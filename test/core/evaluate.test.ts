@@ -138,8 +138,9 @@ describe('evaluate: the sandbox', () => {
 
   it('refusing them leaves the instance intact for later checks', () => {
     checkPlan('wheel 56\nstart (0, 0) heading 0\ndrive createUnit("zork", "1 m")\ndrive import({cm: 5}, {override: true})');
-    // `zork` stays unknown, and cm is still 10 mm (unit definition).
-    assert.equal(problem('2 zork', 'length').code, 'name');
+    // `zork` stays unknown (written after a number, it is reported as an unknown unit), and cm is still 10 mm (unit definition).
+    assert.equal(problem('2 zork', 'length').code, 'unit');
+    assert.equal(problem('zork', 'length').code, 'name');
     near(value('3 cm', 'length').value, 30, 'cm');
   });
 

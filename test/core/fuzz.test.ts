@@ -163,7 +163,7 @@ describe('fuzz', function () {
     console.log(`      fuzz: ${RUNS} inputs, slowest ${slowest.toFixed(1)} ms`);
   });
 
-  it('a plan of about 10 MB with very long lines is checked without hanging', () => {
+  it('a plan at the size limit with very long lines is checked without hanging', () => {
     // Long lines are where a parser goes quadratic: 10,000-character comments,
     // sums, strings and unbalanced parentheses, between ordinary motions.
     const long = [
@@ -175,24 +175,25 @@ describe('fuzz', function () {
     ];
     const lines = ['wheel 56', 'track 160', 'start (50000, 50000) heading 0'];
     let size = 0;
-    for (let i = 0; size < 10_000_000; i++) {
+    for (let i = 0; size < MAX_PLAN_CHARS - 20_000; i++) {
       const line = i % 2 === 0 ? long[(i / 2) % long.length] : 'turn 90 by gyro reset';
       lines.push(line);
       size += line.length + 1;
     }
     const text = lines.join('\n');
-    assert.ok(text.length >= 10_000_000 && text.length <= MAX_PLAN_CHARS);
+    assert.ok(text.length >= MAX_PLAN_CHARS - 20_000 && text.length <= MAX_PLAN_CHARS);
     const started = performance.now();
     const result = checkPlan(text);
     const ms = performance.now() - started;
-    assert.ok(result.runs[0].segments.length > 1000);
+    assert.ok(result.runs[0].segments.length > 100);
     // A hang guard: minutes would be a hang; seconds is a large file.
     assert.ok(ms < 30_000, `${ms} ms`);
-    console.log(`      10 MB of long lines: ${ms.toFixed(0)} ms`);
+    console.log(`      ${(text.length / 1e6).toFixed(1)} MB of long lines: ${ms.toFixed(0)} ms`);
   });
 
-  it('a plan over the size limit is refused at once with a clear message', () => {
-    const text = 'drive 10\n'.repeat(Math.ceil((MAX_PLAN_CHARS + 1) / 9));
+  it('a plan over the size limit (a 10 MB file) is refused at once with a clear message', () => {
+    const text = 'drive 10\n'.repeat(Math.ceil(10_000_000 / 9));
+    assert.ok(text.length > MAX_PLAN_CHARS);
     const started = performance.now();
     const result = checkPlan(text);
     assert.ok(performance.now() - started < 1000);

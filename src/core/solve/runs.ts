@@ -91,6 +91,8 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
     let pose: Pose | undefined;
     let zeroHeading = 0; // field heading at which the yaw sensor reads 0
     let wrapCrossings = 0;
+    /** Set by a `square` against a box until the next move is checked. */
+    let squaredAgainst: { obstacle?: Obstacle; away: Point } | undefined;
     const reading = (p: Pose) => wrapReading(p.heading - zeroHeading, lo);
     const rawReading = (p: Pose) => p.heading - zeroHeading;
 
@@ -223,7 +225,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       if (s.gain && dm.gain !== undefined && dm.gain <= 0) report(s.optionRanges.gain ?? s.range, 'error', 'setup', 'the gain must be greater than zero.');
       segments.push(seg);
       // A drive whose length could not be read has no path to check.
-      if (dm.distance !== undefined) sweep(seg, 'drive');
+      if (dm.distance !== undefined) sweep(seg, s.range, 'drive');
       return end;
     }
 
@@ -336,7 +338,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         seg.complete = false;
       }
       segments.push(seg);
-      if (s.to !== undefined ? tm.to !== undefined : tm.angle !== undefined) sweep(seg, shape);
+      if (s.to !== undefined ? tm.to !== undefined : tm.angle !== undefined) sweep(seg, s.range, shape);
       return end;
     }
 
@@ -371,8 +373,11 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         seg.motorDeg = { left: wd * robot.gear!, right: wd * robot.gear! };
       }
       segments.push(seg);
-      // The wall squared against is meant to be touched.
-      sweep(seg, 'drive', out.wall.obstacle ?? 'field');
+      // The wall squared against is meant to be touched, during the square and
+      // as the next move leaves it.
+      sweep(seg, s.range, 'drive', out.wall.obstacle ?? 'field');
+      const away = out.wall.normal;
+      squaredAgainst = { obstacle: out.wall.obstacle, away: out.wall.axis === 'x' ? { x: away, y: 0 } : { x: 0, y: away } };
       return end;
     }
 
@@ -472,24 +477,24 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       else if (p <= 0) report(range, 'error', 'setup', `a ${what} of ${fmt(p * 100)} % would not move the robot; use a power above 0 %.`);
     }
 
-    function sweep(seg: Segment, shapeName: string, ignore?: Obstacle | 'field') {
+    function sweep(seg: Segment, range: Range, shapeName: string, ignore?: Obstacle | 'field') {
       const seen = new Set<string>();
+      const leaving = squaredAgainst;
+      squaredAgainst = undefined;
       for (const piece of seg.path) {
         const hits = sweepPiece(piece, footprint, turns, setup.obstacles, ignore === 'field' ? undefined : setup.field);
         for (const hit of hits) {
           if (hit.obstacle && hit.obstacle === ignore) continue;
+          // Flush against the box just squared against: a move that leaves it
+          // only touches it at the start. Lifted off by a hair, does it still hit?
+          if (leaving?.obstacle && hit.obstacle === leaving.obstacle &&
+            sweepPiece(shiftPiece(piece, leaving.away, CONTACT_CLEARANCE), footprint, turns, [hit.obstacle], undefined).length === 0) continue;
           const key = hit.kind === 'field' ? 'field' : `o:${hit.obstacle?.name}`;
           if (seen.has(key)) continue;
           seen.add(key);
-          const stmtRange = statementRangeOf(seg.line);
-          reportHit(hit, stmtRange, shapeName, seg, piece);
+          reportHit(hit, range, shapeName, seg, piece);
         }
       }
-    }
-
-    function statementRangeOf(line: number): Range {
-      const m = input.motions.find((mm) => mm.stmt.line === line);
-      return m ? m.stmt.range : { start: { line, character: 0 }, end: { line, character: 0 } };
     }
 
     function reportHit(hit: SweepHit, range: Range, shapeName: string, seg: Segment, piece?: PathPiece) {
@@ -515,6 +520,16 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
 }
 
 type Obstacle = PlanSetup['obstacles'][number];
+
+/** How far (mm) a robot flush against a wall is lifted off it to tell touching from pressing in. */
+const CONTACT_CLEARANCE = 0.01;
+
+function shiftPiece(piece: PathPiece, dir: Point, d: number): PathPiece {
+  const move = <T extends Point>(p: T): T => ({ ...p, x: p.x + dir.x * d, y: p.y + dir.y * d });
+  return piece.type === 'line'
+    ? { type: 'line', from: move(piece.from), to: move(piece.to) }
+    : { type: 'rotate', from: move(piece.from), to: move(piece.to), center: move(piece.center), turned: piece.turned };
+}
 
 function describeShape(shape: string): string {
   switch (shape) {

@@ -13,8 +13,9 @@ const UnitClass = math.Unit;
 
 // Sandbox, as math.js's security notes recommend: plan text may not alter the
 // instance or parse/compile new expressions from strings at run time.
+const DISABLED_PREFIX = 'the function ';
 const disabled = (name: string) => () => {
-  throw new Error(`the function ${name} is not available in plan files`);
+  throw new Error(`${DISABLED_PREFIX}\`${name}\` is not available in plan files`);
 };
 math.import(
   Object.fromEntries(
@@ -47,6 +48,8 @@ interface Compiled {
   code: EvalFunction;
   /** Free names that are neither units nor math.js names: must come from `let`. */
   freeNames: string[];
+  /** Free names written right after a number, so meant as units. */
+  unitLike: string[];
   percent: boolean;
   /** The value of an expression with no free names, kept after its first evaluation: it cannot change. */
   constant?: MathValue;
@@ -89,6 +92,8 @@ function compileExpression(text: string): Compiled | CompileError {
     return { ok: false, message: (e as Error).message };
   }
   const freeNames = new Set<string>();
+  // Names written right after a number (`10 furlongs`): read as units.
+  const unitLike = new Set<string>();
   let percent = false;
   let forbidden: string | undefined;
   // `min` is a function and a unit: where it is not called, it is the unit
@@ -97,6 +102,12 @@ function compileExpression(text: string): Compiled | CompileError {
     if ((n as { isPercentage?: boolean }).isPercentage) percent = true;
     if (n.type === 'AssignmentNode' || n.type === 'FunctionAssignmentNode' || n.type === 'BlockNode') {
       forbidden = 'assignments';
+    }
+    if (n.type === 'OperatorNode') {
+      const op = n as unknown as { implicit?: boolean; fn: string; args: MathNode[] };
+      if (op.implicit && op.fn === 'multiply' && op.args[0]?.type === 'ConstantNode' && op.args[1]?.type === 'SymbolNode') {
+        unitLike.add((op.args[1] as unknown as { name: string }).name);
+      }
     }
     if (n.type === 'SymbolNode' && path !== 'fn') {
       const name = (n as unknown as { name: string }).name;
@@ -109,7 +120,7 @@ function compileExpression(text: string): Compiled | CompileError {
   });
   if (forbidden) return { ok: false, message: `${forbidden} are not allowed in an expression; use \`let NAME = value\`` };
   try {
-    return { ok: true, code: transformed.compile(), freeNames: [...freeNames], percent };
+    return { ok: true, code: transformed.compile(), freeNames: [...freeNames], unitLike: [...unitLike], percent };
   } catch (e) {
     return { ok: false, message: (e as Error).message };
   }
@@ -182,7 +193,11 @@ export function evaluateExpr(cache: ExpressionCache, text: string, expected: Exp
   const compiled = cache.get(text);
   if (!compiled.ok) return { ok: false, code: 'syntax', message: `cannot read the expression \`${text}\`: ${compiled.message}` };
   for (const name of compiled.freeNames) {
-    if (!ctx.scope.has(name)) return { ok: false, code: 'name', name, message: `unknown name \`${name}\`` };
+    if (ctx.scope.has(name)) continue;
+    if (compiled.unitLike.includes(name)) {
+      return { ok: false, code: 'unit', name, message: `unknown unit \`${name}\` (lengths: mm, cm, m, in; angles: deg, rad; times: s, ms, min; speeds such as mm/s or rpm)` };
+    }
+    return { ok: false, code: 'name', name, message: `unknown name \`${name}\`` };
   }
   let raw: MathValue;
   try {
@@ -190,6 +205,7 @@ export function evaluateExpr(cache: ExpressionCache, text: string, expected: Exp
     if (compiled.freeNames.length === 0) compiled.constant = raw;
   } catch (e) {
     const msg = (e as Error).message;
+    if (msg.startsWith(DISABLED_PREFIX)) return { ok: false, code: 'name', message: msg };
     if (/Unit|unit/.test(msg)) return { ok: false, code: 'unit', message: `\`${text}\`: ${msg}` };
     return { ok: false, code: 'syntax', message: `cannot evaluate \`${text}\`: ${msg}` };
   }
