@@ -3,6 +3,7 @@ import Flatten from '@flatten-js/core';
 import fc from 'fast-check';
 import { checkPlan, toJsonDocument } from '../../src/core';
 import type { CheckResult, Segment } from '../../src/core/types';
+import { SPEC_EXAMPLE } from '../support/spec-example';
 
 // Differential-drive kinematics of the solver, checked against outside
 // references: Siegwart, Nourbakhsh & Scaramuzza, "Introduction to Autonomous
@@ -275,27 +276,7 @@ describe('kinematics: square against walls', () => {
 });
 
 describe('kinematics: the spec\'s section-9 example', () => {
-  const example = [
-    'plan "Parcel table, practice run A"',
-    'units mm',
-    'wheel 62 mm',
-    'track 128 mm effective 130 mm',
-    'body 150 by 190 axle -30',
-    'field 2000 by 1200 grid 100',
-    'box "shelf" (900, 500) to (1100, 800)',
-    'zone "dock" (1700, 900) to (1950, 1150)',
-    'limit 150 s',
-    '',
-    'let lane = 250 mm',
-    '',
-    'run "to the dock"',
-    'start (200, 200) heading 0',
-    'drive 3 * lane speed 60% hold 0',
-    'turn 90 by gyro min 12% gain 1.2',
-    'drive 1450 hold 90 ramp 800 mm/s^2',
-    'turn -90 pivot left',
-    'mark "parked" in "dock"',
-  ].join('\n');
+  const example = SPEC_EXAMPLE;
 
   it('checks clean and gives the values of the spec\'s formulas', () => {
     const doc = toJsonDocument('example.veer', checkPlan(example));

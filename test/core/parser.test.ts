@@ -4,6 +4,7 @@ import { OPTIONS, RESERVED_WORDS, STATEMENT_KEYWORDS, suggestWord } from '../../
 import type {
   Diagnostic, DriveStmt, ExprNode, MarkStmt, Range, Statement, TurnStmt,
 } from '../../src/core/types';
+import { SPEC_EXAMPLE } from '../support/spec-example';
 
 // Every column below was counted by hand in the source line it refers to.
 
@@ -64,28 +65,7 @@ function assertRangesValid(text: string, result: ReturnType<typeof parsePlan>): 
 
 describe('parsePlan', () => {
   describe('the spec example (section 9)', () => {
-    const example = [
-      'plan "Parcel table, practice run A"',
-      'units mm',
-      'wheel 62 mm',
-      'track 128 mm effective 130 mm',
-      'body 150 by 190 axle -30',
-      'field 2000 by 1200 grid 100',
-      'box "shelf" (900, 500) to (1100, 800)',
-      'zone "dock" (1700, 900) to (1950, 1150)',
-      'limit 150 s',
-      '',
-      'let lane = 250 mm',
-      '',
-      'run "to the dock"',
-      'start (200, 200) heading 0',
-      'drive 3 * lane speed 60% hold 0',
-      'turn 90 by gyro min 12% gain 1.2',
-      'drive 1450 hold 90 ramp 800 mm/s^2',
-      'turn -90 pivot left',
-      'mark "parked" in "dock"',
-      '',
-    ].join('\n');
+    const example = SPEC_EXAMPLE + '\n';
 
     it('parses with no diagnostics and the right statement kinds', () => {
       const { ast, diagnostics } = parsePlan(example);
