@@ -4,11 +4,32 @@
 //   media/preview.js   the path preview's own browser bundle
 import * as esbuild from 'esbuild';
 import { existsSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { dirname, join } from 'node:path';
 
 const production = process.argv.includes('--production');
 const watch = process.argv.includes('--watch');
 
+// math.js's main entry builds a complete default instance as it loads (about a
+// second on a slow machine); the core only needs `create` and the factory list
+// for its own sandboxed instance, so bundles import just those.
+const mathjsRoot = dirname(createRequire(import.meta.url).resolve('mathjs/package.json'));
+const leanMathjs = {
+  name: 'lean-mathjs',
+  setup(build) {
+    build.onResolve({ filter: /^mathjs$/ }, () => ({ path: 'mathjs', namespace: 'lean-mathjs' }));
+    build.onLoad({ filter: /.*/, namespace: 'lean-mathjs' }, () => ({
+      contents: [
+        `export { create } from ${JSON.stringify(join(mathjsRoot, 'lib/esm/core/create.js'))};`,
+        `export { all } from ${JSON.stringify(join(mathjsRoot, 'lib/esm/entry/allFactoriesAny.js'))};`,
+      ].join('\n'),
+      resolveDir: mathjsRoot,
+    }));
+  },
+};
+
 const common = {
+  plugins: [leanMathjs],
   bundle: true,
   sourcemap: !production,
   minify: production,

@@ -424,7 +424,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         const wrapAt = target >= hi ? hi : lo;
         const seen = wrapReading(target, lo);
         report(range, 'error', 'wrap-cross',
-          `the yaw target ${fmt(target)}° lies outside the sensor's range [${fmt(lo)}, ${fmt(hi)}): as the robot passes ${fmt(wrapAt)}° the reading jumps to ${fmt(wrapAt === hi ? lo : hi)}°, the error grows instead of shrinking and the robot ${what === 'turn' ? 'spins on and never settles' : 'swerves round in circles'}. ` +
+          `the yaw target ${fmt(target)}° lies outside the sensor's range [${fmt(lo)}, ${fmt(hi)}): as the robot passes ${fmt(wrapAt)}° the reading jumps to ${wrapAt === hi ? `${fmt(lo)}°` : `just under ${fmt(hi)}°`}, the error grows instead of shrinking and the robot ${what === 'turn' ? 'spins on and never settles' : 'swerves round in circles'}. ` +
           `Reset the yaw before this line, or aim for the reading ${fmt(seen)}° instead.`,
           { fixes: wrapFixes(stmt, target, yawStart, 'wrap-cross'), at });
         return;

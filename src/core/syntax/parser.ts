@@ -2,7 +2,7 @@
 // read gives exactly one `syntax` diagnostic and is left out; the others are
 // still read, so the editor can keep checking the rest of the file while the
 // user types. Expressions stay source text: math.js evaluates them later.
-import * as math from 'mathjs';
+import { isMathName } from '../units/evaluate';
 import type {
   BodyStmt, BoxStmt, CircleStmt, Diagnostic, DriveStmt, ExprNode, FieldStmt, Fix, GearStmt, LengthUnitName,
   LetStmt, LimitStmt, MarkStmt, MotorStmt, NoiseStmt, PlanAst, PlanStmt, PointNode, Range, RelatedInfo,
@@ -86,17 +86,6 @@ function span(line: number, start: number, end: number): Range {
 /** Each must be met by a word or a symbol token ending in one of them. */
 const OPERATOR_ENDINGS = new Set(['*', '/', '^', '+', '-', '(', ',', '=', '<', '>', '&', '|', '?', ':', '~']);
 
-/** math.js names (functions, constants, units) are never reported as misspelt options. */
-function isMathName(name: string): boolean {
-  if (Object.prototype.hasOwnProperty.call(math, name) && (math as Record<string, unknown>)[name] !== undefined) {
-    return true;
-  }
-  try {
-    return math.Unit.isValuelessUnit(name);
-  } catch {
-    return false;
-  }
-}
 
 type OptionValue =
   | { kind: 'expr' }

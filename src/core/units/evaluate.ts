@@ -4,36 +4,55 @@
 import { create, all, type MathNode, type EvalFunction, type Unit } from 'mathjs';
 import type { Dimension, LengthUnitName } from '../types';
 
-const math = create(all, {});
-math.createUnit('rpm', '360 deg/min');
+type MathInstance = ReturnType<typeof create>;
 
-// Kept before the sandbox below replaces them on the instance.
-const parseExpression = math.parse.bind(math);
-const UnitClass = math.Unit;
+interface Sandbox {
+  math: MathInstance;
+  parseExpression: (text: string) => MathNode;
+  isValuelessUnit: (name: string) => boolean;
+}
 
-// Sandbox, as math.js's security notes recommend: plan text may not alter the
-// instance or parse/compile new expressions from strings at run time.
 const DISABLED_PREFIX = 'the function ';
-const disabled = (name: string) => () => {
-  throw new Error(`${DISABLED_PREFIX}\`${name}\` is not available in plan files`);
-};
-math.import(
-  Object.fromEntries(
-    ['import', 'createUnit', 'evaluate', 'parse', 'compile', 'simplify', 'derivative', 'resolve', 'reviver', 'replacer', 'chain', 'parser', 'splitUnit']
-      .map((n) => [n, disabled(n)]),
-  ),
-  { override: true },
-);
+let sandbox: Sandbox | undefined;
+
+/**
+ * The one math.js instance, made on first use: building it (units above all)
+ * costs a few hundred milliseconds, which the editor should not pay while
+ * activating.
+ */
+function getSandbox(): Sandbox {
+  if (sandbox) return sandbox;
+  const math = create(all, {});
+  math.createUnit('rpm', '360 deg/min');
+  // Kept before the sandbox below replaces them on the instance.
+  const parseExpression = math.parse.bind(math) as (text: string) => MathNode;
+  const UnitClass = math.Unit;
+  // Sandbox, as math.js's security notes recommend: plan text may not alter the
+  // instance or parse/compile new expressions from strings at run time.
+  const disabled = (name: string) => () => {
+    throw new Error(`${DISABLED_PREFIX}\`${name}\` is not available in plan files`);
+  };
+  math.import(
+    Object.fromEntries(
+      ['import', 'createUnit', 'evaluate', 'parse', 'compile', 'simplify', 'derivative', 'resolve', 'reviver', 'replacer', 'chain', 'parser', 'splitUnit']
+        .map((n) => [n, disabled(n)]),
+    ),
+    { override: true },
+  );
+  sandbox = { math, parseExpression, isValuelessUnit: (name) => UnitClass.isValuelessUnit(name) };
+  return sandbox;
+}
 
 /** Names that plan text may not bind with `let`: math.js functions, constants and units. */
 export function isMathName(name: string): boolean {
   if (isUnitName(name)) return true;
+  const { math } = getSandbox();
   return Object.prototype.hasOwnProperty.call(math, name) || name in math;
 }
 
 export function isUnitName(name: string): boolean {
   try {
-    return UnitClass.isValuelessUnit(name);
+    return getSandbox().isValuelessUnit(name);
   } catch {
     return false;
   }
@@ -85,6 +104,7 @@ export class ExpressionCache {
 }
 
 function compileExpression(text: string): Compiled | CompileError {
+  const { math, parseExpression } = getSandbox();
   let node: MathNode;
   try {
     node = parseExpression(text);

@@ -3,6 +3,14 @@
 // Opens the plan, sees its squiggle and Problems entry, opens the preview, and
 // checks the drawing, the cursor highlight and click-to-reveal. Leaves
 // screenshots in OUT_DIR (default test-output/).
+//
+// Every wait is on a condition. The deadlines are generous because a loaded CI
+// machine can take well over 30 s to start the extension host and load the
+// extension, which is activated only when the plan opens (onLanguage:veer):
+// so the script first waits for the editor to know the plan's language, then
+// for the extension's status bar item (proof of activation), and only then for
+// the squiggle. Each stage logs its time, so a slow stage can be told from a
+// broken one.
 const fs = require('fs');
 const path = require('path');
 const { openEditor, openFile, runCommand, problems, webview } = require(path.join(
@@ -16,6 +24,9 @@ const planName = process.argv[3] || 'wrap-check.veer';
 const DRIVE_LINE = 9; // drive 3 * lane speed 60% hold 0
 const WRAP_LINE = 11; // the turn whose yaw target crosses the wrap point
 const SECOND_RUN_DRIVE_LINE = 17; // drive lane
+
+/** Deadline of each wait once the editor is up (UI_WAIT_MS overrides it). */
+const WAIT_MS = Number(process.env.UI_WAIT_MS || 120000);
 
 function check(condition, message) {
   if (!condition) throw new Error(message);
@@ -32,15 +43,29 @@ async function goToLine(page, line) {
 
 (async () => {
   fs.mkdirSync(outDir, { recursive: true });
+  const started = Date.now();
+  let stage = 'editor start';
+  const reached = (next) => {
+    console.log(`preview-ui: ${stage} done at ${((Date.now() - started) / 1000).toFixed(1)} s`);
+    stage = next;
+  };
   const { page, close } = await openEditor();
+  page.setDefaultTimeout(WAIT_MS);
   let failed = false;
   try {
+    reached('open the plan');
     await openFile(page, planName);
+    reached('plan language known');
+    await page.waitForSelector('.statusbar-item:has-text("Veer plan")');
+    reached('extension activated (its status bar item)');
+    await page.waitForSelector('.statusbar-item .codicon-compass');
+    reached('squiggle and Problems entry');
     await page.waitForSelector('.monaco-editor .squiggly-error');
     const rows = await problems(page);
     check(rows.some((r) => r.includes('wrap-cross')), `Problems panel: ${rows.join(' | ')}`);
     await page.keyboard.press('Control+Shift+M'); // hide the panel again: more room for the drawing
 
+    reached('preview drawn');
     await page.locator('.monaco-editor .view-lines').first().click();
     await runCommand(page, 'Veer: Open Path Preview to the Side');
     const view = webview(page);
@@ -49,6 +74,7 @@ async function goToLine(page, line) {
     check(segments >= 5, `only ${segments} segments drawn`);
     check(await view.locator('svg.drawing .marker-wrap').count() >= 1, 'no wrap marker in the drawing');
 
+    reached('cursor highlight, reveal and tooltip');
     await page.locator('.monaco-editor .view-lines').first().click();
     await goToLine(page, WRAP_LINE + 1);
     await view.locator(`svg.drawing .seg.is-current[data-line="${WRAP_LINE}"]`).waitFor();
@@ -66,10 +92,11 @@ async function goToLine(page, line) {
     const tip = await tooltip.innerText();
     check(/time \d+\.\d\d s/.test(tip), `tooltip: ${tip}`);
     await page.screenshot({ path: path.join(outDir, 'preview-ui.png') });
+    reached('done');
     console.log(`preview-ui: ${segments} segments drawn; highlight, reveal and tooltip seen; screenshots in ${outDir}`);
   } catch (e) {
     failed = true;
-    console.error('preview-ui FAILED:', e.message);
+    console.error(`preview-ui FAILED at "${stage}" after ${((Date.now() - started) / 1000).toFixed(1)} s:`, e.message);
     await page.screenshot({ path: path.join(outDir, 'preview-ui-failure.png') }).catch(() => {});
   } finally {
     await close();
