@@ -68,7 +68,7 @@ export function checkPlan(text: string, options: CheckOptions = {}): CheckResult
     zones: [],
   };
 
-  const ctx: EvalContext = { lengthUnit, scope: new Map() };
+  const ctx: EvalContext = { lengthUnit, scope: new Map(), memo: new Map() };
   const values: EvaluatedExpr[] = [];
   const names: Record<string, NameInfo> = {};
   const evFull = (expr: ExprNode | undefined, expected: Expected): { value: number; dimension: Dimension } | undefined => {

@@ -43,6 +43,11 @@
 import type { Field, Obstacle, PathPiece, Point, Pose, TurnDirection } from '../types';
 import { forwardVector, turnSign, type Footprint } from './frame';
 
+/** sqrt(x² + y²): Math.hypot allocates its arguments on every call, and this runs per corner per obstacle. */
+function len2(x: number, y: number): number {
+  return Math.sqrt(x * x + y * y);
+}
+
 export interface SweepHit {
   /** 'obstacle': touches `obstacle`; 'field': leaves the field rectangle. */
   kind: 'obstacle' | 'field';
@@ -91,7 +96,7 @@ export function sweepPiece(piece: PathPiece, footprint: Footprint, turns: TurnDi
   const obstacle: Shape = { x: 0, y: 0, ux: 1, uy: 0, hu: 0, hv: 0, r: 0 };
   for (const o of obstacles) {
     if (!fillObstacleShape(o, obstacle)) continue;
-    const reach = bound.r + Math.hypot(obstacle.hu, obstacle.hv) + obstacle.r + TOUCH;
+    const reach = bound.r + len2(obstacle.hu, obstacle.hv) + obstacle.r + TOUCH;
     if (distSq(bound.x, bound.y, obstacle.x, obstacle.y) > reach * reach) continue;
     const s = sweptContact(start, motion, obstacle);
     if (s === NO_HIT) continue;
@@ -193,11 +198,11 @@ function shapeAt(start: Shape, motion: Motion, s: number): Shape {
 
 /** A circle holding the whole swept region, for quick rejection. */
 function motionBound(start: Shape, motion: Motion): { x: number; y: number; r: number } {
-  const own = Math.hypot(start.hu, start.hv) + start.r;
+  const own = len2(start.hu, start.hv) + start.r;
   if (motion.kind === 'line') {
-    return { x: start.x + motion.dx / 2, y: start.y + motion.dy / 2, r: Math.hypot(motion.dx, motion.dy) / 2 + own };
+    return { x: start.x + motion.dx / 2, y: start.y + motion.dy / 2, r: len2(motion.dx, motion.dy) / 2 + own };
   }
-  return { x: motion.cx, y: motion.cy, r: Math.hypot(start.x - motion.cx, start.y - motion.cy) + own };
+  return { x: motion.cx, y: motion.cy, r: len2(start.x - motion.cx, start.y - motion.cy) + own };
 }
 
 /** Corner k (0..3) of a shape's rectangle, in field coordinates. */
@@ -293,7 +298,7 @@ function translatingBoxes(a: Shape, dx: number, dy: number, b: Shape): number {
 
 /** Distance from a point given in `s`'s own axes to its rectangle (radius not included). */
 function localRectDist(s: Shape, lx: number, ly: number): number {
-  return Math.hypot(Math.max(Math.abs(lx) - s.hu, 0), Math.max(Math.abs(ly) - s.hv, 0));
+  return len2(Math.max(Math.abs(lx) - s.hu, 0), Math.max(Math.abs(ly) - s.hv, 0));
 }
 
 /**
@@ -369,7 +374,7 @@ function arcNear(s: Shape, cx: number, cy: number, px: number, py: number, alpha
   const reach = radius + s.r + TOUCH;
 
   if (localRectDist(s, lpx, lpy) <= reach) return 0;
-  const rho = Math.hypot(lpx - lcx, lpy - lcy);
+  const rho = len2(lpx - lcx, lpy - lcy);
   if (rho < TINY) return NO_HIT;
   const arc: Arc = { cx: lcx, cy: lcy, rho, phi0: Math.atan2(lpy - lcy, lpx - lcx), alpha };
 
@@ -434,7 +439,7 @@ function sweepFraction(arc: Arc, phi: number): number {
 function arcClosest(arc: Arc, qx: number, qy: number): number {
   const vx = qx - arc.cx;
   const vy = qy - arc.cy;
-  if (Math.hypot(vx, vy) < TINY) return 0;
+  if (len2(vx, vy) < TINY) return 0;
   const t = sweepFraction(arc, Math.atan2(vy, vx));
   if (t !== NO_HIT) return t;
   // Off the sweep, distance grows with the angle away from q, so an end is closest.
@@ -446,7 +451,7 @@ function arcClosest(arc: Arc, qx: number, qy: number): number {
 
 function arcDistance(arc: Arc, qx: number, qy: number, t: number): number {
   const phi = arc.phi0 + t * arc.alpha;
-  return Math.hypot(qx - arc.cx - arc.rho * Math.cos(phi), qy - arc.cy - arc.rho * Math.sin(phi));
+  return len2(qx - arc.cx - arc.rho * Math.cos(phi), qy - arc.cy - arc.rho * Math.sin(phi));
 }
 
 // ---------------------------------------------------------------------------
@@ -463,7 +468,7 @@ function farthestOutside(start: Shape, motion: Motion, field: Field): Point | nu
       considerDisc(out, field, x + motion.dx, y + motion.dy, start.r);
       continue;
     }
-    const rho = Math.hypot(x - motion.cx, y - motion.cy);
+    const rho = len2(x - motion.cx, y - motion.cy);
     if (rho < TINY) continue;
     const arc: Arc = { cx: motion.cx, cy: motion.cy, rho, phi0: Math.atan2(y - motion.cy, x - motion.cx), alpha: motion.alpha };
     const end = arc.phi0 + arc.alpha;
@@ -596,7 +601,7 @@ function project(s: Shape, x: number, y: number): [number, number] {
   const ly = ry * s.ux - rx * s.uy;
   const kx = Math.max(-s.hu, Math.min(s.hu, lx));
   const ky = Math.max(-s.hv, Math.min(s.hv, ly));
-  const gap = Math.hypot(lx - kx, ly - ky);
+  const gap = len2(lx - kx, ly - ky);
   const pull = gap > s.r ? s.r / gap : 1;
   const ox = kx + (lx - kx) * pull;
   const oy = ky + (ly - ky) * pull;

@@ -155,6 +155,13 @@ export type Expected =
 export interface EvalContext {
   lengthUnit: LengthUnitName;
   scope: Map<string, MathValue>;
+  /**
+   * Outcomes of this check's evaluations by expected kind and text. A name is
+   * bound once and never rebound, so once an expression evaluates, the same
+   * text gives the same value for the rest of the check: plans repeat the
+   * same few expressions (`lane * 2`, `90`) many times.
+   */
+  memo?: Map<string, EvalOutcome>;
 }
 
 export type EvalOutcome =
@@ -210,6 +217,15 @@ function unitNumber(v: Unit, unit: string): number {
  * canonical units (mm, deg, s, mm/s, deg/s, mm/s^2, fraction 0..1).
  */
 export function evaluateExpr(cache: ExpressionCache, text: string, expected: Expected, ctx: EvalContext): EvalOutcome {
+  const key = ctx.memo ? `${expected}\u0000${text}` : '';
+  const known = ctx.memo?.get(key);
+  if (known) return known;
+  const outcome = evaluateUncached(cache, text, expected, ctx);
+  if (outcome.ok) ctx.memo?.set(key, outcome);
+  return outcome;
+}
+
+function evaluateUncached(cache: ExpressionCache, text: string, expected: Expected, ctx: EvalContext): EvalOutcome {
   const compiled = cache.get(text);
   if (!compiled.ok) return { ok: false, code: 'syntax', message: `cannot read the expression \`${text}\`: ${compiled.message}` };
   for (const name of compiled.freeNames) {
