@@ -21,6 +21,7 @@ const require = createRequire(import.meta.url);
 const { checkPlan, renderSvg } = require('../src/core');
 const { buildRenderMessage } = require('../src/shared/messages');
 const { openStandIn } = require('../test/browser/standInHost');
+const { median, round } = require('./stats.js');
 
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const RESULTS = join(ROOT, 'bench', 'results.json');
@@ -93,15 +94,6 @@ function checkedPlan(text) {
   return result;
 }
 
-function median(xs) {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = Math.floor(s.length / 2);
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-}
-
-function round(v) {
-  return Math.round(v * 1000) / 1000;
-}
 
 function run(command, args, env = {}) {
   execFileSync(command, args, { cwd: ROOT, stdio: 'inherit', env: { ...process.env, ...env } });

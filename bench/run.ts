@@ -5,6 +5,7 @@
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { checkPlan, ExpressionCache } from '../src/core';
+import { median, round } from './stats';
 
 const RESULTS = join(__dirname, 'results.json');
 const TARGET_1K_MS = 16;
@@ -42,12 +43,6 @@ function generatePlan(segments: number): string {
   ];
   for (let i = 0; i < segments; i++) lines.push(cycle[i % cycle.length]);
   return lines.join('\n');
-}
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = Math.floor(s.length / 2);
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
 }
 
 function time(fn: () => void, repetitions: number): number {
@@ -119,10 +114,6 @@ function main(): void {
   const existing = existsSync(RESULTS) ? JSON.parse(readFileSync(RESULTS, 'utf8')) as Record<string, unknown> : {};
   writeFileSync(RESULTS, `${JSON.stringify({ ...existing, ...figures }, null, 2)}\n`);
   console.log(`merged into ${RESULTS}`);
-}
-
-function round(v: number): number {
-  return Math.round(v * 1000) / 1000;
 }
 
 main();

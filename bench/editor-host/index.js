@@ -21,6 +21,7 @@
 const fs = require('fs');
 const path = require('path');
 const vscode = require('vscode');
+const { median, round } = require('../stats');
 
 const EXTENSION_ID = 'veer-dev.veer';
 const ACTIVATE_ROUNDS = 15;
@@ -29,15 +30,6 @@ const KEYSTROKE_ROUNDS = 20;
 /** Deadline of each wait for an editor event: generous, for loaded machines. */
 const EVENT_TIMEOUT_MS = 30000;
 
-function median(xs) {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = Math.floor(s.length / 2);
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-}
-
-function round(v) {
-  return Math.round(v * 1000) / 1000;
-}
 
 function fakeContext(extensionPath) {
   const extensionUri = vscode.Uri.file(extensionPath);

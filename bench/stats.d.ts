@@ -1,0 +1,2 @@
+export function median(xs: readonly number[]): number;
+export function round(v: number): number;
