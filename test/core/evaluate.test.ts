@@ -155,3 +155,18 @@ describe('evaluate: the sandbox', () => {
     assert.equal(cache.hits, 1);
   });
 });
+
+describe('evaluate: messages for mixed kinds', () => {
+  it('a plain number added to a length says to give the number its unit', () => {
+    const r = checkPlan('wheel 56\nlet lane = 250\nstart (0, 0) heading 0\ndrive lane + 10 cm');
+    assert.equal(r.diagnostics.length, 1);
+    assert.equal(r.diagnostics[0].code, 'unit');
+    assert.match(r.diagnostics[0].message, /mixes a plain number with a quantity that has a unit/);
+  });
+
+  it('a length added to an angle says the kinds differ', () => {
+    const r = checkPlan('wheel 56\nstart (0, 0) heading 0\ndrive 10 cm + 5 deg');
+    assert.equal(r.diagnostics[0].code, 'unit');
+    assert.match(r.diagnostics[0].message, /quantities of different kinds/);
+  });
+});

@@ -242,6 +242,12 @@ function evaluateUncached(cache: ExpressionCache, text: string, expected: Expect
   } catch (e) {
     const msg = (e as Error).message;
     if (msg.startsWith(DISABLED_PREFIX)) return { ok: false, code: 'name', message: msg };
+    if (/Unexpected type of argument.*actual: Unit/.test(msg) || /actual: number.*index/.test(msg) && /Unit/.test(msg)) {
+      return { ok: false, code: 'unit', message: `\`${text}\` mixes a plain number with a quantity that has a unit: give the number its unit (e.g. \`let lane = 250 mm\` rather than \`let lane = 250\`)` };
+    }
+    if (/Units do not match/.test(msg)) {
+      return { ok: false, code: 'unit', message: `\`${text}\` adds or compares quantities of different kinds (e.g. a length and an angle)` };
+    }
     if (/Unit|unit/.test(msg)) return { ok: false, code: 'unit', message: `\`${text}\`: ${msg}` };
     return { ok: false, code: 'syntax', message: `cannot evaluate \`${text}\`: ${msg}` };
   }
