@@ -16,6 +16,16 @@ export function registerCodeActions(context: vscode.ExtensionContext): void {
   );
 }
 
+/**
+ * The editor asks for code actions on every cursor move; the plan-wide fix is
+ * computed once per check result, not once per request.
+ */
+const fewestResetsByResult = new WeakMap<core.CheckResult, core.Fix | undefined>();
+function fewestResetsOf(result: core.CheckResult): core.Fix | undefined {
+  if (!fewestResetsByResult.has(result)) fewestResetsByResult.set(result, fewestResets(result));
+  return fewestResetsByResult.get(result);
+}
+
 class PlanCodeActions implements vscode.CodeActionProvider {
   provideCodeActions(
     document: vscode.TextDocument,
@@ -34,7 +44,7 @@ class PlanCodeActions implements vscode.CodeActionProvider {
       }
     }
     if (!context.only || FEWEST_RESETS_KIND.intersects(context.only)) {
-      const fix = fewestResets(result);
+      const fix = fewestResetsOf(result);
       if (fix) actions.push(toCodeAction(document.uri, { ...fix, preferred: false }, FEWEST_RESETS_KIND, []));
     }
     return actions;
