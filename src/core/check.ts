@@ -290,7 +290,7 @@ export function checkPlan(text: string, options: CheckOptions = {}): CheckResult
 
   if (robot.track !== undefined && robot.effectiveTrack === undefined) robot.effectiveTrack = robot.track;
 
-  const solved = solveRuns(runs, setup, diagnostics, names);
+  const solved = solveRuns(runs, setup, diagnostics);
   options.onProgress?.(1);
 
   diagnostics.sort(compareDiagnostics);

@@ -2,7 +2,7 @@
 // times; and the checks that follow from them (wrap point, swept footprint,
 // walls, time limit, marks).
 import type {
-  Diagnostic, DiagnosticCode, DriveStmt, Fix, MarkStmt, NameInfo, PathPiece, PlanSetup, Point, Pose, Range,
+  Diagnostic, DiagnosticCode, DriveStmt, Fix, MarkStmt, PathPiece, PlanSetup, Point, Pose, Range,
   ResetYawStmt, RunResult, Segment, Severity, SquareStmt, StartStmt, TurnShape, TurnStmt, WaitStmt,
 } from '../types';
 import { footprintOf, forwardVector, rightVector, rotatePose, wrapReading, type Footprint } from './frame';
@@ -46,8 +46,7 @@ export const MOTION_DEFAULTS = {
 
 const RAD = Math.PI / 180;
 
-export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Diagnostic[], names: Record<string, NameInfo>): RunResult[] {
-  void names;
+export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Diagnostic[]): RunResult[] {
   const robot = setup.robot;
   const footprint = footprintOf(robot);
   const walls = wallsOf(setup.field, setup.obstacles);
@@ -94,7 +93,6 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
     /** Set by a `square` against a box until the next move is checked. */
     let squaredAgainst: { obstacle?: Obstacle; away: Point } | undefined;
     const reading = (p: Pose) => wrapReading(p.heading - zeroHeading, lo);
-    const rawReading = (p: Pose) => p.heading - zeroHeading;
 
     for (const m of input.motions) {
       const s = m.stmt;
@@ -138,7 +136,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
           const seg = baseSegment(s.line, 'mark', pose, pose, yawBefore, yawBefore);
           seg.label = s.name.value;
           segments.push(seg);
-          checkMark(mm, pose, seg);
+          checkMark(mm, pose);
           break;
         }
         case 'drive':
@@ -381,7 +379,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       return end;
     }
 
-    function checkMark(mm: Extract<EvaluatedMotion, { stmt: MarkStmt }>, p: Pose, seg: Segment) {
+    function checkMark(mm: Extract<EvaluatedMotion, { stmt: MarkStmt }>, p: Pose) {
       const s = mm.stmt;
       const within = mm.within ?? MOTION_DEFAULTS.markWithin;
       if (mm.at) {
@@ -413,7 +411,6 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
             { at: { x: p.x, y: p.y } });
         }
       }
-      void seg;
     }
 
     /** A gyro target outside the sensor's range, or within the noise band of the wrap point. */
