@@ -10,7 +10,7 @@ import type {
 import { parsePlan } from './syntax/parser';
 import { RESERVED_WORDS, suggestWord } from './syntax/keywords';
 import {
-  ExpressionCache, displayValue, evaluateExpr, isMathName, type EvalContext, type Expected,
+  ExpressionCache, displayValue, evaluateExpr, fmt, isMathName, type EvalContext, type Expected,
 } from './units/evaluate';
 import { solveRuns, type EvaluatedMotion, type RunInput } from './solve/runs';
 
@@ -141,7 +141,7 @@ export function checkPlan(text: string, options: CheckOptions = {}): CheckResult
         const hi = ev(s.hi, 'angle');
         if (lo === undefined || hi === undefined) break;
         if (Math.abs(hi - lo - 360) > 1e-9) {
-          report(s.range, 'error', 'setup', `the yaw range must be 360° wide (it is ${fmtNum(hi - lo)}°): a yaw sensor reads one full turn, e.g. \`yaw range -180 to 180\` or \`yaw range 0 to 360\`.`);
+          report(s.range, 'error', 'setup', `the yaw range must be 360° wide (it is ${fmt(hi - lo, 1)}°): a yaw sensor reads one full turn, e.g. \`yaw range -180 to 180\` or \`yaw range 0 to 360\`.`);
         } else setup.yawRange = { lo, hi };
         break;
       }
@@ -185,7 +185,7 @@ export function checkPlan(text: string, options: CheckOptions = {}): CheckResult
         const a = s.axle ? ev(s.axle, 'length') : 0;
         if (w !== undefined && l !== undefined && a !== undefined &&
           positive(w, s.width, 'the body width', 'body 150 by 190') && positive(l, s.length, 'the body length', 'body 150 by 190')) {
-          if (Math.abs(a) > l / 2) report(s.axle?.range ?? s.range, 'error', 'setup', `the axle (${fmtNum(a)} mm from the body's centre) lies outside the ${fmtNum(l)} mm long body; \`axle\` is how far the axle sits ahead of the footprint's centre (negative: behind).`);
+          if (Math.abs(a) > l / 2) report(s.axle?.range ?? s.range, 'error', 'setup', `the axle (${fmt(a, 1)} mm from the body's centre) lies outside the ${fmt(l, 1)} mm long body; \`axle\` is how far the axle sits ahead of the footprint's centre (negative: behind).`);
           else robot.body = { width: w, length: l, axle: a };
         }
         break;
@@ -277,14 +277,14 @@ export function checkPlan(text: string, options: CheckOptions = {}): CheckResult
           current = { name: setup.title, line: s.line, range: s.range, motions: [], implicit: true };
           runs.push(current);
         }
-        current.motions.push(evaluateMotion(s, ev, evFull, evPoint));
+        current.motions.push(evaluateMotion(s, evFull, evPoint));
       }
     }
   }
 
   function positive(v: number, e: ExprNode, what: string, example: string): boolean {
     if (v > 0) return true;
-    report(e.range, 'error', 'setup', `${what} must be greater than zero (it is ${fmtNum(v)}), e.g. \`${example}\`.`);
+    report(e.range, 'error', 'setup', `${what} must be greater than zero (it is ${fmt(v, 1)}), e.g. \`${example}\`.`);
     return false;
   }
 
@@ -334,10 +334,10 @@ function anyValue(
 
 function evaluateMotion(
   s: MotionStmt,
-  ev: (e: ExprNode | undefined, x: Expected) => number | undefined,
   evFull: (e: ExprNode | undefined, x: Expected) => { value: number; dimension: Dimension } | undefined,
   evPoint: (p: PointNode | undefined) => Point | undefined,
 ): EvaluatedMotion {
+  const ev = (e: ExprNode | undefined, x: Expected) => evFull(e, x)?.value;
   switch (s.kind) {
     case 'start':
       return { stmt: s, at: evPoint(s.at), heading: ev(s.heading, 'angle') };
@@ -378,9 +378,4 @@ function narrowTo(expr: ExprNode, name: string | undefined): Range {
 
 export function compareDiagnostics(a: Diagnostic, b: Diagnostic): number {
   return a.range.start.line - b.range.start.line || a.range.start.character - b.range.start.character;
-}
-
-export function fmtNum(v: number): string {
-  const r = Number(v.toFixed(1));
-  return String(Object.is(r, -0) ? 0 : r);
 }
