@@ -13,6 +13,7 @@ import {
   ExpressionCache, displayValue, evaluateExpr, fmt, isMathName, type EvalContext, type Expected,
 } from './units/evaluate';
 import { solveRuns, type EvaluatedMotion, type RunInput } from './solve/runs';
+import { attachFixes } from './fix/candidates';
 
 export interface CheckOptions {
   /** Used for the default plan title. */
@@ -294,7 +295,9 @@ export function checkPlan(text: string, options: CheckOptions = {}): CheckResult
   options.onProgress?.(1);
 
   diagnostics.sort(compareDiagnostics);
-  return { ast, setup, runs: solved, diagnostics, names, values };
+  const result: CheckResult = { ast, setup, runs: solved, diagnostics, names, values };
+  attachFixes(result, text);
+  return result;
 }
 
 function refuseTooLarge(text: string): CheckResult {

@@ -5,4 +5,4 @@ export { checkPlan, MAX_PLAN_CHARS, type CheckOptions } from './check';
 export * from './report';
 export { renderSvg, type RenderOptions } from './render/svg';
 export { ExpressionCache } from './units/evaluate';
-export { fewestResets, segmentAtLine } from './fixes';
+export { fewestResets, segmentAtLine, FEWEST_RESETS_TITLE, proveFix, comparePaths, fixPlan, applyEdits, lineMapper, PATH_TOLERANCE, type FixProof, type PlanFixResult } from './fix';

@@ -174,6 +174,10 @@ export interface Fix {
   edits: TextEdit[];
   /** The fix the user most likely wants. */
   preferred?: boolean;
+  /** The fix changes the robot's path on purpose (its title says how). */
+  changesPath?: boolean;
+  /** Needs no choice by a person (a wrongly cased keyword): `veer fix` applies it. */
+  safe?: boolean;
 }
 
 export interface RelatedInfo {

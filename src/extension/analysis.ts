@@ -21,6 +21,8 @@ export const LANGUAGE_ID = 'veer';
 export interface Analysis {
   uri: vscode.Uri;
   version: number;
+  /** The text that was checked (fixes are proven against it). */
+  text: string;
   result: CheckResult;
 }
 
@@ -72,8 +74,9 @@ function stateOf(document: vscode.TextDocument): DocumentState {
 }
 
 function analyse(document: vscode.TextDocument, state: DocumentState): Analysis {
-  const result = checkPlan(document.getText(), { fileName: fileNameOf(document.uri), cache: state.cache });
-  const analysis: Analysis = { uri: document.uri, version: document.version, result };
+  const text = document.getText();
+  const result = checkPlan(text, { fileName: fileNameOf(document.uri), cache: state.cache });
+  const analysis: Analysis = { uri: document.uri, version: document.version, text, result };
   // A check of an older version finishing late must never replace a newer one.
   if (!state.latest || state.latest.version <= analysis.version) state.latest = analysis;
   return analysis;

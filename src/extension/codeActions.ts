@@ -1,9 +1,11 @@
 // Quick fixes carried by the checker's diagnostics, and the source action that
-// inserts the fewest `reset yaw` lines removing every wrap crossing.
+// inserts the fewest `reset yaw` lines removing the wrap crossings. Every fix
+// is proven by the core (applied, re-checked, the path compared) before the
+// editor offers it.
 import * as vscode from 'vscode';
 import type * as core from '../core';
-import { fewestResets } from '../core/fixes';
-import { getAnalysis, LANGUAGE_ID } from './analysis';
+import { fewestResets, proveFix } from '../core/fix';
+import { getAnalysis, LANGUAGE_ID, type Analysis } from './analysis';
 import { codeOf, DIAGNOSTIC_SOURCE, toCodeAction, toRange } from './convert';
 
 export const FEWEST_RESETS_KIND = vscode.CodeActionKind.Source.append('veer').append('fewestResets');
@@ -17,12 +19,27 @@ export function registerCodeActions(context: vscode.ExtensionContext): void {
 }
 
 /**
- * The editor asks for code actions on every cursor move; the plan-wide fix is
- * computed once per check result, not once per request.
+ * The editor asks for code actions on every cursor move: the plan-wide fix
+ * and each proof are computed once per check result, not once per request.
  */
 const fewestResetsByResult = new WeakMap<core.CheckResult, core.Fix | undefined>();
-function fewestResetsOf(result: core.CheckResult): core.Fix | undefined {
-  if (!fewestResetsByResult.has(result)) fewestResetsByResult.set(result, fewestResets(result));
+const proofs = new WeakMap<core.Fix, boolean>();
+
+function proven(analysis: Analysis, fix: core.Fix, target?: core.Diagnostic): boolean {
+  let ok = proofs.get(fix);
+  if (ok === undefined) {
+    ok = proveFix(analysis.text, analysis.result, fix, target).ok;
+    proofs.set(fix, ok);
+  }
+  return ok;
+}
+
+function fewestResetsOf(analysis: Analysis): core.Fix | undefined {
+  const result = analysis.result;
+  if (!fewestResetsByResult.has(result)) {
+    const fix = fewestResets(result, analysis.text);
+    fewestResetsByResult.set(result, fix && proven(analysis, fix) ? fix : undefined);
+  }
   return fewestResetsByResult.get(result);
 }
 
@@ -32,19 +49,21 @@ class PlanCodeActions implements vscode.CodeActionProvider {
     _range: vscode.Range,
     context: vscode.CodeActionContext,
   ): vscode.CodeAction[] {
-    const result = getAnalysis(document).result;
+    const analysis = getAnalysis(document);
+    const result = analysis.result;
     const actions: vscode.CodeAction[] = [];
     if (!context.only || context.only.contains(vscode.CodeActionKind.QuickFix)) {
       for (const shown of context.diagnostics) {
         if (shown.source !== DIAGNOSTIC_SOURCE) continue;
         const found = result.diagnostics.find((d) => sameDiagnostic(d, shown));
         for (const fix of found?.fixes ?? []) {
+          if (!proven(analysis, fix, found)) continue;
           actions.push(toCodeAction(document.uri, fix, vscode.CodeActionKind.QuickFix, [shown]));
         }
       }
     }
     if (!context.only || FEWEST_RESETS_KIND.intersects(context.only)) {
-      const fix = fewestResetsOf(result);
+      const fix = fewestResetsOf(analysis);
       if (fix) actions.push(toCodeAction(document.uri, { ...fix, preferred: false }, FEWEST_RESETS_KIND, []));
     }
     return actions;

@@ -313,8 +313,9 @@ describe('kinematics: the spec\'s section-9 example', () => {
     near(pivot.wheel_deg!.right, wheelDegreesFor(128 * Math.PI / 2, 62), 1e-3, 'pivot outer wheel, measured track');
     near(pivot.motor_deg!.right, wheelDegreesFor(130 * Math.PI / 2, 62), 1e-3, 'pivot outer motor, effective track');
     near(pivot.motor_deg!.left, 0, 1e-9, 'pivot still wheel');
-    // Encoder turn: outer wheel travel / its speed (spec section 8).
-    near(pivot.duration_s, (128 * Math.PI / 2) / v, 1e-3, 'pivot time');
+    // Encoder turn: the outer wheel's commanded travel / its speed (spec section 8); the
+    // wheels must turn the commanded degrees, which use the effective track (130 mm).
+    near(pivot.duration_s, (130 * Math.PI / 2) / v, 1e-3, 'pivot time');
     assert.equal(run.wrap_crossings, 0);
   });
 });

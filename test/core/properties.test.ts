@@ -103,7 +103,12 @@ describe('properties: wrap verdict against a brute-force walk of the reading', (
     fc.assert(fc.property(fc.constantFrom(-180, 0), turnsArb, fc.array(step, { minLength: 1, maxLength: 8 }), (lo, turns, steps) => {
       const lines = [`yaw range ${lo} to ${lo + 360}`, ...setup(turns), 'start (5000, 5000) heading 0', ...steps.map((s) => s.text)];
       const r = checkPlan(lines.join('\n'));
-      const crossLines = new Set(r.diagnostics.filter((d) => d.code === 'wrap-cross').map((d) => d.range.start.line));
+      // A crossing that follows from an earlier one is listed in that one's related information.
+      const crossings = r.diagnostics.filter((d) => d.code === 'wrap-cross');
+      const crossLines = new Set([
+        ...crossings.map((d) => d.range.start.line),
+        ...crossings.flatMap((d) => (d.related ?? []).filter((x) => x.message.includes('follows from this crossing')).map((x) => x.range.start.line)),
+      ]);
       const segs = r.runs[0].segments;
       steps.forEach((s, i) => {
         const line = 5 + i;

@@ -2,10 +2,11 @@
 // times; and the checks that follow from them (wrap point, swept footprint,
 // walls, time limit, marks).
 import type {
-  Diagnostic, DiagnosticCode, DriveStmt, Fix, MarkStmt, PathPiece, PlanSetup, Point, Pose, Range,
+  Diagnostic, DiagnosticCode, DriveStmt, MarkStmt, PathPiece, PlanSetup, Point, Pose, Range,
   ResetYawStmt, RunResult, Segment, Severity, SquareStmt, StartStmt, TurnShape, TurnStmt, WaitStmt,
 } from '../types';
 import { footprintOf, forwardVector, rightVector, rotatePose, wrapReading, type Footprint } from './frame';
+import { YawReadings } from './readings';
 import { encoderTurnTime, gyroTurnTime, profileTime } from './timing';
 import { squareUp, wallsOf } from './square';
 import { sweepPiece, overlapsAt, type SweepHit } from './sweep';
@@ -88,11 +89,18 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
   for (const input of inputs) {
     const segments: Segment[] = [];
     let pose: Pose | undefined;
-    let zeroHeading = 0; // field heading at which the yaw sensor reads 0
+    // The reading the plan means, and the sensor's reading in the same run
+    // with a zero at every crossing a zero can fix (what the crossings' fixes
+    // make of it): a crossing whose target is in range there only follows
+    // from an earlier one.
+    const yaw = new YawReadings(lo, hi);
+    const fixedYaw = new YawReadings(lo, hi);
+    let root: Diagnostic | undefined;
+    const zero = (heading: number) => { yaw.zero(heading); fixedYaw.zero(heading); root = undefined; };
     let wrapCrossings = 0;
     /** Set by a `square` against a box until the next move is checked. */
     let squaredAgainst: { obstacle?: Obstacle; away: Point } | undefined;
-    const reading = (p: Pose) => wrapReading(p.heading - zeroHeading, lo);
+    const reading = (p: Pose) => yaw.sensor(p.heading);
 
     for (const m of input.motions) {
       const s = m.stmt;
@@ -103,8 +111,8 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
           continue;
         }
         pose = { x: sm.at?.x ?? 0, y: sm.at?.y ?? 0, heading: sm.heading ?? 0 };
-        zeroHeading = pose.heading;
-        const seg = baseSegment(s.line, 'start', pose, pose, 0, 0);
+        zero(pose.heading);
+        const seg = baseSegment(s.line, 'start', pose, pose, yaw.zeroReading, yaw.zeroReading);
         seg.complete = sm.at !== undefined && sm.heading !== undefined;
         segments.push(seg);
         for (const hit of overlapsAt(pose, footprint, turns, setup.obstacles, setup.field)) reportHit(hit, s.range, 'the start pose', seg);
@@ -113,13 +121,13 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       if (!pose) {
         report(s.range, 'error', 'setup', `the run "${input.name}" has no \`start\` before its first motion: add a line such as \`start (200, 200) heading 0\` to place the robot.`);
         pose = { x: 0, y: 0, heading: 0 };
-        zeroHeading = 0;
+        zero(0);
       }
       const yawBefore = reading(pose);
       switch (s.kind) {
         case 'resetYaw': {
-          zeroHeading = pose.heading;
-          segments.push(baseSegment(s.line, 'reset', pose, pose, yawBefore, 0));
+          zero(pose.heading);
+          segments.push(baseSegment(s.line, 'reset', pose, pose, yawBefore, yaw.zeroReading));
           break;
         }
         case 'wait': {
@@ -149,6 +157,8 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
           pose = solveSquare(m as Extract<EvaluatedMotion, { stmt: SquareStmt }>, pose);
           break;
       }
+      yaw.settle(pose.heading);
+      fixedYaw.settle(pose.heading);
     }
 
     const duration = segments.reduce((t, sg) => t + (Number.isFinite(sg.duration) ? sg.duration : 0), 0);
@@ -176,16 +186,16 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       if (s.hold && dm.hold !== undefined) {
         yawTarget = dm.hold;
         const holdRange = s.optionRanges.hold ?? s.range;
-        checkTarget(dm.hold, holdRange, s, 'hold', yawStart, from);
-        const jump = dm.hold - yawStart; // the code's raw error
+        const meant = yaw.reading(from.heading);
+        const jump = yaw.absoluteChange(dm.hold, from.heading); // the change of heading the hold asks for
+        checkTarget(dm.hold, jump, holdRange, s, 'hold', from);
         if (Math.abs(jump) > MOTION_DEFAULTS.headingJump) {
           if (!s.step) {
             report(holdRange, 'warning', 'heading-jump',
-              `the drive holds yaw ${fmt(dm.hold)}° but the reading is ${fmt(yawStart)}°: the robot starts with a sudden ${fmt(Math.abs(jump))}° swerve. Add \`step\` if the change of heading is meant, or turn onto ${fmt(dm.hold)}° first.`,
-              { fixes: headingJumpFixes(s, dm.hold) });
+              `The drive starts with a sudden ${fmt(Math.abs(jump))}° swerve ${sideOf(jump)}: it holds the yaw reading at ${fmt(dm.hold)}°, but the reading is ${fmt(meant)}° when it starts. Add \`step\` if the change of heading is meant, or turn onto ${fmt(dm.hold)}° first.`);
           } else {
             report(holdRange, 'information', 'approximate',
-              'the curved path of a `hold ... step` drive comes from the controller simulation; until then it is drawn as a turn in place followed by the straight drive.');
+              'The curved path of a `hold ... step` drive comes from the controller simulation; until then it is drawn as a turn in place followed by the straight drive.');
           }
           turned = jump;
           const turnedPose = rotatePose(from, from, jump, turns);
@@ -231,23 +241,24 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       const s = tm.stmt;
       const gyro = s.sensing === 'gyro' || (s.to !== undefined && s.optionRanges.by === undefined);
       const gyroReferenced = gyro || s.to !== undefined;
-      if (s.reset) zeroHeading = from.heading;
+      if (s.reset) zero(from.heading);
       const yawStart = reading(from);
+      const meant = yaw.reading(from.heading);
       let turned: number;
       let target: number | undefined;
       if (s.to !== undefined) {
         target = tm.to;
-        turned = tm.to === undefined ? 0 : tm.to - yawStart;
+        turned = tm.to === undefined ? 0 : yaw.absoluteChange(tm.to, from.heading);
       } else {
         turned = tm.angle ?? 0;
-        if (gyro) target = yawStart + turned;
+        if (gyro) target = meant + turned;
       }
       // The wrap point and the long way round.
-      if (target !== undefined && gyro) checkTarget(target, s.range, s, 'turn', yawStart, from);
-      if (s.to !== undefined && tm.to !== undefined && Math.abs(turned) > 180) {
-        const short = turned > 0 ? turned - 360 : turned + 360;
+      const crossed = target !== undefined && gyro ? checkTarget(target, turned, s.range, s, 'turn', from) : false;
+      if (s.to !== undefined && tm.to !== undefined && Math.abs(turned) > 180 && !crossed) {
+        const short = shortWay(turned);
         report(s.range, 'warning', 'long-way',
-          `the code computes ${fmt(tm.to)}° − ${fmt(yawStart)}° = ${fmt(turned)}° without wrapping, so the robot turns ${fmt(Math.abs(turned))}° the long way round; the short way (${fmt(short)}°) would cross the sensor's wrap point. Turn by ${fmt(short)}° with \`reset\`, or reset the yaw earlier so the target lies the short way.`);
+          `The robot turns ${fmt(Math.abs(turned))}° ${sideOf(turned)}, the long way round: the code computes ${fmt(tm.to)}° − ${fmt(meant)}° = ${fmt(turned)}° without wrapping, because the short way (${fmt(Math.abs(short))}° ${sideOf(short)}) would cross the sensor's wrap point. If the long way is not meant, turn the short way by encoders.`);
       }
       if (gyro) {
         checkPower(tm.speed, s.optionRanges.speed ?? s.range, 'speed');
@@ -279,7 +290,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
           if (tm.ratio < -1 || tm.ratio >= 1) {
             report(s.optionRanges.ratio ?? s.range, 'error', 'setup', 'a wheel ratio lies from -100 % (a spin) up to, but not including, 100 % (straight); e.g. `ratio 50%`.');
             R = undefined;
-          } else R = (half * (1 + tm.ratio)) / (1 - tm.ratio);
+          } else R = (((robot.effectiveTrack ?? W ?? 0) / 2) * (1 + tm.ratio)) / (1 - tm.ratio);
         }
         if (R !== undefined && R < 0) {
           report(s.optionRanges.arc ?? s.range, 'error', 'setup', 'an arc radius cannot be negative; use `reverse` to drive the arc backwards, or turn the other way.');
@@ -313,13 +324,14 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       if (needWheel(s.keywordRange) && vMax !== undefined && (W !== undefined || shapeNode.kind === 'spin') && W !== undefined) {
         const t = travel(W, offset);
         seg.wheelDeg = { left: wheelDegrees(t.left)!, right: wheelDegrees(t.right)! };
-        // A pivot and a wheel ratio are defined by the wheels, so their centre
-        // scales with the calibrated track (the still wheel stays still, the
-        // ratio stays the ratio); an arc's radius is the user's own.
+        // Encoder targets use the calibrated track: the robot turns as if its
+        // wheels were that far apart. A pivot keeps its still wheel still (its
+        // centre scales with the calibrated track); an arc's radius is the
+        // user's own, and a wheel ratio's radius already comes from the
+        // calibrated track, so the commanded degrees drive the drawn path.
         const effective = robot.effectiveTrack ?? W;
-        const te = gyro ? t : travel(effective, shapeNode.kind === 'arc' ? offset : (offset * effective) / W);
+        const te = gyro ? t : travel(effective, shapeNode.kind === 'pivot' ? (offset * effective) / W : offset);
         seg.motorDeg = { left: wheelDegrees(te.left)! * robot.gear!, right: wheelDegrees(te.right)! * robot.gear! };
-        const outer = Math.max(Math.abs(t.left), Math.abs(t.right));
         const outerRadius = Math.abs(offset) + half;
         if (gyro) {
           seg.duration = gyroTurnTime({
@@ -328,7 +340,9 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
             lag: robot.motorLag ?? 0,
           });
         } else {
-          seg.duration = encoderTurnTime(outer, top * vMax, Math.max(min, 1e-3) * vMax, s.ramp);
+          // The wheels must turn the commanded (calibrated-track) travel.
+          const outerCommanded = Math.max(Math.abs(te.left), Math.abs(te.right));
+          seg.duration = encoderTurnTime(outerCommanded, top * vMax, Math.max(min, 1e-3) * vMax, s.ramp);
         }
         if (!Number.isFinite(seg.duration)) seg.duration = 0;
       } else {
@@ -413,24 +427,47 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       }
     }
 
-    /** A gyro target outside the sensor's range, or within the noise band of the wrap point. */
-    function checkTarget(target: number, range: Range, stmt: TurnStmt | DriveStmt, what: 'turn' | 'hold', yawStart: number, where: Point) {
+    /**
+     * A gyro target outside the sensor's range, or within the noise band of
+     * the wrap point; `change` is the change of heading the motion means.
+     * Returns whether the target crosses the wrap point.
+     */
+    function checkTarget(target: number, change: number, range: Range, stmt: TurnStmt | DriveStmt, what: 'turn' | 'hold', where: Pose): boolean {
       const at = { x: where.x, y: where.y };
-      if (target < lo || target >= hi) {
+      const h = where.heading;
+      const fixedTarget = fixedYaw.reading(h) + change;
+      if (!yaw.inRange(target)) {
+        yaw.gyroMotion(target, h);
+        if (root && fixedYaw.inRange(fixedTarget)) {
+          // Follows from the earlier crossing: once that one is fixed, this target lies in range.
+          (root.related ??= []).push({ range, message: `Line ${stmt.line + 1} (${describeTarget(stmt, target)}) follows from this crossing: once it is fixed, that target is ${fmt(fixedTarget)}°, inside the range.` });
+          return true;
+        }
         wrapCrossings++;
         const wrapAt = target >= hi ? hi : lo;
-        const seen = wrapReading(target, lo);
-        report(range, 'error', 'wrap-cross',
-          `the yaw target ${fmt(target)}° lies outside the sensor's range [${fmt(lo)}, ${fmt(hi)}): as the robot passes ${fmt(wrapAt)}° the reading jumps to ${wrapAt === hi ? `${fmt(lo)}°` : `just under ${fmt(hi)}°`}, the error grows instead of shrinking and the robot ${what === 'turn' ? 'spins on and never settles' : 'swerves round in circles'}. ` +
-          `Reset the yaw before this line, or aim for the reading ${fmt(seen)}° instead.`,
-          { fixes: wrapFixes(stmt, target, yawStart, 'wrap-cross'), at });
-        return;
+        const afterZero = yaw.zeroReading + change;
+        const resetHelps = yaw.inRange(afterZero);
+        // The fixed run: a zero here where one helps; otherwise the turn's fix
+        // (by encoders) leaves the sensor's own reading.
+        if (resetHelps) fixedYaw.zero(h);
+        const consequence = what === 'turn' ? 'the robot spins on and never settles' : 'the robot swerves round in circles';
+        const advice = resetHelps
+          ? (stmt.kind === 'turn' && stmt.angle
+            ? 'Zero the yaw just before it (add `reset` to the turn): the target then lies inside the range.'
+            : `Reset the yaw before this line and aim for ${fmt(afterZero)}° instead: the robot then does the same.`)
+          : `No reset helps: ${fmt(Math.abs(change))}° ${sideOf(change)} from zero already leaves the range. ${what === 'turn' ? 'Turn by encoders instead (the yaw sensor is then not used), or split the turn into smaller gyro turns.' : 'Turn onto the new heading first, then zero the yaw and hold that.'}`;
+        root = report(range, 'error', 'wrap-cross',
+          `The robot never settles here: the yaw target ${fmt(target)}° lies outside the sensor's range (${fmt(lo)}° to ${fmt(hi)}°), so as the robot passes ${fmt(wrapAt)}° the reading jumps by 360°, the error grows instead of shrinking and ${consequence}. ${advice}`,
+          { at });
+        return true;
       }
+      yaw.gyroMotion(target, h);
       if (nearWrapPoint(target)) {
         report(range, 'warning', 'wrap-edge',
-          `the yaw target ${fmt(target)}° is within ${MOTION_DEFAULTS.wrapEdge}° of the sensor's wrap point (${fmt(target - lo <= MOTION_DEFAULTS.wrapEdge ? lo : hi)}°): sensor noise will flip the reading between ${fmt(lo)}° and ${fmt(hi)}° and the robot can spin or swerve. Reset the yaw before this line so the target sits mid-range.`,
-          { fixes: wrapFixes(stmt, target, yawStart, 'wrap-edge'), at });
+          `The yaw target ${fmt(target)}° is within ${MOTION_DEFAULTS.wrapEdge}° of the sensor's wrap point (${fmt(target - lo <= MOTION_DEFAULTS.wrapEdge ? lo : hi)}°): sensor noise can flip the reading between ${fmt(lo)}° and ${fmt(hi)}° and the robot can spin or swerve. Reset the yaw before this line so the target sits mid-range.`,
+          { at });
       }
+      return false;
     }
 
     /** Within the noise band of either end of the range: the same distance counts at both ends. */
@@ -438,34 +475,9 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       return target - lo <= MOTION_DEFAULTS.wrapEdge || hi - target <= MOTION_DEFAULTS.wrapEdge;
     }
 
-    function wrapFixes(stmt: TurnStmt | DriveStmt, target: number, yawStart: number, problem: 'wrap-cross' | 'wrap-edge'): Fix[] {
-      const fixes: Fix[] = [];
-      // After a reset here the reading is 0, so the code's target becomes the
-      // raw change it asks for; a reset helps only when that removes the problem.
-      const afterReset = target - yawStart;
-      if (afterReset < lo || afterReset >= hi || (problem === 'wrap-edge' && nearWrapPoint(afterReset))) return fixes;
-      const indent = ' '.repeat(stmt.range.start.character);
-      const insertReset = { range: { start: { line: stmt.line, character: 0 }, end: { line: stmt.line, character: 0 } }, newText: `${indent}reset yaw\n` };
-      if (stmt.kind === 'turn' && stmt.angle) {
-        if (!stmt.reset) fixes.push({ title: 'Add `reset` to the turn (zero the yaw just before it)', edits: [{ range: { start: stmt.range.end, end: stmt.range.end }, newText: ' reset' }], preferred: true });
-        fixes.push({ title: 'Insert `reset yaw` before this line', edits: [insertReset] });
-      } else if (stmt.kind === 'turn' && stmt.to) {
-        // After a reset the reading is 0 here, so the same turn is `turn to (target − reading)`.
-        fixes.push({ title: `Insert \`reset yaw\` before this line and aim for ${fmt(afterReset)}°`, edits: [insertReset, { range: stmt.to.range, newText: fmt(afterReset, 3) }], preferred: true });
-      } else if (stmt.kind === 'drive' && stmt.hold) {
-        fixes.push({ title: `Insert \`reset yaw\` before this line and hold ${fmt(afterReset)}°`, edits: [insertReset, { range: stmt.hold.range, newText: fmt(afterReset, 3) }], preferred: true });
-      }
-      return fixes;
-    }
-
-    function headingJumpFixes(stmt: DriveStmt, hold: number): Fix[] {
-      const fixes: Fix[] = [];
-      if (stmt.hold) fixes.push({ title: 'Add `step` (the change of heading is meant)', edits: [{ range: { start: stmt.hold.range.end, end: stmt.hold.range.end }, newText: ' step' }], preferred: true });
-      // Turning onto a target outside the range first would itself cross the wrap point.
-      if (hold < lo || hold >= hi) return fixes;
-      const indent = ' '.repeat(stmt.range.start.character);
-      fixes.push({ title: `Insert \`turn to ${fmt(hold)} by gyro\` before the drive`, edits: [{ range: { start: { line: stmt.line, character: 0 }, end: { line: stmt.line, character: 0 } }, newText: `${indent}turn to ${fmt(hold, 3)} by gyro\n` }] });
-      return fixes;
+    function sideOf(change: number): string {
+      const clockwise = (change >= 0) === (turns === 'clockwise');
+      return clockwise ? 'to the right' : 'to the left';
     }
 
     function checkPower(p: number | undefined, range: Range, what: string) {
@@ -509,7 +521,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         if (spinHits.length === 0) hint = ' A spin turn here clears it (the robot would then end at a different position).';
       }
       report(range, 'error', 'collision',
-        `the robot's footprint hits the ${o.kind} "${o.name}" during ${what}.${hint || (piece?.type === 'rotate' && seg.kind === 'turn' ? ' Turn further from it, or use a turn shape that sweeps less (a spin sweeps the least).' : ' Move the path away from it: change the drives before this line.')}`,
+        `the robot's footprint hits the ${o.kind} "${o.name}" during ${what}.${hint || (piece?.type === 'rotate' && seg.kind === 'turn' ? (seg.shape === 'spin' ? ' Turn further from it: change the drives before this line.' : ' A spin turn here hits it too: turn further from it.') : ' Move the path away from it: change the drives before this line.')}`,
         { at: hit.at, related: [{ range: { start: { line: o.line, character: 0 }, end: { line: o.line, character: 0 } }, message: `"${o.name}" is declared here` }] });
     }
   }
@@ -537,6 +549,17 @@ function describeShape(shape: string): string {
     case 'drive': return 'this drive';
     default: return shape;
   }
+}
+
+/** The same change of heading the short way round, in [-180, 180]. */
+export function shortWay(change: number): number {
+  const c = wrapReading(change, -180);
+  return c === -180 && change > 0 ? 180 : c;
+}
+
+function describeTarget(stmt: TurnStmt | DriveStmt, target: number): string {
+  if (stmt.kind === 'drive') return `hold ${fmt(target)}`;
+  return stmt.to ? `turn to ${fmt(target)}` : `a gyro turn aiming at ${fmt(target)}°`;
 }
 
 function normal(h: number): number {

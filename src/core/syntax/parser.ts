@@ -679,6 +679,7 @@ class LineReader {
           title: `Change to \`${suggestion}\``,
           edits: [{ range: this.range(token.start, token.end), newText: suggestion }],
           preferred: true,
+          ...(suggestion.toLowerCase() === token.text.toLowerCase() ? { safe: true } : {}),
         }]);
     }
     if (otherwise) this.fail(token, otherwise);

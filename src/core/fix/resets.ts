@@ -1,0 +1,112 @@
+// The whole-file fix: the fewest `reset yaw` lines that remove the wrap
+// crossings, with later `turn to` and `hold` targets rewritten so the robot
+// drives the path the plan means.
+import type { CheckResult, Fix, MotionStmt, Segment, TextEdit } from '../types';
+import { wrapReading } from '../solve/frame';
+import { readingItems, replay, replayKeepsPath } from './replay';
+import { insertLinesBefore, lineEndOf, writeNumber } from './text';
+
+/** The title the editor's source action and the docs use. */
+export const FEWEST_RESETS_TITLE = 'Insert the fewest yaw resets that remove the wrap crossings';
+
+/**
+ * Per run, a shortest path over reset positions: a reset may go before any
+ * motion; existing resets (and turns with `reset`) stay; a stretch from one
+ * zero to the next is allowed when every gyro target in it, kept at its
+ * change of heading, lies inside the sensor's range. Targets that no reset
+ * can bring into range (a turn bigger than the range by itself) are left to
+ * their own diagnostics and fixes.
+ */
+export function fewestResets(result: CheckResult, text?: string): Fix | undefined {
+  if (!result.diagnostics.some((d) => d.code === 'wrap-cross')) return undefined;
+  const { lo, hi } = result.setup.yawRange;
+  const inRange = (t: number) => t >= lo && t < hi;
+  const zeroReading = wrapReading(0, lo);
+  const stmts = new Map<number, MotionStmt>();
+  for (const s of result.ast.statements) {
+    if (s.kind === 'start' || s.kind === 'drive' || s.kind === 'turn' || s.kind === 'resetYaw' || s.kind === 'square' || s.kind === 'wait' || s.kind === 'mark') stmts.set(s.line, s);
+  }
+  const stmtAt = (line: number) => stmts.get(line);
+  const eol = text === undefined ? '\n' : lineEndOf(text);
+  const edits: TextEdit[] = [];
+  let inserted = 0;
+  const reported = new Set(result.diagnostics.filter((d) => d.code === 'wrap-cross').map((d) => d.range.start.line));
+
+  for (const run of result.runs) {
+    const segs = run.segments;
+    const startIndex = segs.findIndex((s) => s.kind === 'start');
+    if (startIndex < 0) continue;
+    const items = readingItems(run, stmtAt);
+    // Positions: p = just before segment p (0 = the run's start).
+    const mandatory = new Set<number>([0]);
+    segs.forEach((seg, i) => {
+      const stmt = stmtAt(seg.line);
+      if (seg.kind === 'reset' || (stmt?.kind === 'turn' && stmt.reset)) mandatory.add(i);
+    });
+    const refHeading = (p: number): number => (p === 0 ? segs[startIndex].start.heading : segs[p].start.heading);
+    const search = (considered: typeof items): number[] | undefined => {
+      const itemAt = new Map(considered.map((it) => [it.index, it]));
+      const fits = (p: number, index: number) => {
+        const it = itemAt.get(index);
+        return !it || inRange(wrapReading(segs[index].start.heading - refHeading(p), lo) + it.change);
+      };
+      // Shortest path: cost[q] = resets inserted so far with the last zero at q.
+      const n = segs.length;
+      const cost = new Array<number>(n + 1).fill(Infinity);
+      const prev = new Array<number>(n + 1).fill(-1);
+      cost[0] = 0;
+      for (let p = 0; p < n; p++) {
+        if (cost[p] === Infinity) continue;
+        for (let q = p + 1; q <= n; q++) {
+          if (!fits(p, q - 1)) break; // the stretch [p, q) would cross at q - 1
+          const step = q === n || mandatory.has(q) ? 0 : 1;
+          if (q < n && segs[q].kind === 'start') continue;
+          if (cost[p] + step < cost[q]) {
+            cost[q] = cost[p] + step;
+            prev[q] = p;
+          }
+          if (mandatory.has(q)) break; // an existing zero cannot be skipped
+        }
+      }
+      if (cost[n] === Infinity) return undefined;
+      const chosen: number[] = [];
+      for (let q = prev[n]; q > 0; q = prev[q]) if (!mandatory.has(q)) chosen.push(q);
+      return chosen.reverse();
+    };
+    // Every gyro target in range; failing that, leave out the turns that no
+    // reset of their own can help (their fix is an encoder turn) and accept
+    // the result only if nothing crosses that is not already reported.
+    const gyroItems = items.filter((it) => it.gyro);
+    let chosen = search(gyroItems);
+    if (!chosen) chosen = search(gyroItems.filter((it) => inRange(zeroReading + it.change)));
+    if (!chosen || chosen.length === 0) continue;
+    const zeroBefore = new Map(chosen.map((p) => [p, segs[p].start.heading]));
+    const replayed = replay(run, items, stmtAt, lo, hi, { zeroBefore });
+    // Around a crossing no reset can remove, the rewritten targets may not
+    // keep every motion: leave such a run to its own diagnostics' fixes.
+    if (!replayKeepsPath(replayed, run, reported)) continue;
+    inserted += chosen.length;
+
+    for (const pos of chosen) {
+      const stmt = stmtAt(segs[pos].line)!;
+      const indent = ' '.repeat(stmt.range.start.character);
+      edits.push(insertLinesBefore(stmt.line, [`${indent}reset yaw`], eol));
+    }
+    for (const it of replayed) {
+      if (!it.absolute || Math.abs(it.newTarget - it.target) < 1e-9) continue;
+      const node = it.stmt.kind === 'drive' ? it.stmt.hold : it.stmt.to;
+      if (node) edits.push({ range: node.range, newText: writeNumber(it.newTarget) });
+    }
+  }
+  if (inserted === 0) return undefined;
+  return { title: `${FEWEST_RESETS_TITLE} (${inserted} reset${inserted === 1 ? '' : 's'}; the path stays the same)`, edits };
+}
+
+/** Segments of a run at a 0-based line, for editor features. */
+export function segmentAtLine(result: CheckResult, line: number): { run: number; segment: number; value: Segment } | undefined {
+  for (let r = 0; r < result.runs.length; r++) {
+    const segs = result.runs[r].segments;
+    for (let s = 0; s < segs.length; s++) if (segs[s].line === line) return { run: r, segment: s, value: segs[s] };
+  }
+  return undefined;
+}
