@@ -1,7 +1,8 @@
 // The `veer` command: the core's checker and renderer for terminals and CI.
-import { readFileSync, statSync, writeFileSync } from 'node:fs';
+import { readFileSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
+import { basename, dirname, join } from 'node:path';
 import { parseArgs } from 'node:util';
-import { checkPlan, renderSvg, ExpressionCache, MAX_PLAN_CHARS, type CheckResult } from '../core';
+import { checkPlan, fixPlan, renderSvg, ExpressionCache, MAX_PLAN_CHARS, type CheckResult } from '../core';
 import { diagnosticLine, runSummaryLine, toJsonDocument } from '../core/report';
 import { version } from '../../package.json';
 
@@ -10,6 +11,9 @@ const HELP = `veer ${version}: check and draw plans for two-wheeled robot runs
 Usage:
   veer check [--json] [--strict] FILE...   check plans; one line per problem, a summary per run
   veer render FILE -o OUT.svg [--run NAME] draw the field, the path and the problems as SVG
+  veer fix FILE [--write]                  apply the fixes that need no choice and keep every motion
+                                           (the fewest yaw resets, wrongly cased keywords); print the
+                                           fixed plan, or rewrite FILE with --write; a summary on stderr
   veer --help | --version
 
 Options:
@@ -17,6 +21,7 @@ Options:
   --strict     count warnings as errors
   -o, --output where \`render\` writes the SVG
   --run NAME   draw only this run (name or 1-based number)
+  --write      \`fix\` rewrites the file in place instead of printing it
 
 Exit status: 0 no errors (warnings allowed), 1 errors found, 2 usage error or unreadable file.
 Lengths are in millimetres, angles in degrees, times in seconds.
@@ -63,6 +68,7 @@ function dispatch(argv: string[], io: CliIo): number {
         strict: { type: 'boolean' },
         output: { type: 'string', short: 'o' },
         run: { type: 'string' },
+        write: { type: 'boolean' },
       },
     });
   } catch (e) {
@@ -79,6 +85,12 @@ function dispatch(argv: string[], io: CliIo): number {
   }
   const [command, ...files] = positionals;
   if (!command) throw new UsageError('no command given: use `veer check FILE` or `veer render FILE -o OUT.svg`');
+  if (command !== 'fix' && values.write) throw new UsageError('`--write` belongs to `veer fix`');
+  if (command === 'fix') {
+    if (values.json || values.strict || values.output !== undefined || values.run !== undefined) throw new UsageError('`veer fix` takes only a plan file and `--write`');
+    if (files.length !== 1) throw new UsageError('`veer fix` takes exactly one plan file');
+    return fix(files[0], !!values.write, io);
+  }
   if (command === 'check') {
     if (values.output !== undefined || values.run !== undefined) throw new UsageError('`-o` and `--run` belong to `veer render`');
     if (files.length === 0) throw new UsageError('`veer check` needs at least one plan file');
@@ -90,7 +102,7 @@ function dispatch(argv: string[], io: CliIo): number {
     if (!values.output) throw new UsageError('`veer render` needs `-o OUT.svg`');
     return render(files[0], values.output, values.run, !!values.strict, io);
   }
-  throw new UsageError(`unknown command \`${command}\`: use \`check\` or \`render\``);
+  throw new UsageError(`unknown command \`${command}\`: use \`check\`, \`render\` or \`fix\``);
 }
 
 class FileError extends Error {}
@@ -183,6 +195,36 @@ function render(file: string, output: string, run: string | undefined, strict: b
   for (const d of result.diagnostics) io.err(diagnosticLine(file, d) + '\n');
   io.err(`wrote ${output}\n`);
   return failed(result, strict) ? 1 : 0;
+}
+
+function fix(file: string, write: boolean, io: CliIo): number {
+  const text = readPlan(file);
+  const out = fixPlan(text, { fileName: file, cache: new ExpressionCache() });
+  if (write) {
+    if (out.text !== text) writeAtomically(file, out.text);
+  } else io.out(out.text);
+  for (const change of out.changes) io.err(`${file}: ${change}\n`);
+  for (const refused of out.refused) io.err(`${file}: ${refused}\n`);
+  if (out.changes.length === 0) io.err(`${file}: nothing to fix without a choice by a person\n`);
+  else if (write) io.err(`${file}: rewritten\n`);
+  const errors = out.result.diagnostics.filter((d) => d.severity === 'error');
+  if (errors.length) {
+    io.err(`${file}: ${errors.length} error${errors.length === 1 ? '' : 's'} remain; \`veer check ${file}\` lists them, and the editor offers the fixes that need a choice\n`);
+    return 1;
+  }
+  return 0;
+}
+
+/** Writes through a temporary file in the same folder and a rename, so a failed write never leaves half a file. */
+function writeAtomically(path: string, content: string): void {
+  const temporary = join(dirname(path), `.${basename(path)}.${process.pid}.tmp`);
+  try {
+    writeFileSync(temporary, content);
+    renameSync(temporary, path);
+  } catch (e) {
+    try { unlinkSync(temporary); } catch { /* already gone */ }
+    throw new FileError(`${path}: cannot write (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
+  }
 }
 
 /** Entry point used by bin/veer.js. */

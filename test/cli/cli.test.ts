@@ -44,6 +44,48 @@ describe('veer command line', () => {
     assert.match(strict.out, /warning: .*\[over-time\]/);
   });
 
+  describe('veer fix', () => {
+    const wrapping = ['units mm', 'wheel 60 mm', 'track 130 mm', 'start (150, 150) heading 0', 'drive 550 hold 0',
+      'turn 90 by gyro min 10%', 'drive 900 hold 90', 'Turn 90 by gyro min 10%', 'drive 300 hold 180', 'turn -90 arc 200', ''].join('\n');
+
+    it('prints the fixed plan: the case fixed, the fewest resets, later targets rewritten; a summary on stderr', () => {
+      const file = tempPlan(wrapping);
+      const r = run(['fix', file]);
+      assert.equal(r.status, 0, r.err);
+      // Hand-derived: `Turn` becomes `turn`; after it the target 180 crosses; one reset (here before the
+      // drive of 900, where the reading is 90) brings every target into range, with both holds rewritten.
+      assert.equal(r.out, ['units mm', 'wheel 60 mm', 'track 130 mm', 'start (150, 150) heading 0', 'drive 550 hold 0',
+        'turn 90 by gyro min 10%', 'reset yaw', 'drive 900 hold 0', 'turn 90 by gyro min 10%', 'drive 300 hold 90', 'turn -90 arc 200', ''].join('\n'));
+      assert.match(r.err, /wrote `turn`/);
+      assert.match(r.err, /inserted 1 `reset yaw` line and rewrote 2 later targets, removing 1 wrap crossing; every motion ends where it did/);
+      assert.equal(readFileSync(file, 'utf8'), wrapping, 'without --write the file is untouched');
+      assert.equal(run(['check', file]).status, 1);
+    });
+
+    it('--write rewrites the file in place, and a second run has nothing to do', () => {
+      const file = tempPlan(wrapping);
+      const r = run(['fix', '--write', file]);
+      assert.equal(r.status, 0, r.err);
+      assert.equal(r.out, '');
+      assert.match(readFileSync(file, 'utf8'), /reset yaw\ndrive 900 hold 0/);
+      assert.equal(run(['check', file]).status, 0);
+      const again = run(['fix', '--write', file]);
+      assert.equal(again.status, 0);
+      assert.match(again.err, /nothing to fix/);
+    });
+
+    it('exits 1 when errors remain (a turn no reset can help) and 2 on usage errors', () => {
+      const file = tempPlan('wheel 56\ntrack 160\nstart (0, 0) heading 0\nturn 200 by gyro\n');
+      const r = run(['fix', file]);
+      assert.equal(r.status, 1);
+      assert.equal(r.out, readFileSync(file, 'utf8'));
+      assert.match(r.err, /1 error remain/);
+      assert.equal(run(['fix']).status, 2);
+      assert.equal(run(['fix', file, file]).status, 2);
+      assert.equal(run(['check', '--write', file]).status, 2);
+    });
+  });
+
   it('--json gives the document of the command-line spec', () => {
     const r = run(['check', '--json', example]);
     assert.equal(r.status, 0);
