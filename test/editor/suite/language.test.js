@@ -80,8 +80,8 @@ describe('Veer language features', () => {
   });
 
   for (const [title, expectedLine, expectedNextLine] of [
-    ['Add `reset` to the turn', 'turn 90 by gyro reset', 'turn 90 by encoders'],
-    ['Insert `reset yaw` before this line', 'reset yaw', 'turn 90 by gyro'],
+    ['Add reset to this turn', 'turn 90 by gyro reset', 'turn 90 by encoders'],
+    ['Insert "reset yaw" before this line', 'reset yaw', 'turn 90 by gyro'],
   ]) {
     it(`quick fix "${title}" removes the wrap crossing`, async () => {
       const scratch = await scratchCopy(FIXTURE);
@@ -114,6 +114,52 @@ describe('Veer language features', () => {
     const after = resets();
     assert.equal(after - before, 1, 'one reset is enough for one crossing');
     await diagnosticsWhere(scratch.uri, (d) => !hasWrapCross(d));
+    await vscode.commands.executeCommand('workbench.action.revertAndCloseActiveEditor');
+  });
+
+  // The coach's plan of the fix engine's tests: a turn to 180 followed by `hold 180`.
+  // Each fix must keep the path, so the hold is rewritten to the same heading counted
+  // from the new zero (90), never left as a 90° swerve or made a hold of 450.
+  const SWERVE = 'swerve-check.veer';
+  const swerveLines = (replace) => {
+    const lines = ['# Editor test fixture: an invented hallway run whose second gyro turn aims at 180.', 'units mm', 'wheel 60 mm',
+      'track 130 mm', 'start (150, 150) heading 0', 'drive 550 hold 0', 'turn 90 by gyro min 10%', 'drive 900 hold 90',
+      'turn 90 by gyro min 10%', 'drive 300 hold 180', 'turn -90 arc 200', ''];
+    return replace(lines).join('\n');
+  };
+  for (const [title, expected] of [
+    ['Add reset to this turn', swerveLines((l) => [...l.slice(0, 8), 'turn 90 by gyro min 10% reset', 'drive 300 hold 90', ...l.slice(10)])],
+    ['Insert "reset yaw" before this line', swerveLines((l) => [...l.slice(0, 8), 'reset yaw', 'turn 90 by gyro min 10%', 'drive 300 hold 90', ...l.slice(10)])],
+  ]) {
+    it(`on a hold of 180 after the crossing, "${title}" rewrites the hold and leaves no problem`, async () => {
+      const scratch = await scratchCopy(SWERVE);
+      const diagnostics = await diagnosticsWhere(scratch.uri, hasWrapCross);
+      // One root cause, one problem: the hold is related information, not a second error.
+      assert.deepEqual(diagnostics.map(codeOf), ['wrap-cross']);
+      assert.deepEqual(diagnostics[0].relatedInformation.map((r) => r.location.range.start.line), [9]);
+      const actions = await vscode.commands.executeCommand(
+        'vscode.executeCodeActionProvider', scratch.uri, diagnostics[0].range, vscode.CodeActionKind.QuickFix.value,
+      );
+      const action = actions.find((a) => a.title.startsWith(title));
+      assert.ok(action, `no "${title}" among ${actions.map((a) => a.title).join(' | ')}`);
+      assert.ok(await vscode.workspace.applyEdit(action.edit));
+      assert.equal(scratch.getText(), expected);
+      await diagnosticsWhere(scratch.uri, (d) => d.length === 0);
+      await vscode.commands.executeCommand('workbench.action.revertAndCloseActiveEditor');
+    });
+  }
+
+  it('on the same plan, the fewest-resets source action inserts one reset and rewrites the holds', async () => {
+    const scratch = await scratchCopy(SWERVE);
+    await diagnosticsWhere(scratch.uri, hasWrapCross);
+    const whole = new vscode.Range(0, 0, scratch.lineCount, 0);
+    const actions = await vscode.commands.executeCommand('vscode.executeCodeActionProvider', scratch.uri, whole, 'source.veer.fewestResets');
+    assert.equal(actions.length, 1, actions.map((a) => a.title).join(' | '));
+    assert.match(actions[0].title, /^Insert the fewest yaw resets that remove the wrap crossings \(1 reset; the path stays the same\)$/);
+    assert.ok(await vscode.workspace.applyEdit(actions[0].edit));
+    assert.equal(scratch.getText(), swerveLines((l) => [...l.slice(0, 7), 'reset yaw', 'drive 900 hold 0', 'turn 90 by gyro min 10%', 'drive 300 hold 90', ...l.slice(10)]));
+    assert.doesNotMatch(scratch.getText(), /hold 450/);
+    await diagnosticsWhere(scratch.uri, (d) => d.length === 0);
     await vscode.commands.executeCommand('workbench.action.revertAndCloseActiveEditor');
   });
 
