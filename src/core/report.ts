@@ -58,7 +58,8 @@ const r3 = (v: number) => {
   return Object.is(r, -0) ? 0 : r;
 };
 
-const pose = (p: Pose): JsonPose => ({ x_mm: r3(p.x), y_mm: r3(p.y), heading_deg: r3(normaliseHeading(p.heading)) });
+// Rounded first, then normalised, so a heading a hair under 360 reads 0, never 360.
+const pose = (p: Pose): JsonPose => ({ x_mm: r3(p.x), y_mm: r3(p.y), heading_deg: r3(normaliseHeading(r3(p.heading))) });
 const pair = (w: WheelPair): WheelPair => ({ left: r3(w.left), right: r3(w.right) });
 
 export function jsonSegment(s: Segment): JsonSegment {

@@ -234,13 +234,17 @@ describe('kinematics: square against walls', () => {
   const field = ['wheel 56', 'track 160', 'field 2000 by 1200'];
   const body = 'body 150 by 190 axle -30';
 
-  it('squares against a field edge: heading on the normal, edge flush, position along the wall kept', () => {
+  it('squares against a field edge: drives along its heading to first contact, then turns square there', () => {
     const r = check([...field, body, 'start (500, 400) heading 10', 'square front', 'square back']);
     assert.deepEqual(errors(r), []);
     const front = segmentOn(r, 5);
     // Front edge 190/2 + 30 = 125 mm ahead of the axle, so the axle ends 1200 − 125 = 1075 (spec section 5, hand-derived).
     near(front.end.y, 1075, 1e-9, 'front y');
-    near(front.end.x, 500, 1e-9, 'front x');
+    // First contact: the front-left corner, 125·cos 10° + 75·sin 10° above the axle, travels along cos 10°
+    // until y 1200; the axle keeps its x from that moment (hand-derived plane geometry).
+    const travel = (1200 - 400 - 125 * Math.cos(10 * Math.PI / 180) - 75 * Math.sin(10 * Math.PI / 180)) / Math.cos(10 * Math.PI / 180);
+    near(front.distance, travel, 1e-9, 'front travel');
+    near(front.end.x, 500 + travel * Math.sin(10 * Math.PI / 180), 1e-9, 'front x');
     near(front.end.heading, 0, 1e-9, 'front heading');
     near(front.turned, -10, 1e-9, 'turned square');
     const back = segmentOn(r, 6);

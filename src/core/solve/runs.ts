@@ -3,7 +3,7 @@
 // walls, time limit, marks).
 import type {
   Diagnostic, DiagnosticCode, DriveStmt, MarkStmt, PathPiece, PlanSetup, Point, Pose, Range,
-  ResetYawStmt, RunResult, Segment, Severity, SquareStmt, StartStmt, TurnShape, TurnStmt, WaitStmt,
+  ResetYawStmt, RunResult, Segment, Severity, SquareStmt, StartStmt, TurnDirection, TurnShape, TurnStmt, WaitStmt,
 } from '../types';
 import { footprintOf, forwardVector, rightVector, rotatePose, wrapReading, type Footprint } from './frame';
 import { YawReadings } from './readings';
@@ -358,23 +358,32 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       const s = qm.stmt;
       const yawStart = reading(from);
       const out = squareUp(from, s.side, footprint, turns, walls);
+      const ahead = s.side === 'front' ? 'forwards' : 'backwards';
       if (!out) {
-        report(s.range, 'error', 'no-wall', `driving ${s.side === 'front' ? 'forwards' : 'backwards'} from here the robot meets no wall (no field edge or box side ahead), so it would drive on until stopped. Turn to face a wall first${setup.field ? '' : ', or declare the `field`'}.`);
+        report(s.range, 'error', 'no-wall', `Driving ${ahead} from here the robot meets no wall (no field edge or box side ahead), so it would drive on until stopped. Turn to face a wall first${setup.field ? '' : ', or declare the `field`'}.`);
         const seg = baseSegment(s.line, 'square', from, from, yawStart, yawStart);
         seg.complete = false;
         segments.push(seg);
         return from;
       }
-      if (out.offSquare > 30) {
-        report(s.range, 'error', 'no-wall', `the robot meets ${out.wall.label} ${fmt(out.offSquare, 0)}° off square (more than 30°): it will slide along it or twist instead of squaring up. Turn to face the wall more squarely first.`, { at: out.contact });
+      const wallName = out.wall.obstacle ? `"${out.wall.obstacle.name}"` : out.wall.label;
+      let end = out.end;
+      if (out.outcome === 'side') {
+        // A side of the footprint catches a corner first: the robot stops there, unsquared.
+        report(s.range, 'error', 'no-wall', `After ${fmt(out.travel, 0)} mm the side of the robot catches the corner of ${wallName} before its ${s.side} edge meets a wall: it will twist or stall instead of squaring up. Turn so the ${s.side} faces the wall, or start further from the corner.`, { at: out.contact });
+        end = out.atContact;
+      } else if (out.outcome === 'slips') {
+        report(s.range, 'error', 'no-wall', `The ${s.side} edge meets only the corner of ${wallName}: squared up there, the robot would not rest against it and would slip past. Line up with the wall so the ${s.side} edge meets its flat side.`, { at: out.contact });
+      } else if (out.offSquare > 30) {
+        report(s.range, 'error', 'no-wall', `The robot meets ${out.wall.label} ${fmt(out.offSquare, 0)}° off square (more than 30°): it will slide along it or twist instead of squaring up. Turn to face the wall more squarely first.`, { at: out.contact });
       }
-      const end = out.end;
       const turned = end.heading - from.heading;
       const seg = baseSegment(s.line, 'square', from, end, yawStart, wrapReading(yawStart + turned, lo));
       seg.turned = turned;
       seg.distance = out.travel;
-      const mid: Pose = { x: end.x, y: end.y, heading: from.heading };
-      seg.path = [{ type: 'line', from, to: mid }, { type: 'rotate', from: mid, to: end, center: { x: end.x, y: end.y }, turned }];
+      // The drive along the heading to the first contact, then the turn onto the wall there.
+      seg.path = [{ type: 'line', from, to: out.atContact }];
+      if (end !== out.atContact) seg.path.push(rigidMotion(out.atContact, end, turns));
       const vMax = fullSpeed();
       if (needWheel(s.keywordRange) && vMax !== undefined) {
         checkPower(qm.speed, s.optionRanges.speed ?? s.range, 'speed');
@@ -385,11 +394,29 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         seg.motorDeg = { left: wd * robot.gear!, right: wd * robot.gear! };
       }
       segments.push(seg);
-      // The wall squared against is meant to be touched, during the square and
-      // as the next move leaves it.
-      sweep(seg, s.range, 'drive', out.wall.obstacle ?? 'field');
-      const away = out.wall.normal;
-      squaredAgainst = { obstacle: out.wall.obstacle, away: out.wall.axis === 'x' ? { x: away, y: 0 } : { x: 0, y: away } };
+      // The drive to the wall is checked against everything but the box it
+      // meets (it touches it at the end); the turn onto the wall against
+      // everything but that wall (it presses against it).
+      const wallBox = out.wall.obstacle;
+      const others = wallBox ? setup.obstacles.filter((o) => o !== wallBox) : setup.obstacles;
+      const leaving = squaredAgainst;
+      squaredAgainst = undefined;
+      const seen = new Set<string>();
+      seg.path.forEach((piece, i) => {
+        const field = i > 0 && !wallBox ? undefined : setup.field;
+        for (const hit of sweepPiece(piece, footprint, turns, others, field)) {
+          if (leaving?.obstacle && hit.obstacle === leaving.obstacle && i === 0 &&
+            sweepPiece(shiftPiece(piece, leaving.away, CONTACT_CLEARANCE), footprint, turns, [hit.obstacle], undefined).length === 0) continue;
+          const key = hit.kind === 'field' ? 'field' : `o:${hit.obstacle?.name}`;
+          if (seen.has(key)) continue;
+          seen.add(key);
+          reportHit(hit, s.range, i === 0 ? 'the drive to the wall' : 'the turn onto the wall', seg, piece);
+        }
+      });
+      if (out.outcome !== 'side') {
+        const away = out.wall.normal;
+        squaredAgainst = { obstacle: out.wall.obstacle, away: out.wall.axis === 'x' ? { x: away, y: 0 } : { x: 0, y: away } };
+      }
       return end;
     }
 
@@ -538,6 +565,26 @@ function shiftPiece(piece: PathPiece, dir: Point, d: number): PathPiece {
   return piece.type === 'line'
     ? { type: 'line', from: move(piece.from), to: move(piece.to) }
     : { type: 'rotate', from: move(piece.from), to: move(piece.to), center: move(piece.center), turned: piece.turned };
+}
+
+/** The rigid motion taking one pose to another: a rotation about the point it leaves fixed, or a translation. */
+function rigidMotion(from: Pose, to: Pose, turns: TurnDirection): PathPiece {
+  const turned = to.heading - from.heading;
+  if (Math.abs(turned) < 1e-12) return { type: 'line', from, to };
+  // rotateAbout turns by a mathematical angle a; the fixed point c solves to − c = R(a)(from − c).
+  const a = (turns === 'clockwise' ? -1 : 1) * turned * RAD;
+  const cos = Math.cos(a);
+  const sin = Math.sin(a);
+  // (I − R) c = to − R from
+  const rx = to.x - (cos * from.x - sin * from.y);
+  const ry = to.y - (sin * from.x + cos * from.y);
+  const m11 = 1 - cos;
+  const m12 = sin;
+  const m21 = -sin;
+  const m22 = 1 - cos;
+  const det = m11 * m22 - m12 * m21;
+  const center = { x: (rx * m22 - m12 * ry) / det, y: (m11 * ry - m21 * rx) / det };
+  return { type: 'rotate', from, to, center, turned };
 }
 
 function describeShape(shape: string): string {

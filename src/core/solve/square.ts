@@ -1,5 +1,13 @@
-// `square front|back`: drive until the footprint's front (back) edge meets a
-// wall (a field edge or a box side), then end square to it.
+// `square front|back`: drive straight along the heading until the footprint
+// first touches a wall (a field edge or a box side), then turn square to it
+// there: heading on the wall's normal, the leading edge flush with the wall,
+// the axle midpoint's position along the wall as it was at the contact.
+//
+// First contact is exact: the translating footprint (a rectangle, or the
+// circle of diameter `track`) against every wall segment, both ways round
+// (each corner of the footprint against the segment; each end of the segment
+// against the footprint's edges), and for the circle the tangent to the
+// wall line and the circle meeting a segment's end.
 import type { Field, Obstacle, Point, Pose, TurnDirection } from '../types';
 import { footprintCorners, forwardVector, turnSign, type Footprint } from './frame';
 
@@ -40,73 +48,194 @@ export interface SquareOutcome {
   wall: Wall;
   /** Angle between the direction of travel and the wall's normal, degrees. */
   offSquare: number;
-  /** Distance driven before the edge meets the wall, mm. */
+  /** Distance driven before the footprint first touches the wall, mm. */
   travel: number;
   /** Where the robot first touches the wall. */
   contact: Point;
+  /** The pose at first contact (the heading of the start). */
+  atContact: Pose;
+  /** The squared pose. */
   end: Pose;
+  /**
+   * How it went: 'square' (the leading edge met the wall), 'side' (a side of
+   * the footprint met a box or field corner first: the robot catches it), or
+   * 'slips' (the leading edge met only a corner and, squared, would not rest
+   * on the wall's extent).
+   */
+  outcome: 'square' | 'side' | 'slips';
 }
 
-const along = (p: Point, axis: 'x' | 'y') => (axis === 'x' ? p.y : p.x);
-const across = (p: Point, axis: 'x' | 'y') => (axis === 'x' ? p.x : p.y);
+/** Relative tolerance of "the same moment" and "at a segment's end". */
+const EPS = 1e-9;
+const RAD = Math.PI / 180;
+
+interface Contact {
+  t: number;
+  point: Point;
+  wall: Wall;
+  /** The contact is at an end of the wall's segment (a corner). */
+  atEnd: boolean;
+  /** A leading corner or the leading edge of the footprint touches. */
+  leading: boolean;
+}
+
+const cross = (ax: number, ay: number, bx: number, by: number) => ax * by - ay * bx;
+
+function segmentOf(w: Wall): [Point, Point] {
+  return w.axis === 'x' ? [{ x: w.at, y: w.from }, { x: w.at, y: w.to }] : [{ x: w.from, y: w.at }, { x: w.to, y: w.at }];
+}
+
+/** The wall's normal as a vector (pointing to the side the robot comes from). */
+function normalOf(w: Wall): Point {
+  return w.axis === 'x' ? { x: w.normal, y: 0 } : { x: 0, y: w.normal };
+}
+
+/** First contact of a rectangle translating along m with a wall segment. */
+function rectContact(corners: Point[], leadingCorners: [number, number], m: Point, w: Wall): Contact | undefined {
+  const [a, b] = segmentOf(w);
+  const dx = b.x - a.x;
+  const dy = b.y - a.y;
+  const len = Math.hypot(dx, dy);
+  let best: Contact | undefined;
+  const consider = (c: Contact) => {
+    if (c.t < -1e-6 * Math.max(1, len)) return;
+    if (!best || c.t < best.t - EPS * Math.max(1, Math.abs(best.t)) ||
+      (Math.abs(c.t - best.t) <= EPS * Math.max(1, Math.abs(best.t)) && c.leading && !best.leading)) best = c;
+  };
+  // Each corner of the footprint against the segment.
+  const denom = cross(m.x, m.y, dx, dy);
+  if (Math.abs(denom) > EPS) {
+    corners.forEach((p, i) => {
+      const t = cross(a.x - p.x, a.y - p.y, dx, dy) / denom;
+      const s = cross(a.x - p.x, a.y - p.y, m.x, m.y) / denom;
+      if (s < -EPS || s > 1 + EPS) return;
+      consider({ t, point: { x: a.x + s * dx, y: a.y + s * dy }, wall: w, atEnd: s < EPS || s > 1 - EPS, leading: leadingCorners.includes(i) });
+    });
+  }
+  // Each end of the segment against the footprint's edges (moving the other way).
+  for (const q of [a, b]) {
+    for (let j = 0; j < 4; j++) {
+      const c0 = corners[j];
+      const c1 = corners[(j + 1) % 4];
+      const ex = c1.x - c0.x;
+      const ey = c1.y - c0.y;
+      const d = cross(-m.x, -m.y, ex, ey);
+      if (Math.abs(d) < EPS) continue;
+      const t = cross(c0.x - q.x, c0.y - q.y, ex, ey) / d;
+      const u = cross(c0.x - q.x, c0.y - q.y, -m.x, -m.y) / d;
+      if (u < -EPS || u > 1 + EPS) continue;
+      const leadingEdge = (j === leadingCorners[0] && (j + 1) % 4 === leadingCorners[1]) || (j === leadingCorners[1] && (j + 1) % 4 === leadingCorners[0]);
+      consider({ t, point: { x: q.x, y: q.y }, wall: w, atEnd: true, leading: leadingEdge });
+    }
+  }
+  return best;
+}
+
+/** First contact of a circle (centre p, radius r) translating along m with a wall segment. */
+function circleContact(p: Point, r: number, m: Point, w: Wall): Contact | undefined {
+  const [a, b] = segmentOf(w);
+  const n = normalOf(w);
+  let best: Contact | undefined;
+  const consider = (c: Contact) => {
+    if (c.t < -1e-6) return;
+    if (!best || c.t < best.t) best = c;
+  };
+  // Tangent to the wall line, with the touching point inside the segment.
+  const approach = -(m.x * n.x + m.y * n.y);
+  const d0 = (p.x - a.x) * n.x + (p.y - a.y) * n.y;
+  if (approach > EPS && d0 >= r - 1e-6) {
+    const t = (d0 - r) / approach;
+    const touch = { x: p.x + m.x * t - r * n.x, y: p.y + m.y * t - r * n.y };
+    const along = w.axis === 'x' ? touch.y : touch.x;
+    if (along >= w.from - 1e-9 && along <= w.to + 1e-9) consider({ t, point: touch, wall: w, atEnd: false, leading: true });
+  }
+  // The circle meeting an end of the segment: |p + m t − q| = r.
+  for (const q of [a, b]) {
+    const wx = p.x - q.x;
+    const wy = p.y - q.y;
+    const wm = wx * m.x + wy * m.y;
+    const disc = wm * wm - (wx * wx + wy * wy - r * r);
+    if (disc < 0) continue;
+    const t = -wm - Math.sqrt(disc);
+    consider({ t, point: { x: q.x, y: q.y }, wall: w, atEnd: true, leading: true });
+  }
+  return best;
+}
 
 /**
- * The first wall the footprint's leading edge meets when driving straight
- * forwards (`front`) or backwards (`back`), or undefined when none is met.
- * The end pose keeps the axle midpoint's position along the wall from the
- * start of the move, puts the edge flush with the wall and the heading on the
- * wall's normal.
+ * Drives straight forwards (`front`) or backwards (`back`) until the
+ * footprint first touches a wall; undefined when no wall lies ahead. At a
+ * corner (a contact at an end of a wall), the robot squares against the wall
+ * there that it drives into most squarely.
  */
 export function squareUp(
   pose: Pose, side: 'front' | 'back', fp: Footprint, turns: TurnDirection, walls: readonly Wall[],
 ): SquareOutcome | undefined {
   const f = forwardVector(pose.heading, turns);
   const m = side === 'front' ? f : { x: -f.x, y: -f.y }; // direction of travel
-  // Points of the footprint that lead, and how far ahead of the axle the edge sits.
-  let leading: Point[];
-  let edgeOffset: number;
-  if (fp.kind === 'rect') {
-    const c = footprintCorners(fp, pose, turns);
-    leading = side === 'front' ? [c[0], c[1]] : [c[2], c[3]];
-    edgeOffset = side === 'front' ? fp.length / 2 - fp.axle : fp.length / 2 + fp.axle;
-  } else {
-    leading = [{ x: pose.x + m.x * fp.radius, y: pose.y + m.y * fp.radius }];
-    edgeOffset = fp.radius;
-  }
-  let best: SquareOutcome | undefined;
+  const corners = fp.kind === 'rect' ? footprintCorners(fp, pose, turns) : [];
+  const leadingCorners: [number, number] = side === 'front' ? [0, 1] : [2, 3];
+
+  let first: Contact | undefined;
   for (const w of walls) {
-    const mn = w.axis === 'x' ? m.x : m.y; // travel along the wall's axis
-    if (mn * w.normal >= -1e-9) continue; // moving away from or parallel to this face
-    // The robot must come from the face's side.
-    if ((across(pose, w.axis) - w.at) * w.normal < -1e-6) continue;
-    let travel = Infinity;
-    let contact: Point | undefined;
-    for (const p of leading) {
-      const t = (w.at - across(p, w.axis)) / mn;
-      if (t < travel) {
-        travel = t;
-        contact = { x: p.x + m.x * t, y: p.y + m.y * t };
-      }
-    }
-    if (!contact || travel < -1e-6) continue;
-    // The leading edge must overlap the wall's extent when it arrives.
-    const span = leading.map((p) => along(p, w.axis) + (w.axis === 'x' ? m.y : m.x) * travel);
-    const lo = Math.min(...span) - (fp.kind === 'circle' ? fp.radius : 0);
-    const hi = Math.max(...span) + (fp.kind === 'circle' ? fp.radius : 0);
-    if (hi < w.from - 1e-6 || lo > w.to + 1e-6) continue;
-    if (best && travel >= best.travel) continue;
-    const offSquare = (Math.acos(Math.min(1, Math.abs(mn))) * 180) / Math.PI;
-    // Final heading: the nearest heading whose travel direction is -normal.
-    const targetTravel = w.axis === 'x' ? { x: -w.normal, y: 0 } : { x: 0, y: -w.normal };
-    const targetFacing = side === 'front' ? targetTravel : { x: -targetTravel.x, y: -targetTravel.y };
-    const s = turnSign(turns);
-    const facingHeading = (Math.atan2(s * targetFacing.x, targetFacing.y) * 180) / Math.PI;
-    const delta = ((((facingHeading - pose.heading) % 360) + 540) % 360) - 180;
-    const endAcross = w.at + w.normal * edgeOffset;
-    const end: Pose = w.axis === 'x'
-      ? { x: endAcross, y: pose.y, heading: pose.heading + delta }
-      : { x: pose.x, y: endAcross, heading: pose.heading + delta };
-    best = { wall: w, offSquare, travel: Math.max(0, travel), contact, end };
+    const n = normalOf(w);
+    if (m.x * n.x + m.y * n.y >= -EPS) continue; // moving away from or along this face: it cannot stop the robot
+    const c = fp.kind === 'rect' ? rectContact(corners, leadingCorners, m, w) : circleContact(pose, fp.radius, m, w);
+    if (!c) continue;
+    const tieBand = EPS * Math.max(1, Math.abs(first?.t ?? 0));
+    if (!first || c.t < first.t - tieBand || (Math.abs(c.t - first.t) <= tieBand && prefer(c, first, m))) first = c;
   }
-  return best;
+  if (!first) return undefined;
+
+  // At a corner, the wall there that faces the travel most squarely.
+  let wall = first.wall;
+  if (first.atEnd) {
+    const there = walls.filter((w) => w.obstacle === first!.wall.obstacle && touchesEnd(w, first!.point));
+    for (const w of there) if (facing(w, m) > facing(wall, m)) wall = w;
+  }
+  const travel = Math.max(0, first.t);
+  const atContact: Pose = { x: pose.x + m.x * travel, y: pose.y + m.y * travel, heading: pose.heading };
+  const offSquare = Math.acos(Math.min(1, Math.max(-1, facing(wall, m)))) / RAD;
+
+  // Squared: heading on the normal, the leading edge flush, the axle where it was along the wall.
+  const targetTravel = wall.axis === 'x' ? { x: -wall.normal, y: 0 } : { x: 0, y: -wall.normal };
+  const targetFacing = side === 'front' ? targetTravel : { x: -targetTravel.x, y: -targetTravel.y };
+  const s = turnSign(turns);
+  const facingHeading = (Math.atan2(s * targetFacing.x, targetFacing.y) * 180) / Math.PI;
+  const delta = ((((facingHeading - pose.heading) % 360) + 540) % 360) - 180;
+  const edgeOffset = fp.kind === 'rect' ? (side === 'front' ? fp.length / 2 - fp.axle : fp.length / 2 + fp.axle) : fp.radius;
+  const halfWidth = fp.kind === 'rect' ? fp.width / 2 : fp.radius;
+  const endAcross = wall.at + wall.normal * edgeOffset;
+  const end: Pose = wall.axis === 'x'
+    ? { x: endAcross, y: atContact.y, heading: pose.heading + delta }
+    : { x: atContact.x, y: endAcross, heading: pose.heading + delta };
+
+  let outcome: SquareOutcome['outcome'] = 'square';
+  if (!first.leading) outcome = 'side';
+  else {
+    // Squared, the leading edge must rest on the wall's extent.
+    const along = wall.axis === 'x' ? end.y : end.x;
+    if (along + halfWidth < wall.from - 1e-6 || along - halfWidth > wall.to + 1e-6) outcome = 'slips';
+  }
+  return { wall, offSquare, travel, contact: first.point, atContact, end, outcome };
+}
+
+/** cos of the angle between the travel and the wall's inward normal (1: straight into it). */
+function facing(w: Wall, m: Point): number {
+  const n = normalOf(w);
+  return -(m.x * n.x + m.y * n.y);
+}
+
+function touchesEnd(w: Wall, p: Point): boolean {
+  const across = w.axis === 'x' ? p.x : p.y;
+  const along = w.axis === 'x' ? p.y : p.x;
+  const tol = 1e-6 * Math.max(1, Math.abs(across), Math.abs(along));
+  return Math.abs(across - w.at) <= tol && (Math.abs(along - w.from) <= tol || Math.abs(along - w.to) <= tol);
+}
+
+/** Of two contacts at the same moment: the leading part, then a wall's inside over its end, then the squarer wall. */
+function prefer(a: Contact, b: Contact, m: Point): boolean {
+  if (a.leading !== b.leading) return a.leading;
+  if (a.atEnd !== b.atEnd) return !a.atEnd;
+  return facing(a.wall, m) > facing(b.wall, m);
 }
