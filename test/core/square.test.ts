@@ -1,6 +1,6 @@
 import { strict as assert } from 'node:assert';
 import Flatten from '@flatten-js/core';
-import { checkPlan, toJsonDocument } from '../../src/core';
+import { checkPlan, renderSvg, toJsonDocument } from '../../src/core';
 import type { CheckResult, Diagnostic, Point, Pose, Segment } from '../../src/core/types';
 import { footprintCorners, forwardVector } from '../../src/core/solve/frame';
 
@@ -261,5 +261,16 @@ describe('square: properties on random squares', () => {
       if (touchesCircle) assert.ok(circleHit, `plan ${i}: the drive crosses "C" but ${JSON.stringify(reported)}\n${lines.join('\n')}`);
     }
     assert.ok(squared > 200, `only ${squared} squares judged`);
+  });
+});
+
+describe('square: drawing', () => {
+  it('a nearly square approach keeps the drawing the size of the field (the turn onto the wall has no far-off centre)', () => {
+    const r = checkPlan(['wheel 56 mm', 'track 112 mm', 'body 150 by 190', 'field 2000 by 1500', 'start (1000, 700) heading 0.000001', 'square front'].join('\n'));
+    const svg = renderSvg(r, { standalone: true });
+    const [, , , w, h] = /viewBox="([-\d.]+) ([-\d.]+) ([\d.]+) ([\d.]+)"/.exec(svg)!.map(Number);
+    // The field is 2000 × 1500 mm; a margin for labels is common practice, no published source.
+    assert.ok(w < 4000 && h < 4000, `viewBox ${w} × ${h}`);
+    assert.doesNotMatch(svg, /class="center"/);
   });
 });

@@ -206,8 +206,9 @@ function contentBounds(result: CheckResult, runs: IndexedRun[], diagnostics: Pla
       for (const piece of seg.path) {
         b.add(piece.from.x, piece.from.y);
         b.add(piece.to.x, piece.to.y);
-        // The whole circle holds the arc; a little slack in the view is harmless.
-        if (piece.type === 'rotate') b.addAround(piece.center, distance(piece.center, piece.from));
+        // The whole circle holds the arc; a little slack in the view is harmless. A square's
+        // turn onto the wall is short and its centre may lie far off: its ends suffice.
+        if (piece.type === 'rotate' && seg.kind !== 'square') b.addAround(piece.center, distance(piece.center, piece.from));
       }
     }
   }
@@ -580,7 +581,7 @@ function drawAnnotations(out: string[], d: Drawing, run: RunResult, runIndex: nu
   segs.forEach((seg, i) => {
     const attrs = segmentAttrs(seg, runIndex, i);
     for (const piece of seg.path) {
-      if (piece.type !== 'rotate' || !finitePiece(piece)) continue;
+      if (piece.type !== 'rotate' || !finitePiece(piece) || seg.kind === 'square') continue;
       if (distance(piece.center, piece.from) >= SPIN_RADIUS) {
         const s = 4 * px;
         const c = piece.center;

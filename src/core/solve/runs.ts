@@ -584,6 +584,8 @@ function rigidMotion(from: Pose, to: Pose, turns: TurnDirection): PathPiece {
   const m22 = 1 - cos;
   const det = m11 * m22 - m12 * m21;
   const center = { x: (rx * m22 - m12 * ry) / det, y: (m11 * ry - m21 * rx) / det };
+  // A hair of a turn has its fixed point far away: sweep it as the slide it nearly is.
+  if (!Number.isFinite(center.x) || !Number.isFinite(center.y) || Math.hypot(center.x - from.x, center.y - from.y) > 1e5) return { type: 'line', from, to };
   return { type: 'rotate', from, to, center, turned };
 }
 
