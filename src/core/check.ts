@@ -14,6 +14,7 @@ import {
 } from './units/evaluate';
 import { solveRuns, type EvaluatedMotion, type RunInput } from './solve/runs';
 import { attachFixes } from './fix/candidates';
+import { showText } from './text';
 
 export interface CheckOptions {
   /** Used for the default plan title. */
@@ -29,6 +30,26 @@ export const MAX_PLAN_CHARS = 2_000_000;
 
 const defaultCache = new ExpressionCache();
 
+/** "Did you mean" suggestions per check. */
+const MAX_NAME_SUGGESTIONS = 50;
+
+/**
+ * The largest magnitude of each kind of value a plan may write: far beyond
+ * any small robot's run (a field is a few metres, a run a few minutes), and
+ * small enough that nothing downstream (drawing, sweeping, timing) can be
+ * made to run away.
+ */
+const MAGNITUDE_LIMITS: Record<Dimension, { max: number; why?: string }> = {
+  length: { max: 1e6, why: 'one kilometre' },
+  angle: { max: 3600, why: 'ten full turns' },
+  time: { max: 1e5, why: 'more than a day' },
+  speed: { max: 1e5, why: '100 m/s' },
+  angularSpeed: { max: 1e6 },
+  acceleration: { max: 1e7 },
+  fraction: { max: 100 },
+  number: { max: 1e6 },
+};
+
 export const DEFAULTS = {
   yawRange: { lo: -180, hi: 180 },
   gear: 1,
@@ -38,7 +59,23 @@ export const DEFAULTS = {
   grid: 100,
 } as const;
 
+/** The start of the one diagnostic a check gives when Veer itself fails (never on the fuzz corpus: a test says so). */
+export const INTERNAL_FAILURE = 'Veer could not check this plan: an internal error';
+
+/**
+ * Checks a plan. Never throws: whatever the text, the answer is a result, in
+ * the worst case one diagnostic saying Veer itself failed.
+ */
 export function checkPlan(text: string, options: CheckOptions = {}): CheckResult {
+  try {
+    return checkPlanUnguarded(String(text), options);
+  } catch (e) {
+    const detail = e instanceof Error ? `${e.name}: ${e.message}` : String(e);
+    return emptyResult(`${INTERNAL_FAILURE} (${showText(detail, 120)}). The rest of the editor keeps working; please report this with the plan attached.`);
+  }
+}
+
+function checkPlanUnguarded(text: string, options: CheckOptions): CheckResult {
   const cache = options.cache ?? defaultCache;
   if (text.length > MAX_PLAN_CHARS) return refuseTooLarge(text);
   const { ast, diagnostics: parseDiagnostics } = parsePlan(text);
@@ -72,16 +109,28 @@ export function checkPlan(text: string, options: CheckOptions = {}): CheckResult
   const ctx: EvalContext = { lengthUnit, scope: new Map(), memo: new Map() };
   const values: EvaluatedExpr[] = [];
   const names: Record<string, NameInfo> = {};
+  let suggestionsLeft = MAX_NAME_SUGGESTIONS;
+  let nameList: string[] | undefined;
   const evFull = (expr: ExprNode | undefined, expected: Expected): { value: number; dimension: Dimension } | undefined => {
     if (!expr) return undefined;
     const out = evaluateExpr(cache, expr.text, expected, ctx);
     if (out.ok) {
-      values.push({ range: expr.range, value: out.value, dimension: out.dimension, display: displayValue(out.value, out.dimension, lengthUnit) });
+      const display = displayValue(out.value, out.dimension, lengthUnit);
+      const bound = MAGNITUDE_LIMITS[out.dimension];
+      if (Math.abs(out.value) > bound.max) {
+        report(expr.range, 'error', 'setup', `${display} is far beyond anything a small robot's plan can mean (the limit is ${displayValue(bound.max, out.dimension, lengthUnit)}${bound.why ? `, ${bound.why}` : ''}): check the value and its unit.`);
+        return undefined;
+      }
+      values.push({ range: expr.range, value: out.value, dimension: out.dimension, display });
       return out;
     }
     const d = report(narrowTo(expr, out.name), 'error', out.code, out.message);
-    if (out.code === 'name' && out.name && !out.message.startsWith('the function')) {
-      const guess = suggestWord(out.name, Object.keys(names));
+    if (out.code === 'name' && out.name && !out.message.startsWith('the function') && suggestionsLeft > 0) {
+      // Each suggestion compares the name with every bound one: a plan full of
+      // unknown names gets the first few, not a search that grows with the square of its size.
+      suggestionsLeft--;
+      nameList ??= Object.keys(names);
+      const guess = suggestWord(out.name, nameList);
       if (guess) {
         d.message += `: did you mean \`${guess}\`?`;
         d.fixes = [{ title: `Change to \`${guess}\``, edits: [{ range: d.range, newText: guess }], preferred: true }];
@@ -149,7 +198,10 @@ export function checkPlan(text: string, options: CheckOptions = {}): CheckResult
       case 'wheel': {
         if (!once('wheel', s, 'The wheel diameter')) break;
         const d = ev(s.diameter, 'length');
-        if (d !== undefined && positive(d, s.diameter, 'the wheel diameter', 'wheel 56 mm')) robot.wheelDiameter = d;
+        if (d !== undefined && positive(d, s.diameter, 'the wheel diameter', 'wheel 56 mm')) {
+          if (d < 1 || d > 2000) report(s.diameter.range, 'error', 'setup', `a wheel of ${fmt(d, 3)} mm across is not a small robot's wheel: wheel and motor degrees and times would be meaningless. Measure the wheel (a ruler across it, in mm), e.g. \`wheel 56 mm\`.`);
+          else robot.wheelDiameter = d;
+        }
         setupLines.wheelDiameter = s.line;
         break;
       }
@@ -263,6 +315,7 @@ export function checkPlan(text: string, options: CheckOptions = {}): CheckResult
         // Evaluate as whatever it is (any dimension), then bind the raw value.
         const raw = anyValue(s.value, ev, cache, ctx);
         if (bindable) {
+          nameList = undefined;
           names[s.name] = { line: s.line, range: s.nameRange, ...raw.info, display: raw.info?.display ?? '?' };
           if (raw.value !== undefined) ctx.scope.set(s.name, raw.value);
         }
@@ -301,7 +354,10 @@ export function checkPlan(text: string, options: CheckOptions = {}): CheckResult
 }
 
 function refuseTooLarge(text: string): CheckResult {
-  const message = `this file has ${(text.length / 1e6).toFixed(1)} million characters, more than the ${MAX_PLAN_CHARS / 1e6} million a plan may have; it was not checked. Split it into several plans.`;
+  return emptyResult(`this file has ${(text.length / 1e6).toFixed(1)} million characters, more than the ${MAX_PLAN_CHARS / 1e6} million a plan may have; it was not checked. Split it into several plans.`);
+}
+
+function emptyResult(message: string): CheckResult {
   const range = { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } };
   return {
     ast: { statements: [], lineCount: 0 },

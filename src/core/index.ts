@@ -1,7 +1,7 @@
 // The public surface of the Veer core. Pure: text in, plain data out.
 export * from './types';
 export { parsePlan } from './syntax/parser';
-export { checkPlan, MAX_PLAN_CHARS, type CheckOptions } from './check';
+export { checkPlan, MAX_PLAN_CHARS, INTERNAL_FAILURE, type CheckOptions } from './check';
 export * from './report';
 export { renderSvg, type RenderOptions } from './render/svg';
 export { ExpressionCache } from './units/evaluate';

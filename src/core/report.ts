@@ -126,5 +126,5 @@ export function diagnosticLine(file: string, d: Diagnostic): string {
 /** One line per run: distance, time, turns, wrap crossings. */
 export function runSummaryLine(r: RunResult): string {
   const m = r.distance / 1000;
-  return `run "${r.name}": ${m.toFixed(2)} m, ${r.duration.toFixed(1)} s, ${r.turns} turn${r.turns === 1 ? '' : 's'}, ${r.wrapCrossings} wrap crossing${r.wrapCrossings === 1 ? '' : 's'}`;
+  return `run "${r.name}": ${m.toFixed(2)} m, ${Number.isFinite(r.duration) ? `${r.duration.toFixed(1)} s` : 'time unknown (see the errors)'}, ${r.turns} turn${r.turns === 1 ? '' : 's'}, ${r.wrapCrossings} wrap crossing${r.wrapCrossings === 1 ? '' : 's'}`;
 }

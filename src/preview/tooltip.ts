@@ -20,6 +20,6 @@ export function tooltipLines(seg: SegmentSummary): string[] {
     `yaw reading ${fixed(seg.yawEnd, 1)}°`,
   ];
   if (seg.motorDeg) lines.push(`motors L ${fixed(seg.motorDeg.left, 1)}°, R ${fixed(seg.motorDeg.right, 1)}°`);
-  lines.push(`time ${fixed(seg.duration, 2)} s`);
+  lines.push(Number.isFinite(seg.duration) ? `time ${fixed(seg.duration, 2)} s` : 'time unknown');
   return lines;
 }

@@ -34,7 +34,7 @@ function texts(node: Record<string, unknown>, ...keys: string[]): (string | unde
 
 /** Checks the contract the editor relies on: every range inside the document and ordered. */
 function assertRangesValid(text: string, result: ReturnType<typeof parsePlan>): void {
-  const lines = text.split('\n').map((line) => line.replace(/\r$/, ''));
+  const lines = text.split(/\r\n|\r|\n/); // \n, \r\n and a lone \r end a line, as in the editor
   assert.equal(result.ast.lineCount, lines.length);
   const check = (range: Range, what: string): void => {
     for (const pos of [range.start, range.end]) {
@@ -259,6 +259,14 @@ describe('parsePlan', () => {
       // `"Ⅱ😀"`: quote, one unit for Ⅱ, two for the emoji, quote: columns 5..10
       assert.deepEqual(mark.name.range, span(0, 5, 10));
       assert.deepEqual(mark.inZone?.range, span(0, 14, 20)); // `"dock"` after ` in `
+    });
+
+    it('reads a lone CR as a line end (old Mac files), as the editor does', () => {
+      const { ast, diagnostics } = parsePlan('units mm\rwheel 62 mm\r\rwait 1 s');
+      assert.deepEqual(diagnostics, []);
+      assert.equal(ast.lineCount, 4);
+      assert.deepEqual(ast.statements.map((s) => s.line), [0, 1, 3]);
+      assert.deepEqual(ast.statements[1].range, span(1, 0, 11));
     });
 
     it('keeps line numbers and columns right with CRLF line ends', () => {

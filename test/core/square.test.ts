@@ -19,7 +19,7 @@ interface Body { width: number; length: number; axle: number }
 interface WallSegment { a: Point; b: Point }
 
 function rectAt(body: Body, pose: Pose, turns: 'clockwise' | 'counterclockwise' = 'clockwise'): Flatten.Polygon {
-  const c = footprintCorners({ kind: 'rect', ...body }, pose, turns);
+  const c = footprintCorners(body, pose, turns);
   return new Flatten.Polygon(c.map((p) => new Flatten.Point(p.x, p.y)));
 }
 
@@ -249,7 +249,7 @@ describe('square: properties on random squares', () => {
           const [d] = (shape as Flatten.Polygon).distanceTo(boxShape);
           const inside = boxShape.contains(new Flatten.Point(at.x, at.y));
           assert.ok(d > 1e-12 && !inside, `plan ${i}: touches the box before contact at t = ${t} (d = ${d})`);
-          const pts = useBody ? footprintCorners({ kind: 'rect', ...body }, at, 'clockwise') : [{ x: at.x - 56, y: at.y - 56 }, { x: at.x + 56, y: at.y + 56 }];
+          const pts = useBody ? footprintCorners(body, at, 'clockwise') : [{ x: at.x - 56, y: at.y - 56 }, { x: at.x + 56, y: at.y + 56 }];
           assert.ok(pts.every((p) => p.x > 0 && p.x < 3000 && p.y > 0 && p.y < 2500), `plan ${i}: leaves the field before contact at t = ${t}`);
         }
         const circle = new Flatten.Circle(new Flatten.Point(cx, cy), 40);

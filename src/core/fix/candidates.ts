@@ -42,7 +42,7 @@ class FixContext {
       if (s.kind === 'start' || s.kind === 'drive' || s.kind === 'turn' || s.kind === 'resetYaw' || s.kind === 'square' || s.kind === 'wait' || s.kind === 'mark') this.stmts.set(s.line, s);
     }
     for (const run of result.runs) run.segments.forEach((seg, index) => { if (!this.where.has(seg.line)) this.where.set(seg.line, { run, index }); });
-    this.lines = text.split('\n').map((l) => l.replace(/\r$/, ''));
+    this.lines = text.split(/\r\n|\r|\n/);
     this.eol = lineEndOf(text);
     this.yaw = new YawReadings(result.setup.yawRange.lo, result.setup.yawRange.hi);
     this.reported = new Set(result.diagnostics.filter((d) => d.code === 'wrap-cross').map((d) => d.range.start.line));

@@ -1,13 +1,10 @@
 // Text edits on a plan: applying them, and following a line through them.
 import type { Pos, TextEdit } from '../types';
 import { fmt } from '../units/evaluate';
+import { lineStartOffsets } from '../text';
 
-/** Line start offsets (lines end in \n or \r\n, as the parser reads them). */
-function lineStarts(text: string): number[] {
-  const starts = [0];
-  for (let i = 0; i < text.length; i++) if (text.charCodeAt(i) === 10) starts.push(i + 1);
-  return starts;
-}
+/** Line start offsets (lines end in \n, \r\n or \r, as the parser reads them). */
+const lineStarts = lineStartOffsets;
 
 /** Applies non-overlapping edits (positions in the original text); the last first, so offsets stay valid. */
 export function applyEdits(text: string, edits: readonly TextEdit[]): string {
@@ -27,7 +24,7 @@ export function applyEdits(text: string, edits: readonly TextEdit[]): string {
 export function lineMapper(edits: readonly TextEdit[]): (line: number) => number {
   const shifts = edits.map((e) => ({
     endLine: e.range.end.line,
-    delta: (e.newText.match(/\n/g)?.length ?? 0) - (e.range.end.line - e.range.start.line),
+    delta: (e.newText.match(/\r\n|\r|\n/g)?.length ?? 0) - (e.range.end.line - e.range.start.line),
   }));
   return (line: number) => {
     let moved = line;
@@ -50,5 +47,6 @@ export function insertLinesBefore(line: number, lines: string[], eol = '\n'): Te
 export function lineEndOf(text: string): string {
   const crlf = text.split('\r\n').length - 1;
   const lf = text.split('\n').length - 1 - crlf;
-  return crlf > lf ? '\r\n' : '\n';
+  const cr = text.split('\r').length - 1 - crlf;
+  return crlf > lf && crlf >= cr ? '\r\n' : cr > lf ? '\r' : '\n';
 }

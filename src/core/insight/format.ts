@@ -23,7 +23,7 @@ export function formatAngle(deg: number): string {
 }
 
 export function formatTime(seconds: number): string {
-  return `${formatNumber(seconds, 2)} s`;
+  return Number.isFinite(seconds) ? `${formatNumber(seconds, 2)} s` : 'unknown time';
 }
 
 /**

@@ -161,13 +161,14 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       fixedYaw.settle(pose.heading);
     }
 
-    const duration = segments.reduce((t, sg) => t + (Number.isFinite(sg.duration) ? sg.duration : 0), 0);
+    // A motion whose time cannot be computed has an error of its own; the run's total is then unknown (Infinity), never short.
+    const duration = segments.reduce((t, sg) => t + sg.duration, 0);
     const distance = segments.reduce((t, sg) => t + sg.distance, 0);
     const result: RunResult = {
       name: input.name, line: input.line, range: input.range, segments, duration, distance,
       turns: segments.filter((sg) => sg.kind === 'turn').length, wrapCrossings,
     };
-    if (setup.limit !== undefined && duration > setup.limit) {
+    if (setup.limit !== undefined && Number.isFinite(duration) && duration > setup.limit) {
       report(input.range, 'warning', 'over-time',
         `the run "${input.name}" takes about ${fmt(duration, 1)} s, over the ${fmt(setup.limit, 1)} s limit by ${fmt(duration - setup.limit, 1)} s: raise speeds, add ramps to long drives, or drop a task.`);
     }
@@ -221,13 +222,15 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         if (dm.speed === undefined) v = MOTION_DEFAULTS.drivePower * vMax;
         else if (dm.speedIsLinear) {
           v = dm.speed;
+          if (v <= 0) report(s.optionRanges.speed ?? s.range, 'error', 'setup', `a speed of ${fmt(v)} mm/s would not move the robot${v < 0 ? ' (to drive backwards, make the distance negative)' : ''}: use a speed above 0, e.g. \`speed 300 mm/s\`.`);
           if (v > vMax) report(s.optionRanges.speed ?? s.range, 'error', 'setup', `${fmt(v)} mm/s is faster than the wheels can go at full power (${fmt(vMax)} mm/s with these motors, gear and wheels); lower the speed.`);
         } else {
           v = dm.speed * vMax;
           checkPower(dm.speed, s.optionRanges.speed ?? s.range, 'speed');
         }
         if (dm.ramp !== undefined && dm.ramp <= 0) report(s.optionRanges.ramp ?? s.range, 'error', 'setup', 'a ramp is an acceleration and must be greater than zero, e.g. `ramp 800 mm/s^2`.');
-        seg.duration = v > 0 ? profileTime(dist, Math.min(v, vMax), dm.ramp) : 0;
+        seg.duration = v > 0 ? profileTime(dist, Math.min(v, vMax), dm.ramp) : dist === 0 ? 0 : Infinity;
+        if (v > 0 && !Number.isFinite(seg.duration)) report(s.keywordRange, 'error', 'setup', 'The time of this drive cannot be computed (it would take for ever): check the speed, the ramp, the motor and the wheel.');
         if (turned !== 0) seg.duration += Math.abs(turned) * RAD * ((robot.track ?? 0) / 2) / Math.max(v, 1e-9);
       } else seg.complete = false;
       if (s.gain && dm.gain !== undefined && dm.gain <= 0) report(s.optionRanges.gain ?? s.range, 'error', 'setup', 'the gain must be greater than zero.');
@@ -263,12 +266,17 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       if (gyro) {
         checkPower(tm.speed, s.optionRanges.speed ?? s.range, 'speed');
         if (tm.min !== undefined && tm.min < 0) report(s.optionRanges.min ?? s.range, 'error', 'setup', 'the minimum power cannot be negative.');
+        if (tm.min !== undefined && tm.min > 1) report(s.optionRanges.min ?? s.range, 'error', 'setup', `a minimum power of ${fmt(tm.min * 100)} % is more than full power; the motors top out at 100 %.`);
+        if (tm.gain !== undefined && tm.gain <= 0) report(s.optionRanges.gain ?? s.range, 'error', 'setup', `a gain of ${fmt(tm.gain)} would ${tm.gain < 0 ? 'turn the robot away from its target' : 'never turn the robot'}: the gain is the % power per degree of error and must be above 0, e.g. \`gain 1\`.`);
       }
       if (tm.speed !== undefined && !gyro) checkPower(tm.speed, s.optionRanges.speed ?? s.range, 'speed');
       const top = tm.speed ?? MOTION_DEFAULTS.turnPower;
       const min = tm.min ?? MOTION_DEFAULTS.turnMin;
       if (min > top) report(s.optionRanges.min ?? s.range, 'error', 'setup', `the minimum power ${fmt(min * 100)} % is above the top power ${fmt(top * 100)} %: the controller could never slow down. Lower \`min\` or raise \`speed\`.`);
       if (tm.stop !== undefined && tm.stop <= 0) report(s.optionRanges.stop ?? s.range, 'error', 'setup', 'the stop band must be greater than zero, e.g. `stop 1 deg`: the reading never equals the target exactly.');
+      else if (gyro && tm.stop !== undefined && Math.abs(turned) > 0 && tm.stop >= Math.abs(turned)) {
+        report(s.optionRanges.stop ?? s.range, 'error', 'setup', `The robot would not turn at all: it stops once the reading is within ${fmt(tm.stop)}° of the target, and it starts ${fmt(Math.abs(turned))}° away. Use a stop band of a degree or two, e.g. \`stop 1 deg\`.`);
+      }
 
       // Shape: the centre of rotation's offset to the robot's right (robot frame).
       const W = robot.track;
@@ -344,7 +352,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
           const outerCommanded = Math.max(Math.abs(te.left), Math.abs(te.right));
           seg.duration = encoderTurnTime(outerCommanded, top * vMax, Math.max(min, 1e-3) * vMax, s.ramp);
         }
-        if (!Number.isFinite(seg.duration)) seg.duration = 0;
+        if (!Number.isFinite(seg.duration)) report(s.keywordRange, 'error', 'setup', 'The time of this turn cannot be computed (it would take for ever): check the speeds, the motor and the wheel.');
       } else {
         if (W === undefined) needTrack(s.keywordRange);
         seg.complete = false;
@@ -422,6 +430,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
 
     function checkMark(mm: Extract<EvaluatedMotion, { stmt: MarkStmt }>, p: Pose) {
       const s = mm.stmt;
+      if (mm.within !== undefined && mm.within <= 0) report(s.optionRanges.within ?? s.range, 'error', 'setup', `a mark allows a miss of more than 0 mm: \`within ${fmt(mm.within)}\` could never be met. Use e.g. \`within 20 mm\`.`);
       const within = mm.within ?? MOTION_DEFAULTS.markWithin;
       if (mm.at) {
         const miss = Math.hypot(p.x - mm.at.x, p.y - mm.at.y);

@@ -10,7 +10,13 @@ import type {
   TurnsStmt, UnitsStmt, WaitStmt, WheelStmt, WordNode, YawRangeStmt, ZoneStmt,
 } from '../types';
 import { lexLine, type Token } from './lexer';
+import { invisibleIn, nextLineBreak, showText } from '../text';
 import { OPTIONS, STATEMENT_KEYWORDS, suggestWord } from './keywords';
+
+/** Longest `let` name. */
+export const MAX_IDENT_CHARS = 64;
+/** Longest title or name in quotes. */
+export const MAX_NAME_CHARS = 120;
 
 export function parsePlan(text: string): { ast: PlanAst; diagnostics: Diagnostic[] } {
   const document = String(text);
@@ -21,10 +27,8 @@ export function parsePlan(text: string): { ast: PlanAst; diagnostics: Diagnostic
   let lineStart = 0;
   // Lines are cut one at a time so that a large file is not held twice.
   for (;;) {
-    const lineBreak = document.indexOf('\n', lineStart);
-    const lineEnd = lineBreak === -1 ? document.length : lineBreak;
-    const contentEnd = lineEnd > lineStart && document.charCodeAt(lineEnd - 1) === 0x0d ? lineEnd - 1 : lineEnd;
-    const source = document.slice(lineStart, contentEnd);
+    const lineBreak = nextLineBreak(document, lineStart);
+    const source = document.slice(lineStart, lineBreak ? lineBreak.end : document.length);
     try {
       const statement = parseLine(lineIndex, source, letNames);
       if (statement) {
@@ -34,8 +38,8 @@ export function parsePlan(text: string): { ast: PlanAst; diagnostics: Diagnostic
     } catch (problem) {
       diagnostics.push(toDiagnostic(problem, lineIndex, source));
     }
-    if (lineBreak === -1) break;
-    lineStart = lineBreak + 1;
+    if (!lineBreak) break;
+    lineStart = lineBreak.next;
     lineIndex++;
   }
   return { ast: { statements, lineCount: lineIndex + 1 }, diagnostics };
@@ -390,6 +394,10 @@ class LineReader {
   private let(keyword: Token): LetStmt {
     const name = this.peek();
     if (!name || name.kind !== 'ident') return this.fail(name ?? keyword, NEEDS.let);
+    if (!/^[A-Za-z_][A-Za-z0-9_]*$/.test(name.text)) {
+      this.fail(name, `\`${abbreviate(name.text)}\` cannot be a name: a name is made of the letters a to z and A to Z, the digits 0 to 9 and \`_\`, and does not start with a digit (e.g. \`lane_2\`)`);
+    }
+    if (name.text.length > MAX_IDENT_CHARS) this.fail(name, `a name may have at most ${MAX_IDENT_CHARS} characters (this one has ${name.text.length}): shorten it`);
     this.pos++;
     const equals = this.peek();
     if (!equals || equals.text !== '=') {
@@ -532,7 +540,11 @@ class LineReader {
     const token = this.peek();
     if (!token || token.kind !== 'string') return this.fail(token ?? this.tokens[this.pos - 1], message);
     this.pos++;
-    return { kind: 'string', value: token.value ?? '', range: this.range(token.start, token.end) };
+    const value = token.value ?? '';
+    const hidden = invisibleIn(value);
+    if (hidden) this.fail(token, `this name holds an invisible character (${hidden}), so it cannot be told apart from a name without it: delete that character`);
+    if (value.length > MAX_NAME_CHARS) this.fail(token, `a name or title may have at most ${MAX_NAME_CHARS} characters (this one has ${value.length}): shorten it`);
+    return { kind: 'string', value, range: this.range(token.start, token.end) };
   }
 
   private word(words: readonly string[], message: Message): WordNode {
@@ -725,5 +737,5 @@ function copyExprs<F extends object>(fields: F, options: Map<string, OptionResul
 
 /** Keeps messages readable when the offending text is a whole line of junk. */
 function abbreviate(text: string): string {
-  return text.length > 40 ? `${text.slice(0, 37)}...` : text;
+  return showText(text, 40);
 }

@@ -3,6 +3,7 @@
 // changed.
 import { create, all, type MathNode, type EvalFunction, type Unit } from 'mathjs';
 import type { Dimension, LengthUnitName } from '../types';
+import { showText } from '../text';
 
 type MathInstance = ReturnType<typeof create>;
 
@@ -103,26 +104,62 @@ export class ExpressionCache {
   }
 }
 
+/** Longest expression a plan may write; far beyond any real one, short enough that nothing deep or slow can hide in it. */
+export const MAX_EXPRESSION_CHARS = 400;
+/** Deepest nesting of parentheses. */
+export const MAX_EXPRESSION_DEPTH = 24;
+
+/**
+ * What a plan may compute: numbers, units, arithmetic and scalar functions.
+ * Everything else math.js offers (matrices, ranges, random numbers, strings,
+ * objects, settings, parsing) is refused before anything runs, so no
+ * expression can change another check or cost more than a few microseconds.
+ */
+const ALLOWED_FUNCTIONS = new Set([
+  'abs', 'sqrt', 'cbrt', 'exp', 'log', 'log10', 'log2', 'log1p', 'expm1', 'square', 'cube', 'pow', 'nthRoot', 'hypot',
+  'sin', 'cos', 'tan', 'sec', 'csc', 'cot', 'asin', 'acos', 'atan', 'atan2', 'sinh', 'cosh', 'tanh', 'asinh', 'acosh', 'atanh',
+  'min', 'max', 'round', 'floor', 'ceil', 'fix', 'sign', 'mod',
+]);
+const ALLOWED_CONSTANTS = new Set(['pi', 'e', 'tau', 'phi']);
+const ALLOWED_OPERATORS = new Set(['add', 'subtract', 'multiply', 'divide', 'pow', 'unaryMinus', 'unaryPlus', 'mod', 'to']);
+const MAX_ARGUMENTS = 16;
+
+/** Why an expression's text is refused before it is parsed, or undefined. */
+function refuseText(text: string): string | undefined {
+  if (text.length > MAX_EXPRESSION_CHARS) {
+    return `this expression has ${text.length} characters; a plan's expressions may have at most ${MAX_EXPRESSION_CHARS}: bind parts of it with \`let\``;
+  }
+  if (text.includes(';')) return '`;` cannot separate values: a plan line holds one statement, with one value per option';
+  let depth = 0;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === 40 || c === 91 || c === 123) {
+      if (++depth > MAX_EXPRESSION_DEPTH) return `parentheses nest more than ${MAX_EXPRESSION_DEPTH} deep: bind parts of the expression with \`let\``;
+    } else if (c === 41 || c === 93 || c === 125) depth--;
+  }
+  return undefined;
+}
+
 function compileExpression(text: string): Compiled | CompileError {
   const { math, parseExpression } = getSandbox();
+  const refused = refuseText(text);
+  if (refused) return { ok: false, message: refused };
   let node: MathNode;
   try {
     node = parseExpression(text);
   } catch (e) {
     return { ok: false, message: (e as Error).message };
   }
+  const notAllowed = disallowed(node, math);
+  if (notAllowed) return { ok: false, message: notAllowed };
   const freeNames = new Set<string>();
   // Names written right after a number (`10 furlongs`): read as units.
   const unitLike = new Set<string>();
   let percent = false;
-  let forbidden: string | undefined;
   // `min` is a function and a unit: where it is not called, it is the unit
   // (so `deg/min` works).
   const transformed = node.transform((n: MathNode, path: string) => {
     if ((n as { isPercentage?: boolean }).isPercentage) percent = true;
-    if (n.type === 'AssignmentNode' || n.type === 'FunctionAssignmentNode' || n.type === 'BlockNode') {
-      forbidden = 'assignments';
-    }
     if (n.type === 'OperatorNode') {
       const op = n as unknown as { implicit?: boolean; fn: string; args: MathNode[] };
       if (op.implicit && op.fn === 'multiply' && op.args[0]?.type === 'ConstantNode' && op.args[1]?.type === 'SymbolNode') {
@@ -138,11 +175,74 @@ function compileExpression(text: string): Compiled | CompileError {
     }
     return n;
   });
-  if (forbidden) return { ok: false, message: `${forbidden} are not allowed in an expression; use \`let NAME = value\`` };
   try {
     return { ok: true, code: transformed.compile(), freeNames: [...freeNames], unitLike: [...unitLike], percent };
   } catch (e) {
     return { ok: false, message: (e as Error).message };
+  }
+}
+
+/** Walks the parsed expression: the first thing a plan may not compute, in words, or undefined. */
+function disallowed(root: MathNode, math: MathInstance): string | undefined {
+  let problem: string | undefined;
+  const mathNames = math as unknown as Record<string, unknown>;
+  root.traverse((n: MathNode, path: string) => {
+    if (problem) return;
+    switch (n.type) {
+      case 'ConstantNode':
+        if (typeof (n as unknown as { value: unknown }).value !== 'number') problem = 'only numbers and units can be written here (no text in quotes)';
+        return;
+      case 'ParenthesisNode':
+        return;
+      case 'SymbolNode': {
+        if (path === 'fn') return; // checked with its FunctionNode
+        const name = (n as unknown as { name: string }).name;
+        if (isUnitName(name) || ALLOWED_CONSTANTS.has(name)) return;
+        if (ALLOWED_FUNCTIONS.has(name)) problem = `\`${name}\` is a function: give it a value, e.g. \`${name}(30 deg)\``;
+        else if (name in mathNames) problem = `\`${name}\` is not available in plan files: an expression may use numbers, units, names bound with \`let\`, arithmetic and ${FUNCTION_LIST}`;
+        return;
+      }
+      case 'OperatorNode': {
+        const op = n as unknown as { fn: string; op: string; isPercentage?: boolean; args: MathNode[] };
+        if (op.isPercentage) return;
+        if (!ALLOWED_OPERATORS.has(op.fn)) problem = `the operator \`${op.op}\` is not available in plan files: use + - * / ^ and parentheses`;
+        return;
+      }
+      case 'FunctionNode': {
+        const fn = n as unknown as { fn: MathNode; args: MathNode[] };
+        const name = fn.fn.type === 'SymbolNode' ? (fn.fn as unknown as { name: string }).name : '';
+        if (!ALLOWED_FUNCTIONS.has(name)) {
+          problem = name && !(name in mathNames)
+            ? `\`${name}\` is not a function: an expression may call ${FUNCTION_LIST}`
+            : `\`${name || 'this'}(...)\` is not available in plan files: an expression may call ${FUNCTION_LIST}`;
+        } else if (fn.args.length > MAX_ARGUMENTS) problem = `\`${name}\` takes at most ${MAX_ARGUMENTS} values here`;
+        return;
+      }
+      case 'AssignmentNode':
+      case 'FunctionAssignmentNode':
+        problem = 'assignments are not allowed in an expression: bind a name with `let NAME = value` on a line of its own';
+        return;
+      case 'BlockNode':
+        problem = 'one value per option: a plan line holds one statement';
+        return;
+      default:
+        problem = `${describeNode(n.type)} are not available in plan files: an expression may use numbers, units, names bound with \`let\`, arithmetic and ${FUNCTION_LIST}`;
+    }
+  });
+  return problem;
+}
+
+const FUNCTION_LIST = 'functions such as sqrt, sin, cos, atan2, min, max, round and abs';
+
+function describeNode(type: string): string {
+  switch (type) {
+    case 'ArrayNode': case 'IndexNode': return 'lists and matrices';
+    case 'ObjectNode': return 'objects';
+    case 'AccessorNode': return 'properties (`.name`)';
+    case 'RangeNode': return 'ranges (`a:b`)';
+    case 'ConditionalNode': return 'conditions (`a ? b : c`)';
+    case 'RelationalNode': return 'comparisons';
+    default: return 'such expressions';
   }
 }
 
@@ -227,7 +327,7 @@ export function evaluateExpr(cache: ExpressionCache, text: string, expected: Exp
 
 function evaluateUncached(cache: ExpressionCache, text: string, expected: Expected, ctx: EvalContext): EvalOutcome {
   const compiled = cache.get(text);
-  if (!compiled.ok) return { ok: false, code: 'syntax', message: `cannot read the expression \`${text}\`: ${compiled.message}` };
+  if (!compiled.ok) return { ok: false, code: 'syntax', message: `cannot read the expression \`${showText(text)}\`: ${compiled.message}` };
   for (const name of compiled.freeNames) {
     if (ctx.scope.has(name)) continue;
     if (compiled.unitLike.includes(name)) {
@@ -243,21 +343,21 @@ function evaluateUncached(cache: ExpressionCache, text: string, expected: Expect
     const msg = (e as Error).message;
     if (msg.startsWith(DISABLED_PREFIX)) return { ok: false, code: 'name', message: msg };
     if (/Unexpected type of argument.*actual: Unit/.test(msg) || /actual: number.*index/.test(msg) && /Unit/.test(msg)) {
-      return { ok: false, code: 'unit', message: `\`${text}\` mixes a plain number with a quantity that has a unit: give the number its unit (e.g. \`let lane = 250 mm\` rather than \`let lane = 250\`)` };
+      return { ok: false, code: 'unit', message: `\`${showText(text)}\` mixes a plain number with a quantity that has a unit: give the number its unit (e.g. \`let lane = 250 mm\` rather than \`let lane = 250\`)` };
     }
     if (/Units do not match/.test(msg)) {
-      return { ok: false, code: 'unit', message: `\`${text}\` adds or compares quantities of different kinds (e.g. a length and an angle)` };
+      return { ok: false, code: 'unit', message: `\`${showText(text)}\` adds or compares quantities of different kinds (e.g. a length and an angle)` };
     }
-    if (/Unit|unit/.test(msg)) return { ok: false, code: 'unit', message: `\`${text}\`: ${msg}` };
-    return { ok: false, code: 'syntax', message: `cannot evaluate \`${text}\`: ${msg}` };
+    if (/Unit|unit/.test(msg)) return { ok: false, code: 'unit', message: `\`${showText(text)}\`: ${msg}` };
+    return { ok: false, code: 'syntax', message: `cannot evaluate \`${showText(text)}\`: ${msg}` };
   }
   if (typeof raw !== 'number' && !(raw && typeof raw === 'object' && 'dimensions' in raw)) {
-    return { ok: false, code: 'unit', message: `\`${text}\` is not a single number or quantity` };
+    return { ok: false, code: 'unit', message: `\`${showText(text)}\` is not a single number or quantity` };
   }
   let dim = dimensionOf(raw);
   if (dim === 'number' && compiled.percent) dim = 'fraction';
   if (typeof raw === 'number' && !Number.isFinite(raw)) {
-    return { ok: false, code: 'unit', message: `\`${text}\` is not a finite number` };
+    return { ok: false, code: 'unit', message: `\`${showText(text)}\` is not a finite number` };
   }
   return coerce(raw, dim, expected, text, ctx);
 }
@@ -265,7 +365,7 @@ function evaluateUncached(cache: ExpressionCache, text: string, expected: Expect
 function coerce(raw: MathValue, dim: Dimension | undefined, expected: Expected, text: string, ctx: EvalContext): EvalOutcome {
   const lenFactor = LENGTH_UNIT_MM[ctx.lengthUnit];
   const ok = (value: number, dimension: Dimension): EvalOutcome =>
-    Number.isFinite(value) ? { ok: true, value, dimension, raw } : { ok: false, code: 'unit', message: `\`${text}\` is not a finite number` };
+    Number.isFinite(value) ? { ok: true, value, dimension, raw } : { ok: false, code: 'unit', message: `\`${showText(text)}\` is not a finite number` };
   const n = typeof raw === 'number' ? raw : NaN;
   switch (expected) {
     case 'length':
@@ -308,7 +408,7 @@ function coerce(raw: MathValue, dim: Dimension | undefined, expected: Expected, 
       break;
   }
   const got = dim ? DIMENSION_LABEL[dim] : `a quantity of unit ${(raw as Unit).formatUnits?.() ?? '?'}`;
-  return { ok: false, code: 'unit', message: `expected ${EXPECTED_LABEL[expected]}, but \`${text}\` is ${got}` };
+  return { ok: false, code: 'unit', message: `expected ${EXPECTED_LABEL[expected]}, but \`${showText(text)}\` is ${got}` };
 }
 
 /** A value in the file's own units, for hovers and messages. */
