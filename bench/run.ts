@@ -4,7 +4,7 @@
 // Prints the figures and merges them into bench/results.json.
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { checkPlan, ExpressionCache } from '../src/core';
+import { checkPlan, ExpressionCache, fewestResets, MAX_PLAN_CHARS } from '../src/core';
 import { median, round } from './stats';
 
 const RESULTS = join(__dirname, 'results.json');
@@ -90,12 +90,58 @@ function recheckTimes(segments: number, repetitions: number): { cached: number; 
   return { cached, uncached };
 }
 
+/** `n` let names and `n` lines using names one letter off each (the "did you mean" search). */
+function unknownNamesPlan(n: number): string {
+  const lines = ['wheel 56 mm', 'track 160 mm', 'start (1000, 1000) heading 0'];
+  for (let i = 0; i < n; i++) lines.push(`let name_${i} = ${i} mm`);
+  for (let i = 0; i < n; i++) lines.push(`drive nmae_${i}`);
+  return lines.join('\n');
+}
+
+/** One wrap crossing followed by `n` drives: the fewest-resets fix on a long plan. */
+function crossingThenDrivesPlan(n: number): string {
+  const lines = ['wheel 56 mm', 'track 160 mm', 'start (20000, 20000) heading 0', 'turn 90 by gyro', 'turn 90 by gyro', 'drive 10 hold 180'];
+  for (let i = 0; i < n; i++) lines.push(i % 2 === 0 ? 'drive 10' : 'drive -10');
+  return lines.join('\n');
+}
+
+/** The largest plan the size limit allows, made of the benchmark's cycle (about 90,000 motions). */
+function largestPlan(): string {
+  let segments = 1000;
+  let text = generatePlan(segments);
+  const perSegment = text.length / segments;
+  segments = Math.floor((MAX_PLAN_CHARS - 2000) / perSegment);
+  text = generatePlan(segments);
+  while (text.length > MAX_PLAN_CHARS) text = generatePlan((segments -= 100));
+  return text;
+}
+
+function hostileFigures(): Record<string, number> {
+  const once = (fn: () => void) => time(fn, 3);
+  const names10k = unknownNamesPlan(5_000);
+  const names20k = unknownNamesPlan(10_000);
+  const resets10k = crossingThenDrivesPlan(10_000);
+  const resets20k = crossingThenDrivesPlan(20_000);
+  const check10 = checkPlan(resets10k);
+  const check20 = checkPlan(resets20k);
+  if (!fewestResets(check10, resets10k)) throw new Error('the fewest-resets benchmark plan needs no reset');
+  const largest = largestPlan();
+  return {
+    unknown_names_10k_lines_ms: round(once(() => checkPlan(names10k))),
+    unknown_names_20k_lines_ms: round(once(() => checkPlan(names20k))),
+    fewest_resets_10k_ms: round(once(() => fewestResets(check10, resets10k))),
+    fewest_resets_20k_ms: round(once(() => fewestResets(check20, resets20k))),
+    largest_plan_chars: largest.length,
+    largest_plan_check_ms: round(once(() => checkPlan(largest))),
+  };
+}
+
 function main(): void {
   const solve100 = solveTime(100, 31);
   const solve1k = solveTime(1_000, 21);
   const solve10k = solveTime(10_000, 7);
   const recheck = recheckTimes(1_000, 21);
-  const figures = {
+  const figures: Record<string, number> = {
     solve_100_ms: round(solve100),
     solve_1k_ms: round(solve1k),
     solve_10k_ms: round(solve10k),
@@ -110,6 +156,12 @@ function main(): void {
   console.log('re-check after a one-line edit, 1,000 segments (median):');
   console.log(`  with a warm expression cache  ${figures.recheck_edit_ms} ms`);
   console.log(`  with a fresh cache            ${figures.recheck_edit_nocache_ms} ms`);
+  const hostile = hostileFigures();
+  Object.assign(figures, hostile);
+  console.log('hostile and careless plans (median of 3):');
+  console.log(`  unknown names, 10,000 lines   ${hostile.unknown_names_10k_lines_ms} ms; 20,000 lines ${hostile.unknown_names_20k_lines_ms} ms`);
+  console.log(`  fewest resets, 10,000 drives  ${hostile.fewest_resets_10k_ms} ms; 20,000 drives ${hostile.fewest_resets_20k_ms} ms`);
+  console.log(`  the largest plan allowed (${(hostile.largest_plan_chars / 1e6).toFixed(2)} M characters): whole check ${hostile.largest_plan_check_ms} ms (target ≤ 2000 ms: ${hostile.largest_plan_check_ms <= 2000 ? 'met' : 'MISSED'})`);
 
   const existing = existsSync(RESULTS) ? JSON.parse(readFileSync(RESULTS, 'utf8')) as Record<string, unknown> : {};
   writeFileSync(RESULTS, `${JSON.stringify({ ...existing, ...figures }, null, 2)}\n`);

@@ -1,5 +1,5 @@
 // The `veer` command: the core's checker and renderer for terminals and CI.
-import { readFileSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
+import { closeSync, openSync, readSync, realpathSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import { parseArgs } from 'node:util';
 import { checkPlan, fixPlan, renderSvg, ExpressionCache, MAX_PLAN_CHARS, type CheckResult } from '../core';
@@ -116,13 +116,17 @@ function readPlan(file: string): string {
     throw new FileError(code === 'ENOENT' ? `${file}: no such file` : `${file}: cannot read (${code ?? (e as Error).message})`);
   }
   if (stat.isDirectory()) throw new FileError(`${file}: is a directory, not a plan file`);
-  if (stat.size > MAX_PLAN_CHARS * 4) throw new FileError(`${file}: too large to be a plan (${(stat.size / 1e6).toFixed(1)} MB; the limit is ${(MAX_PLAN_CHARS / 1e6).toFixed(0)} million characters)`);
+  // A pipe, a device or a socket could block or never end: plans are files.
+  if (!stat.isFile()) throw new FileError(`${file}: is not a regular file (a pipe, device or socket); save the plan to a file first`);
+  const maxBytes = MAX_PLAN_CHARS * 4;
+  if (stat.size > maxBytes) throw new FileError(`${file}: too large to be a plan (${(stat.size / 1e6).toFixed(1)} MB; the limit is ${(MAX_PLAN_CHARS / 1e6).toFixed(0)} million characters)`);
   let bytes: Buffer;
   try {
-    bytes = readFileSync(file);
+    bytes = readAtMost(file, maxBytes + 1);
   } catch (e) {
     throw new FileError(`${file}: cannot read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
   }
+  if (bytes.length > maxBytes) throw new FileError(`${file}: too large to be a plan (it grew while being read; the limit is ${(MAX_PLAN_CHARS / 1e6).toFixed(0)} million characters)`);
   let text: string;
   try {
     text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
@@ -131,6 +135,41 @@ function readPlan(file: string): string {
   }
   if (text.length > MAX_PLAN_CHARS) throw new FileError(`${file}: too large to be a plan (${(text.length / 1e6).toFixed(1)} million characters; the limit is ${(MAX_PLAN_CHARS / 1e6).toFixed(0)} million)`);
   return text;
+}
+
+/** Reads at most `limit` bytes, so a file that grows while it is read cannot exhaust memory. */
+function readAtMost(file: string, limit: number): Buffer {
+  const fd = openSync(file, 'r');
+  try {
+    const chunks: Buffer[] = [];
+    let total = 0;
+    for (;;) {
+      const chunk = Buffer.allocUnsafe(Math.min(1 << 20, limit - total));
+      if (chunk.length === 0) break;
+      const n = readSync(fd, chunk, 0, chunk.length, null);
+      if (n === 0) break;
+      chunks.push(chunk.subarray(0, n));
+      total += n;
+    }
+    return Buffer.concat(chunks, total);
+  } finally {
+    closeSync(fd);
+  }
+}
+
+/** Whether two paths name the same file (through links too); false when `output` does not exist yet. */
+function sameFile(input: string, output: string): boolean {
+  try {
+    const a = statSync(input);
+    const b = statSync(output);
+    return a.dev === b.dev && a.ino === b.ino;
+  } catch {
+    try {
+      return realpathSync(input) === join(realpathSync(dirname(output)), basename(output));
+    } catch {
+      return false;
+    }
+  }
 }
 
 function progressReporter(io: CliIo, label: string): ((fraction: number) => void) | undefined {
@@ -174,6 +213,7 @@ function check(files: string[], opts: { json: boolean; strict: boolean }, io: Cl
 }
 
 function render(file: string, output: string, run: string | undefined, strict: boolean, io: CliIo): number {
+  if (sameFile(file, output)) throw new UsageError(`\`-o ${output}\` is the plan itself: writing the drawing there would destroy the plan. Choose another name, e.g. \`-o ${basename(file).replace(/\.veer$/i, '')}.svg\``);
   const result = checkOne(file, new ExpressionCache(), io);
   let runSel: number | string | undefined = run;
   if (run !== undefined) {
@@ -187,11 +227,7 @@ function render(file: string, output: string, run: string | undefined, strict: b
     }
   }
   const svg = renderSvg(result, { run: runSel, standalone: true });
-  try {
-    writeFileSync(output, svg);
-  } catch (e) {
-    throw new FileError(`${output}: cannot write (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
-  }
+  writeAtomically(output, svg);
   for (const d of result.diagnostics) io.err(diagnosticLine(file, d) + '\n');
   io.err(`wrote ${output}\n`);
   return failed(result, strict) ? 1 : 0;
@@ -217,6 +253,18 @@ function fix(file: string, write: boolean, io: CliIo): number {
 
 /** Writes through a temporary file in the same folder and a rename, so a failed write never leaves half a file. */
 function writeAtomically(path: string, content: string): void {
+  let existing;
+  try { existing = statSync(path); } catch { existing = undefined; }
+  if (existing?.isDirectory()) throw new FileError(`${path}: is a directory; give a file name`);
+  if (existing && !existing.isFile()) {
+    // A device or pipe such as /dev/stdout: written as it is, never replaced.
+    try {
+      writeFileSync(path, content);
+      return;
+    } catch (e) {
+      throw new FileError(`${path}: cannot write (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
+    }
+  }
   const temporary = join(dirname(path), `.${basename(path)}.${process.pid}.tmp`);
   try {
     writeFileSync(temporary, content);

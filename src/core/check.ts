@@ -429,10 +429,14 @@ function evaluateMotion(
 /** Narrows a diagnostic to the unknown name inside an expression, when there is one. */
 function narrowTo(expr: ExprNode, name: string | undefined): Range {
   if (!name || expr.range.start.line !== expr.range.end.line) return expr.range;
-  const m = new RegExp(`(^|[^A-Za-z0-9_])(${name.replace(/[$]/g, '\\$')})(?![A-Za-z0-9_])`).exec(expr.text);
-  if (!m) return expr.range;
-  const col = expr.range.start.character + m.index + m[1].length;
-  return { start: { line: expr.range.start.line, character: col }, end: { line: expr.range.start.line, character: col + name.length } };
+  // The first whole-word occurrence (a plain search: no pattern is built from plan text).
+  const isWordChar = (c: string | undefined) => c !== undefined && /[\p{L}\p{N}_$]/u.test(c);
+  for (let at = expr.text.indexOf(name); at >= 0; at = expr.text.indexOf(name, at + 1)) {
+    if (isWordChar(expr.text[at - 1]) || isWordChar(expr.text[at + name.length])) continue;
+    const col = expr.range.start.character + at;
+    return { start: { line: expr.range.start.line, character: col }, end: { line: expr.range.start.line, character: col + name.length } };
+  }
+  return expr.range;
 }
 
 export function compareDiagnostics(a: Diagnostic, b: Diagnostic): number {

@@ -21,6 +21,7 @@ export function fewestResets(result: CheckResult, text?: string): Fix | undefine
   if (!result.diagnostics.some((d) => d.code === 'wrap-cross')) return undefined;
   const { lo, hi } = result.setup.yawRange;
   const inRange = (t: number) => t >= lo && t < hi;
+  const lo0 = lo;
   const zeroReading = wrapReading(0, lo);
   const stmts = new Map<number, MotionStmt>();
   for (const s of result.ast.statements) {
@@ -44,29 +45,47 @@ export function fewestResets(result: CheckResult, text?: string): Fix | undefine
       if (seg.kind === 'reset' || (stmt?.kind === 'turn' && stmt.reset)) mandatory.add(i);
     });
     const refHeading = (p: number): number => (p === 0 ? segs[startIndex].start.heading : segs[p].start.heading);
+    const nextMandatory: number[] = new Array(segs.length + 1).fill(segs.length);
+    for (let i = segs.length - 1; i >= 0; i--) nextMandatory[i] = mandatory.has(i + 1) ? i + 1 : nextMandatory[i + 1];
     const search = (considered: typeof items): number[] | undefined => {
-      const itemAt = new Map(considered.map((it) => [it.index, it]));
-      const fits = (p: number, index: number) => {
-        const it = itemAt.get(index);
-        return !it || inRange(wrapReading(segs[index].start.heading - refHeading(p), lo) + it.change);
+      const sorted = [...considered].sort((x, y) => x.index - y.index);
+      // The furthest q such that the stretch [p, q) keeps every considered target in range
+      // (an existing zero ends a stretch): scanning the targets after p, not every segment.
+      const reachOf = (p: number): number => {
+        const limit = nextMandatory[p];
+        let lo = 0;
+        let hi = sorted.length;
+        while (lo < hi) {
+          const mid = (lo + hi) >> 1;
+          if (sorted[mid].index < p) lo = mid + 1; else hi = mid;
+        }
+        for (let k = lo; k < sorted.length && sorted[k].index < limit; k++) {
+          const it = sorted[k];
+          if (!inRange(wrapReading(segs[it.index].start.heading - refHeading(p), lo0) + it.change)) return it.index;
+        }
+        return limit;
       };
-      // Shortest path: cost[q] = resets inserted so far with the last zero at q.
+      // Shortest path over positions with unit costs: a sweep over q with a
+      // heap of the open zero points p (cost, then position), each open while q <= reach(p).
       const n = segs.length;
       const cost = new Array<number>(n + 1).fill(Infinity);
       const prev = new Array<number>(n + 1).fill(-1);
+      const heap = new MinHeap();
       cost[0] = 0;
-      for (let p = 0; p < n; p++) {
-        if (cost[p] === Infinity) continue;
-        for (let q = p + 1; q <= n; q++) {
-          if (!fits(p, q - 1)) break; // the stretch [p, q) would cross at q - 1
-          const step = q === n || mandatory.has(q) ? 0 : 1;
-          if (q < n && segs[q].kind === 'start') continue;
-          if (cost[p] + step < cost[q]) {
-            cost[q] = cost[p] + step;
-            prev[q] = p;
-          }
-          if (mandatory.has(q)) break; // an existing zero cannot be skipped
+      heap.push(0, 0, reachOf(0));
+      for (let q = 1; q <= n; q++) {
+        while (heap.size > 0 && heap.top().reach < q) heap.pop();
+        if (heap.size === 0) return undefined;
+        const best = heap.top();
+        const step = q === n || mandatory.has(q) ? 0 : 1;
+        if (q < n && segs[q].kind === 'start') continue;
+        cost[q] = best.cost + step;
+        prev[q] = best.p;
+        if (mandatory.has(q)) {
+          // An existing zero cannot be skipped: every stretch ends here.
+          heap.clear();
         }
+        if (q < n) heap.push(cost[q], q, reachOf(q));
       }
       if (cost[n] === Infinity) return undefined;
       const chosen: number[] = [];
@@ -109,4 +128,43 @@ export function segmentAtLine(result: CheckResult, line: number): { run: number;
     for (let s = 0; s < segs.length; s++) if (segs[s].line === line) return { run: r, segment: s, value: segs[s] };
   }
   return undefined;
+}
+
+/** A binary heap of open zero points, least cost first, then the earliest position (the first of equals, as a scan would pick). */
+class MinHeap {
+  private items: { cost: number; p: number; reach: number }[] = [];
+  get size(): number { return this.items.length; }
+  top(): { cost: number; p: number; reach: number } { return this.items[0]; }
+  clear(): void { this.items = []; }
+  push(cost: number, p: number, reach: number): void {
+    const a = this.items;
+    a.push({ cost, p, reach });
+    let i = a.length - 1;
+    while (i > 0) {
+      const parent = (i - 1) >> 1;
+      if (!this.less(a[i], a[parent])) break;
+      [a[i], a[parent]] = [a[parent], a[i]];
+      i = parent;
+    }
+  }
+  pop(): void {
+    const a = this.items;
+    const last = a.pop()!;
+    if (a.length === 0) return;
+    a[0] = last;
+    let i = 0;
+    for (;;) {
+      const l = 2 * i + 1;
+      const r = l + 1;
+      let m = i;
+      if (l < a.length && this.less(a[l], a[m])) m = l;
+      if (r < a.length && this.less(a[r], a[m])) m = r;
+      if (m === i) break;
+      [a[i], a[m]] = [a[m], a[i]];
+      i = m;
+    }
+  }
+  private less(x: { cost: number; p: number }, y: { cost: number; p: number }): boolean {
+    return x.cost < y.cost || (x.cost === y.cost && x.p < y.p);
+  }
 }

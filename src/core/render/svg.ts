@@ -52,6 +52,10 @@ const RUN_COLOURS = ['#2563eb', '#db2777', '#0d9488', '#7c3aed', '#ea580c', '#02
 /** Below this radius (mm) a rotation is a spin: there is no arc to draw. */
 const SPIN_RADIUS = 0.01;
 /** On-screen sizes in CSS pixels (converted with View.px). */
+/** Bounds on the drawing's work, whatever the plan: grid lines per side, pieces per arc. */
+const MAX_GRID_LINES = 400;
+const MAX_ARC_PIECES = 48;
+
 const SIZE = {
   pathStroke: 2.5,
   thinStroke: 1,
@@ -250,7 +254,8 @@ class Drawing {
   arc(from: Point, center: Point, turned: number): string {
     const r = num(distance(center, from));
     const sweep = turnSign(this.turns) * turned > 0 ? 1 : 0; // 1 = clockwise on screen (SVG y down)
-    const steps = Math.max(1, Math.ceil(Math.abs(turned) / 90));
+    // A turn of several full circles draws over itself: at most MAX_ARC_PIECES pieces, whatever the angle.
+    const steps = Math.min(MAX_ARC_PIECES, Math.max(1, Math.ceil(Math.abs(turned) / 90)));
     let d = '';
     for (let k = 1; k <= steps; k++) {
       const p = rotateAbout(from, center, (turned * k) / steps, this.turns);
@@ -393,14 +398,17 @@ function drawField(out: string[], d: Drawing, result: CheckResult): void {
     [x0, y0, x1, y1] = [-view.x(0), view.y(0) - view.contentBottom, view.width - view.x(0), view.y(0) - view.contentTop];
   }
   // Too dense a grid is noise, not information.
-  if (!(grid > 0) || grid / view.px < 6) return;
+  if (!(grid > 0) || grid / view.px < 6 || ![x0, y0, x1, y1].every(Number.isFinite)) return;
+  // Lines counted by index, never by adding up coordinates (which stall where
+  // a step is lost in rounding), and never more than MAX_GRID_LINES a side.
+  const lines = (lo: number, hi: number, draw: (at: number) => void) => {
+    const first = Math.floor(lo / grid) + 1;
+    const count = Math.min(MAX_GRID_LINES, Math.max(0, Math.ceil((hi - 1e-6) / grid) - first));
+    for (let k = 0; k < count; k++) draw((first + k) * grid);
+  };
   const parts: string[] = [];
-  for (let gx = Math.floor(x0 / grid + 1) * grid; gx < x1 - 1e-6; gx += grid) {
-    parts.push(`M${num(view.x(gx))} ${num(view.y(y1))}V${num(view.y(y0))}`);
-  }
-  for (let gy = Math.floor(y0 / grid + 1) * grid; gy < y1 - 1e-6; gy += grid) {
-    parts.push(`M${num(view.x(x0))} ${num(view.y(gy))}H${num(view.x(x1))}`);
-  }
+  lines(x0, x1, (gx) => parts.push(`M${num(view.x(gx))} ${num(view.y(y1))}V${num(view.y(y0))}`));
+  lines(y0, y1, (gy) => parts.push(`M${num(view.x(x0))} ${num(view.y(gy))}H${num(view.x(x1))}`));
   if (parts.length > 0) {
     out.push(`<path class="grid"${field ? line : ''} d="${parts.join('')}" stroke-opacity="0.35" stroke-width="${d.px(0.75)}"/>\n`);
   }

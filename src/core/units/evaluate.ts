@@ -51,12 +51,21 @@ export function isMathName(name: string): boolean {
   return Object.prototype.hasOwnProperty.call(math, name) || name in math;
 }
 
+/** Answers by name, kept here: math.js's own memo of this slows down with many distinct names. */
+const unitNames = new Map<string, boolean>();
+
 export function isUnitName(name: string): boolean {
+  const known = unitNames.get(name);
+  if (known !== undefined) return known;
+  let answer: boolean;
   try {
-    return getSandbox().isValuelessUnit(name);
+    answer = getSandbox().isValuelessUnit(name);
   } catch {
-    return false;
+    answer = false;
   }
+  if (unitNames.size > 50_000) unitNames.clear();
+  unitNames.set(name, answer);
+  return answer;
 }
 
 export const LENGTH_UNIT_MM: Record<LengthUnitName, number> = { mm: 1, cm: 10, m: 1000, in: 25.4 };
@@ -65,7 +74,9 @@ type MathValue = number | Unit;
 
 interface Compiled {
   ok: true;
-  code: EvalFunction;
+  /** Compiled on first evaluation: an expression whose names are unknown is never compiled. */
+  code?: EvalFunction;
+  node: MathNode;
   /** Free names that are neither units nor math.js names: must come from `let`. */
   freeNames: string[];
   /** Free names written right after a number, so meant as units. */
@@ -175,11 +186,7 @@ function compileExpression(text: string): Compiled | CompileError {
     }
     return n;
   });
-  try {
-    return { ok: true, code: transformed.compile(), freeNames: [...freeNames], unitLike: [...unitLike], percent };
-  } catch (e) {
-    return { ok: false, message: (e as Error).message };
-  }
+  return { ok: true, node: transformed, freeNames: [...freeNames], unitLike: [...unitLike], percent };
 }
 
 /** Walks the parsed expression: the first thing a plan may not compute, in words, or undefined. */
@@ -337,6 +344,7 @@ function evaluateUncached(cache: ExpressionCache, text: string, expected: Expect
   }
   let raw: MathValue;
   try {
+    compiled.code ??= compiled.node.compile();
     raw = compiled.constant ?? compiled.code.evaluate(ctx.scope) as MathValue;
     if (compiled.freeNames.length === 0) compiled.constant = raw;
   } catch (e) {
