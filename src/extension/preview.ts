@@ -1,6 +1,7 @@
 // The path preview's host side: one webview panel beside the editor that
 // follows the active plan, renders the core's SVG for it, keeps the drawing
 // and the text linked both ways, exports, and comes back after a reload.
+import { previewCsp } from '../shared/csp';
 import { randomBytes } from 'crypto';
 import * as vscode from 'vscode';
 import { renderSvg } from '../core';
@@ -100,12 +101,7 @@ export function previewHtml(webview: vscode.Webview, mediaRoot: vscode.Uri): str
   const nonce = randomBytes(18).toString('base64');
   const css = webview.asWebviewUri(vscode.Uri.joinPath(mediaRoot, 'preview.css'));
   const script = webview.asWebviewUri(vscode.Uri.joinPath(mediaRoot, 'preview.js'));
-  const csp = [
-    "default-src 'none'",
-    `img-src ${webview.cspSource} data:`,
-    `style-src ${webview.cspSource}`,
-    `script-src 'nonce-${nonce}'`,
-  ].join('; ');
+  const csp = previewCsp(webview.cspSource, nonce);
   return `<!DOCTYPE html>
 <html lang="en">
 <head>

@@ -225,6 +225,24 @@ describe('path preview webview (Chromium)', function () {
     assert.strictEqual(await page.evaluate(() => (window as unknown as Win).__pwned), undefined);
   });
 
+  it('a forged render message with HTML inside an SVG title (a refresh, a form) changes nothing on the page', async () => {
+    const forged = `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 100 100"><title><meta http-equiv="refresh" content="0;url=https://example.invalid/">
+<form action="https://example.invalid/" id="forged-form"><input name="q" value="x"><button id="forged-button">Go</button></form></title>
+<g><title>plain <b>markup</b></title>
+<path class="seg seg-drive" data-line="1" data-segment="0:0" d="M10 10L90 90" stroke="currentColor" stroke-width="8"/></g></svg>`;
+    const base = renderFor(PLAN, URI, 1);
+    await rendered({ ...base, svg: forged, segments: [] });
+    const page = host.page;
+    assert.strictEqual(await page.locator('meta[http-equiv="refresh"], form, input, button#forged-button, b').count(), 0);
+    // The drawing itself is kept and still works.
+    await page.locator('path.seg').click();
+    assert.deepStrictEqual(await host.waitForPosted('reveal'), { type: 'reveal', uri: URI, version: 1, line: 1 });
+    // The page's policy forbids forms, frames and a base URL whatever slips through.
+    const policy = await page.$eval('meta[http-equiv="Content-Security-Policy"]', (m) => m.getAttribute('content'));
+    for (const rule of ["form-action 'none'", "frame-src 'none'", "base-uri 'none'"]) assert.ok(policy!.includes(rule), policy!);
+    assert.ok(page.url().startsWith('https://veer-preview.test/'), page.url());
+  });
+
   it('exports a PNG of the drawing, rasterised in the page', async () => {
     await rendered(renderFor(PLAN, URI, 1));
     await host.page.getByRole('button', { name: 'PNG' }).click();

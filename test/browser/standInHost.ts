@@ -3,6 +3,7 @@
 // machine) under the same CSP the real host writes, provides
 // acquireVsCodeApi, records what the preview posts, and switches themes the
 // way the editor does (body class plus --vscode-* variables on <html>).
+import { previewCsp } from '../../src/shared/csp';
 import { readFileSync } from 'fs';
 import { join } from 'path';
 import type { Browser, Page } from 'playwright-core';
@@ -52,7 +53,8 @@ export const THEMES: Record<ThemeKind, Record<string, string>> = {
   },
 };
 
-const CSP = `default-src 'none'; img-src ${ORIGIN} data:; style-src ${ORIGIN}; script-src 'nonce-${NONCE}'`;
+// The extension's own policy, so the tests see what the editor's page enforces.
+const CSP = previewCsp(ORIGIN, NONCE);
 
 function hostScript(initialState: unknown): string {
   return `
