@@ -1,12 +1,12 @@
 import { strict as assert } from 'node:assert';
-import { checkPlan, MAX_PLAN_CHARS } from '../../src/core';
+import { checkPlan, INTERNAL_FAILURE, MAX_PLAN_CHARS, renderSvg } from '../../src/core';
 
 // Generated and mutated plans: the checker never throws, every diagnostic
 // range lies inside the document, and no input takes long (a hang guard, not
 // a speed target). Seeded, so a failure is reproducible; VEER_FUZZ_RUNS raises
 // the count for a longer local run (`npm run fuzz:long`).
 
-const RUNS = Math.max(10_000, Number(process.env.VEER_FUZZ_RUNS) || 0);
+const RUNS = Math.max(20_000, Number(process.env.VEER_FUZZ_RUNS) || 0);
 const SEED = Number(process.env.VEER_FUZZ_SEED) || 0x5eed;
 /** Per input; generous on purpose: a slow machine must not fail, a hang must. */
 const MAX_MS_PER_INPUT = 2000;
@@ -70,6 +70,14 @@ function statement(r: Rng): string {
     () => `wait ${value(r)}`,
     () => `mark "m" ${r.pick([`at ${point(r)}`, `heading ${value(r)}`, `in "z${r.int(0, 2)}"`, `at ${point(r)} within ${value(r)}`])}`,
     () => `# ${r.pick(['note', 'drive 100', '"'])}`,
+    // Hostile shapes: long operator chains, long names, huge numbers and angles, the rest of math.js.
+    () => `drive ${Array.from({ length: r.int(2, 5000) }, () => '1').join(r.pick(['+', '*', '-', '^', ' + ']))}`,
+    () => `drive ${r.pick(['x', 'lane_', 'é'])}${'q'.repeat(r.int(10, 40_000))}`,
+    () => `let ${'n'.repeat(r.int(60, 5000))} = 1`,
+    () => r.pick([`start (0, ${r.pick(['2e18', '1e9', '-1e300', '1e6'])}) heading 0`, `turn ${r.pick(['1e9', '1e10', '1e300', '3600', '3601', '-1e5'])} ${r.pick(['pivot left', 'arc 100', 'spin', 'ratio 50%'])}`,
+      `field ${r.pick(['1e7', '1e6', '3'])} by ${r.pick(['1e7', '1', '2000'])} grid ${r.pick(['1e-6', '0.001', '1', '100'])}`, `wheel ${r.pick(['1e-320', '0.0001', '5000', '56'])}`]),
+    () => `wait ${r.pick(HOSTILE_CALLS)}`,
+    () => `drive ${r.pick(['300; 500', 'f(x) = x', 'a = 1', '[1, 2]', '{a: 1}', '1:1e9', '"text"', 'lane.x', 'x ? 1 : 2', '2 > 1', '5!'])}`,
   ];
   const indent = r.next() < 0.1 ? '  ' : '';
   const comment = r.next() < 0.1 ? '  # why' : '';
@@ -86,6 +94,15 @@ function plan(r: Rng): string {
   for (let i = 0; i < n; i++) lines.push(statement(r));
   return lines.join(r.next() < 0.1 ? '\r\n' : '\n');
 }
+
+/** Calls that reach beyond numbers and units: every one must end in a diagnostic, never run. */
+const HOSTILE_CALLS = [
+  'config({relTol: 10, absTol: 1000}).absTol', "config({number: 'BigNumber'})", 'zeros(1e5, 1e5)', 'ones(1e4, 1e4)', 'range(0, 1e9)',
+  'bellNumbers(1e4)', 'random()', 'randomInt(5)', 'import({x: 1})', 'createUnit("foo")', 'evaluate("1")', 'parse("1")',
+  'compile("1")', 'simplify("x")', 'derivative("x^2", "x")', 'chain(1)', 'reviver()', 'typed("f", {})', 'factory("a", [], () => 1)',
+  'identity(1e4)', 'matrix([[1]])', 'sort([3, 1])', 'format(1)', 'print("$a", {a: 1})', 'Unit.prototype', 'cos.constructor("return 1")()',
+  '__proto__', 'constructor', 'toString()', 'isPrime(2^53)', 'factorial(1e6)', 'gamma(1e6)', 'lgamma(5)', 'combinations(1e6, 5e5)',
+];
 
 const ODD = ['\u0000', '\u00e9', '\u4e2d', '\ud83d\ude80', '\ud83d', '\u202e', '\ufeff', '\t', '\r\n', '\n', '"', '(', ')', ',', '#', '\\', '%', '^', '=', 'NaN', 'Infinity', '-Infinity', 'undefined', 'null', '1e999999', '9'.repeat(400), '0x1F', '1/0', '((((((((((', '))))', '"unterminated', '\\"', 'import', 'evaluate', '__proto__', 'constructor'];
 
@@ -119,6 +136,14 @@ function mutate(r: Rng, text: string): string {
 
 function assertRangesInside(text: string, input: number): void {
   const result = checkPlan(text);
+  // No input reaches the top-level guard: every problem is a diagnostic of its own.
+  const internal = result.diagnostics.find((d) => d.message.startsWith(INTERNAL_FAILURE));
+  assert.equal(internal, undefined, `input ${input}: ${internal?.message}`);
+  // The drawing's work is bounded whatever the plan (a few per cent of inputs, to keep the run short).
+  if (input % 25 === 0) {
+    const svg = renderSvg(result, { standalone: true });
+    assert.ok(svg.length < 5_000_000, `input ${input}: a ${svg.length}-character drawing`);
+  }
   // Lines end at `\n` (a `\r` before it belongs to the line end): spec section 1.
   const lines = text.split(/\r\n|\r|\n/); // the editor's line breaks, as the parser reads them
   for (const d of result.diagnostics) {
@@ -137,7 +162,7 @@ function assertRangesInside(text: string, input: number): void {
 }
 
 describe('fuzz', function () {
-  this.timeout(180_000);
+  this.timeout(600_000);
 
   it(`checks ${RUNS} generated and mutated plans without throwing, with ranges inside the document`, () => {
     const r = generator(SEED);

@@ -334,7 +334,7 @@ export function evaluateExpr(cache: ExpressionCache, text: string, expected: Exp
 
 function evaluateUncached(cache: ExpressionCache, text: string, expected: Expected, ctx: EvalContext): EvalOutcome {
   const compiled = cache.get(text);
-  if (!compiled.ok) return { ok: false, code: 'syntax', message: `cannot read the expression \`${showText(text)}\`: ${compiled.message}` };
+  if (!compiled.ok) return { ok: false, code: 'syntax', message: `cannot read the expression \`${showText(text)}\`: ${showText(compiled.message, 240)}` };
   for (const name of compiled.freeNames) {
     if (ctx.scope.has(name)) continue;
     if (compiled.unitLike.includes(name)) {
@@ -356,8 +356,8 @@ function evaluateUncached(cache: ExpressionCache, text: string, expected: Expect
     if (/Units do not match/.test(msg)) {
       return { ok: false, code: 'unit', message: `\`${showText(text)}\` adds or compares quantities of different kinds (e.g. a length and an angle)` };
     }
-    if (/Unit|unit/.test(msg)) return { ok: false, code: 'unit', message: `\`${showText(text)}\`: ${msg}` };
-    return { ok: false, code: 'syntax', message: `cannot evaluate \`${showText(text)}\`: ${msg}` };
+    if (/Unit|unit/.test(msg)) return { ok: false, code: 'unit', message: `\`${showText(text)}\`: ${showText(msg, 240)}` };
+    return { ok: false, code: 'syntax', message: `cannot evaluate \`${showText(text)}\`: ${showText(msg, 240)}` };
   }
   if (typeof raw !== 'number' && !(raw && typeof raw === 'object' && 'dimensions' in raw)) {
     return { ok: false, code: 'unit', message: `\`${showText(text)}\` is not a single number or quantity` };
