@@ -163,10 +163,18 @@ async function main() {
   const result = checkedPlan(text);
   writeFileSync(PLAN, text);
 
-  const sizes = packageSizes();
-  const host = hostFigures();
   const uri = `file://${PLAN}`;
   const message = buildRenderMessage(result, { uri, version: 1 }, -1, renderSvg(result, { standalone: false }));
+  if (process.env.VEER_BENCH_ONLY === 'preview') {
+    // The quick loop while working on the preview: its render time alone, nothing written.
+    run('node', ['scripts/build.mjs', '--production']);
+    const times = await previewRenderTimes(message);
+    console.log(`  preview render         ${round(median(times))} ms median of ${RENDER_ROUNDS}, 1,000 segments (target ≤ ${TARGETS.preview_render_1k_ms} ms)`);
+    run('node', ['scripts/build.mjs']);
+    return;
+  }
+  const sizes = packageSizes();
+  const host = hostFigures();
   const render = await previewRenderTimes(message);
   // Leave the development build in dist/, as `npm run build` does.
   run('node', ['scripts/build.mjs']);

@@ -2,7 +2,7 @@
 import { closeSync, openSync, readSync, realpathSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import { parseArgs } from 'node:util';
-import { checkPlan, fixPlan, renderSvg, ExpressionCache, MAX_PLAN_CHARS, type CheckResult } from '../core';
+import { checkPlan, fixPlan, renderSvg, targetsCsv, targetsDocument, targetsText, ExpressionCache, MAX_PLAN_CHARS, type CheckResult } from '../core';
 import { diagnosticLine, runSummaryLine, toJsonDocument } from '../core/report';
 import { version } from '../../package.json';
 
@@ -11,6 +11,9 @@ const HELP = `veer ${version}: check and draw plans for two-wheeled robot runs
 Usage:
   veer check [--json] [--strict] FILE...   check plans; one line per problem, a summary per run
   veer render FILE -o OUT.svg [--run NAME] draw the field, the path and the problems as SVG
+  veer targets FILE [--run NAME] [--csv|--json]
+                                           the numbers the robot's code needs, one row per motion:
+                                           start time, time, wheel and motor degrees, yaw target, power
   veer fix FILE [--write]                  apply the fixes that need no choice and keep every motion
                                            (the fewest yaw resets, wrongly cased keywords); print the
                                            fixed plan, or rewrite FILE with --write; a summary on stderr
@@ -20,7 +23,8 @@ Options:
   --json       print a JSON document (one file: an object; several: an array)
   --strict     count warnings as errors
   -o, --output where \`render\` writes the SVG
-  --run NAME   draw only this run (name or 1-based number)
+  --run NAME   draw (or list the targets of) only this run (name or 1-based number)
+  --csv        \`targets\` as CSV (RFC 4180, a header row)
   --write      \`fix\` rewrites the file in place instead of printing it
 
 Exit status: 0 no errors (warnings allowed), 1 errors found, 2 usage error or unreadable file.
@@ -69,6 +73,7 @@ function dispatch(argv: string[], io: CliIo): number {
         output: { type: 'string', short: 'o' },
         run: { type: 'string' },
         write: { type: 'boolean' },
+        csv: { type: 'boolean' },
       },
     });
   } catch (e) {
@@ -86,6 +91,13 @@ function dispatch(argv: string[], io: CliIo): number {
   const [command, ...files] = positionals;
   if (!command) throw new UsageError('no command given: use `veer check FILE` or `veer render FILE -o OUT.svg`');
   if (command !== 'fix' && values.write) throw new UsageError('`--write` belongs to `veer fix`');
+  if (command !== 'targets' && values.csv) throw new UsageError('`--csv` belongs to `veer targets`');
+  if (command === 'targets') {
+    if (values.output !== undefined || values.strict) throw new UsageError('`veer targets` takes a plan file, `--run`, and `--csv` or `--json`');
+    if (values.csv && values.json) throw new UsageError('choose one of `--csv` and `--json`');
+    if (files.length !== 1) throw new UsageError('`veer targets` takes exactly one plan file');
+    return targets(files[0], values.run, values.csv ? 'csv' : values.json ? 'json' : 'text', io);
+  }
   if (command === 'fix') {
     if (values.json || values.strict || values.output !== undefined || values.run !== undefined) throw new UsageError('`veer fix` takes only a plan file and `--write`');
     if (files.length !== 1) throw new UsageError('`veer fix` takes exactly one plan file');
@@ -102,7 +114,7 @@ function dispatch(argv: string[], io: CliIo): number {
     if (!values.output) throw new UsageError('`veer render` needs `-o OUT.svg`');
     return render(files[0], values.output, values.run, !!values.strict, io);
   }
-  throw new UsageError(`unknown command \`${command}\`: use \`check\`, \`render\` or \`fix\``);
+  throw new UsageError(`unknown command \`${command}\`: use \`check\`, \`render\`, \`targets\` or \`fix\``);
 }
 
 class FileError extends Error {}
@@ -215,17 +227,7 @@ function check(files: string[], opts: { json: boolean; strict: boolean }, io: Cl
 function render(file: string, output: string, run: string | undefined, strict: boolean, io: CliIo): number {
   if (sameFile(file, output)) throw new UsageError(`\`-o ${output}\` is the plan itself: writing the drawing there would destroy the plan. Choose another name, e.g. \`-o ${basename(file).replace(/\.veer$/i, '')}.svg\``);
   const result = checkOne(file, new ExpressionCache(), io);
-  let runSel: number | string | undefined = run;
-  if (run !== undefined) {
-    const byName = result.runs.findIndex((r) => r.name === run);
-    const byNumber = /^\d+$/.test(run) ? Number(run) - 1 : -1;
-    if (byName >= 0) runSel = byName;
-    else if (byNumber >= 0 && byNumber < result.runs.length) runSel = byNumber;
-    else {
-      const names = result.runs.map((r) => `"${r.name}"`).join(', ') || 'none';
-      throw new UsageError(`${file} has no run "${run}" (runs: ${names})`);
-    }
-  }
+  const runSel = selectRun(file, result, run);
   const svg = renderSvg(result, { run: runSel, standalone: true });
   writeAtomically(output, svg);
   for (const d of result.diagnostics) io.err(diagnosticLine(file, d) + '\n');
@@ -273,6 +275,31 @@ function writeAtomically(path: string, content: string): void {
     try { unlinkSync(temporary); } catch { /* already gone */ }
     throw new FileError(`${path}: cannot write (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
   }
+}
+
+/** The 0-based index of a run given by name or 1-based number; undefined for all runs. */
+function selectRun(file: string, result: CheckResult, run: string | undefined): number | undefined {
+  if (run === undefined) return undefined;
+  const byName = result.runs.findIndex((r) => r.name === run);
+  if (byName >= 0) return byName;
+  const byNumber = /^\d+$/.test(run) ? Number(run) - 1 : -1;
+  if (byNumber >= 0 && byNumber < result.runs.length) return byNumber;
+  const names = result.runs.map((r) => `"${r.name}"`).join(', ') || 'none';
+  throw new UsageError(`${file} has no run "${run}" (runs: ${names})`);
+}
+
+function targets(file: string, run: string | undefined, format: 'text' | 'csv' | 'json', io: CliIo): number {
+  const text = readPlan(file);
+  const result = checkPlan(text, { fileName: file, cache: new ExpressionCache() });
+  const doc = targetsDocument(file, result, text, selectRun(file, result, run));
+  if (format === 'json') io.out(`${JSON.stringify(doc, null, 2)}\n`);
+  else if (format === 'csv') io.out(targetsCsv(doc.runs));
+  else io.out(targetsText(doc.runs));
+  // The numbers of a plan with errors may be wrong: say so where a person reads, and in the status.
+  const errors = result.diagnostics.filter((d) => d.severity === 'error');
+  for (const d of errors) io.err(diagnosticLine(file, d) + '\n');
+  if (errors.length) io.err(`${file}: ${errors.length} error${errors.length === 1 ? '' : 's'}: some targets may be missing or wrong until they are fixed\n`);
+  return errors.length ? 1 : 0;
 }
 
 /** Entry point used by bin/veer.js. */

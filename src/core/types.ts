@@ -334,6 +334,12 @@ export interface Segment {
   motorDeg?: WheelPair;
   /** Estimated time in seconds. */
   duration: number;
+  /** Top power commanded (fraction of full power), for drives, turns and squares. */
+  power?: number;
+  /** Lowest power of a gyro or ramped turn (fraction). */
+  minPower?: number;
+  /** Wheel surface speed at the top power, mm/s. */
+  wheelSpeed?: number;
   /** Distance travelled by the axle midpoint, mm (unsigned). */
   distance: number;
   path: PathPiece[];

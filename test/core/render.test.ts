@@ -1,6 +1,10 @@
 import { strict as assert } from 'assert';
 import { DOMParser, type Document, type Element } from '@xmldom/xmldom';
+import { readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { renderSvg } from '../../src/core/render/svg';
+import { checkPlan } from '../../src/core';
+import { ALLOWED_ATTRIBUTES, ALLOWED_ELEMENTS } from '../../src/shared/svgAllowList';
 import { escapeXml, num } from '../../src/core/render/markup';
 import { forwardVector, rightVector, rotatePose } from '../../src/core/solve/frame';
 import type {
@@ -451,5 +455,24 @@ describe('renderSvg', () => {
     // loose because CI machines are shared, but a quadratic slip still fails it.
     assert.ok(ms < 1000, `took ${ms.toFixed(0)} ms of CPU`);
     assert.equal(svg.match(/class="seg /g)?.length, 10000); // every drive and turn
+  });
+});
+
+describe('render: what the preview lets through', () => {
+  it('every element and attribute the renderer writes is on the preview\'s allow-list', () => {
+    const dir = join(__dirname, '..', 'fixtures');
+    const plans = readdirSync(dir).filter((f) => f.endsWith('.veer')).map((f) => readFileSync(join(dir, f), 'utf8'));
+    const seenElements = new Set<string>();
+    const seenAttributes = new Set<string>();
+    for (const plan of plans) {
+      const svg = renderSvg(checkPlan(plan), { standalone: false });
+      for (const m of svg.matchAll(/<([a-zA-Z][\w:-]*)((?:\s+[^\s=>]+="[^"]*")*)\s*\/?>/g)) {
+        seenElements.add(m[1]);
+        for (const a of m[2].matchAll(/([^\s=]+)="/g)) seenAttributes.add(a[1].toLowerCase());
+      }
+    }
+    assert.ok(seenElements.size > 4 && seenAttributes.size > 10);
+    assert.deepEqual([...seenElements].filter((e) => !ALLOWED_ELEMENTS.has(e)), []);
+    assert.deepEqual([...seenAttributes].filter((a) => !ALLOWED_ATTRIBUTES.has(a) && !a.startsWith('xmlns')), []);
   });
 });

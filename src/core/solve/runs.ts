@@ -229,6 +229,8 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
           checkPower(dm.speed, s.optionRanges.speed ?? s.range, 'speed');
         }
         if (dm.ramp !== undefined && dm.ramp <= 0) report(s.optionRanges.ramp ?? s.range, 'error', 'setup', 'a ramp is an acceleration and must be greater than zero, e.g. `ramp 800 mm/s^2`.');
+        seg.power = v / vMax;
+        seg.wheelSpeed = v;
         seg.duration = v > 0 ? profileTime(dist, Math.min(v, vMax), dm.ramp) : dist === 0 ? 0 : Infinity;
         if (v > 0 && !Number.isFinite(seg.duration)) report(s.keywordRange, 'error', 'setup', 'The time of this drive cannot be computed (it would take for ever): check the speed, the ramp, the motor and the wheel.');
         if (turned !== 0) seg.duration += Math.abs(turned) * RAD * ((robot.track ?? 0) / 2) / Math.max(v, 1e-9);
@@ -341,6 +343,9 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         const te = gyro ? t : travel(effective, shapeNode.kind === 'pivot' ? (offset * effective) / W : offset);
         seg.motorDeg = { left: wheelDegrees(te.left)! * robot.gear!, right: wheelDegrees(te.right)! * robot.gear! };
         const outerRadius = Math.abs(offset) + half;
+        seg.power = top;
+        seg.wheelSpeed = top * vMax;
+        if (gyro || s.ramp) seg.minPower = min;
         if (gyro) {
           seg.duration = gyroTurnTime({
             angle: Math.abs(turned), ratePerPower: outerRadius > 0 ? (vMax / outerRadius) / RAD : Infinity,
@@ -396,6 +401,8 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       if (needWheel(s.keywordRange) && vMax !== undefined) {
         checkPower(qm.speed, s.optionRanges.speed ?? s.range, 'speed');
         const v = (qm.speed ?? MOTION_DEFAULTS.squarePower) * vMax;
+        seg.power = qm.speed ?? MOTION_DEFAULTS.squarePower;
+        seg.wheelSpeed = v;
         seg.duration = v > 0 ? out.travel / v : 0;
         const wd = wheelDegrees(out.travel * (s.side === 'front' ? 1 : -1))!;
         seg.wheelDeg = { left: wd, right: wd };

@@ -1,0 +1,145 @@
+// The targets table: one row per motion, the numbers the robot's code needs
+// (start time, duration, wheel and motor degrees, yaw target, power and
+// speed), as plain data and as text, CSV and Markdown. The command line's
+// `veer targets` and the preview's table both come from here.
+import type { CheckResult, Segment } from './types';
+import { lineStartOffsets } from './text';
+
+export interface TargetRow {
+  /** 1-based line of the motion. */
+  line: number;
+  /** The statement as written (comments left out). */
+  motion: string;
+  kind: Segment['kind'];
+  start_s: number;
+  duration_s: number | null;
+  left_wheel_deg?: number;
+  right_wheel_deg?: number;
+  left_motor_deg?: number;
+  right_motor_deg?: number;
+  yaw_target_deg?: number;
+  power_pct?: number;
+  min_power_pct?: number;
+  speed_mm_s?: number;
+}
+
+export interface TargetTable {
+  run: string;
+  rows: TargetRow[];
+}
+
+export interface TargetsDocument {
+  file: string;
+  title: string;
+  runs: TargetTable[];
+}
+
+const r3 = (v: number) => {
+  const r = Math.round(v * 1000) / 1000;
+  return Object.is(r, -0) ? 0 : r;
+};
+
+/** Segments that are something the robot's code does (the start and marks are places, not motions). */
+const IN_TABLE: ReadonlySet<Segment['kind']> = new Set(['drive', 'turn', 'square', 'wait', 'reset']);
+
+/** The targets of every run (or of run `run`, by index). */
+export function targetTables(result: CheckResult, text: string, run?: number): TargetTable[] {
+  const starts = lineStartOffsets(text);
+  const statementText = (line: number): string => {
+    const stmt = result.ast.statements.find((s) => s.line === line);
+    if (!stmt) return '';
+    const from = starts[line] + stmt.range.start.character;
+    return text.slice(from, starts[line] + stmt.range.end.character).trim();
+  };
+  const runs = run === undefined ? result.runs : result.runs.slice(run, run + 1);
+  return runs.map((r) => {
+    let clock = 0;
+    const rows: TargetRow[] = [];
+    for (const seg of r.segments) {
+      const startAt = clock;
+      clock += seg.duration;
+      if (!IN_TABLE.has(seg.kind)) continue;
+      const row: TargetRow = {
+        line: seg.line + 1,
+        motion: statementText(seg.line),
+        kind: seg.kind,
+        start_s: r3(startAt),
+        duration_s: Number.isFinite(seg.duration) ? r3(seg.duration) : null,
+      };
+      if (seg.wheelDeg) {
+        row.left_wheel_deg = r3(seg.wheelDeg.left);
+        row.right_wheel_deg = r3(seg.wheelDeg.right);
+      }
+      if (seg.motorDeg) {
+        row.left_motor_deg = r3(seg.motorDeg.left);
+        row.right_motor_deg = r3(seg.motorDeg.right);
+      }
+      if (seg.yawTarget !== undefined) row.yaw_target_deg = r3(seg.yawTarget);
+      if (seg.power !== undefined) row.power_pct = r3(seg.power * 100);
+      if (seg.minPower !== undefined) row.min_power_pct = r3(seg.minPower * 100);
+      if (seg.wheelSpeed !== undefined) row.speed_mm_s = r3(seg.wheelSpeed);
+      rows.push(row);
+    }
+    return { run: r.name, rows };
+  });
+}
+
+export function targetsDocument(file: string, result: CheckResult, text: string, run?: number): TargetsDocument {
+  return { file, title: result.setup.title, runs: targetTables(result, text, run) };
+}
+
+/** Column keys and headers, in order, shared by every text form. */
+export const TARGET_COLUMNS: readonly { key: keyof TargetRow; header: string }[] = [
+  { key: 'line', header: 'line' },
+  { key: 'motion', header: 'motion' },
+  { key: 'start_s', header: 'start s' },
+  { key: 'duration_s', header: 'time s' },
+  { key: 'left_wheel_deg', header: 'wheel L°' },
+  { key: 'right_wheel_deg', header: 'wheel R°' },
+  { key: 'left_motor_deg', header: 'motor L°' },
+  { key: 'right_motor_deg', header: 'motor R°' },
+  { key: 'yaw_target_deg', header: 'yaw target°' },
+  { key: 'power_pct', header: 'power %' },
+  { key: 'min_power_pct', header: 'min %' },
+  { key: 'speed_mm_s', header: 'speed mm/s' },
+];
+
+function cell(row: TargetRow, key: keyof TargetRow): string {
+  const v = row[key];
+  if (v === undefined || v === null) return '';
+  return typeof v === 'number' ? String(v) : v;
+}
+
+/** RFC 4180 CSV: a header row, then one row per motion; a `run` column first. */
+export function targetsCsv(tables: readonly TargetTable[]): string {
+  const quote = (s: string) => (/[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s);
+  const header = ['run', ...TARGET_COLUMNS.map((c) => c.key)].join(',');
+  const lines = [header];
+  for (const t of tables) for (const row of t.rows) lines.push([quote(t.run), ...TARGET_COLUMNS.map((c) => quote(cell(row, c.key)))].join(','));
+  return `${lines.join('\r\n')}\r\n`;
+}
+
+/** A Markdown table per run, under its name. */
+export function targetsMarkdown(tables: readonly TargetTable[]): string {
+  const esc = (s: string) => s.replace(/\|/g, '\\|');
+  return tables.map((t) => [
+    `### ${esc(t.run)}`,
+    '',
+    `| ${TARGET_COLUMNS.map((c) => c.header).join(' | ')} |`,
+    `|${TARGET_COLUMNS.map((c) => (c.key === 'motion' ? ' --- ' : ' ---: ')).join('|')}|`,
+    ...t.rows.map((row) => `| ${TARGET_COLUMNS.map((c) => esc(c.key === 'motion' ? `\`${cell(row, c.key)}\`` : cell(row, c.key))).join(' | ')} |`),
+  ].join('\n')).join('\n\n') + '\n';
+}
+
+/** Aligned plain text for a terminal: a heading per run, then the columns. */
+export function targetsText(tables: readonly TargetTable[]): string {
+  const out: string[] = [];
+  for (const t of tables) {
+    out.push(`run "${t.run}"`);
+    const rows = [TARGET_COLUMNS.map((c) => c.header), ...t.rows.map((row) => TARGET_COLUMNS.map((c) => cell(row, c.key)))];
+    const widths = TARGET_COLUMNS.map((_, i) => Math.max(...rows.map((r) => r[i].length)));
+    for (const r of rows) out.push(r.map((v, i) => (TARGET_COLUMNS[i].key === 'motion' ? v.padEnd(widths[i]) : v.padStart(widths[i]))).join('  ').trimEnd());
+    out.push('');
+  }
+  return out.join('\n');
+}
