@@ -44,6 +44,37 @@ describe('veer command line', () => {
     assert.match(strict.out, /warning: .*\[over-time\]/);
   });
 
+  describe('veer targets', () => {
+    it('prints the demo plan\'s targets as CSV: one row per motion, with the wheel degrees of the differential-drive relation', () => {
+      const r = run(['targets', '--csv', example]);
+      assert.equal(r.status, 0, r.err);
+      const rows = r.out.trim().split('\r\n').map((l) => l.split(','));
+      assert.equal(rows.length, 5);
+      const header = rows[0];
+      const first = Object.fromEntries(header.map((h, i) => [h, rows[1][i]]));
+      assert.equal(first.motion, 'drive 3 * lane speed 60% hold 0');
+      // 750 mm on a 62 mm wheel: 750 / (π · 62) · 360 = 1386.188 (arc length over circumference).
+      assert.equal(Number(first.left_wheel_deg), Math.round((750 / (Math.PI * 62)) * 360 * 1000) / 1000);
+      assert.equal(first.yaw_target_deg, '0');
+      assert.equal(first.power_pct, '60');
+    });
+
+    it('--json gives the same rows; --run picks a run; errors make exit 1 with the problems on stderr', () => {
+      const r = run(['targets', '--json', '--run', '1', example]);
+      assert.equal(r.status, 0);
+      const doc = JSON.parse(r.out);
+      assert.equal(doc.runs.length, 1);
+      assert.equal(doc.runs[0].rows.length, 4);
+      const bad = tempPlan('wheel 56\ntrack 160\nstart (0, 0) heading 0\nturn 200 by gyro\n');
+      const e = run(['targets', bad]);
+      assert.equal(e.status, 1);
+      assert.match(e.err, /wrap-cross/);
+      assert.match(e.err, /some targets may be missing or wrong/);
+      assert.equal(run(['targets', '--csv', '--json', example]).status, 2);
+      assert.equal(run(['check', '--csv', example]).status, 2);
+    });
+  });
+
   describe('veer fix', () => {
     const wrapping = ['units mm', 'wheel 60 mm', 'track 130 mm', 'start (150, 150) heading 0', 'drive 550 hold 0',
       'turn 90 by gyro min 10%', 'drive 900 hold 90', 'Turn 90 by gyro min 10%', 'drive 300 hold 180', 'turn -90 arc 200', ''].join('\n');

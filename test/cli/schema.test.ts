@@ -1,0 +1,54 @@
+import { strict as assert } from 'node:assert';
+import { readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import Ajv2020 from 'ajv/dist/2020';
+import { runCli } from '../../src/cli/main';
+
+// The JSON the command line prints, validated against the schemas in schema/
+// with Ajv (an independent, general-purpose JSON Schema validator), so robot
+// code in any language can rely on them. Every fixture, example and a few
+// plans with errors.
+
+const root = join(__dirname, '..', '..');
+const ajv = new Ajv2020({ allErrors: true, strict: true });
+const checkSchema = ajv.compile(JSON.parse(readFileSync(join(root, 'schema', 'check.schema.json'), 'utf8')));
+const targetsSchema = ajv.compile(JSON.parse(readFileSync(join(root, 'schema', 'targets.schema.json'), 'utf8')));
+
+function run(args: string[]): string {
+  let out = '';
+  runCli(args, { out: (s) => { out += s; }, err: () => {}, isTTY: false });
+  return out;
+}
+
+const plans = [
+  ...readdirSync(join(root, 'test', 'fixtures')).filter((f) => f.endsWith('.veer')).map((f) => join(root, 'test', 'fixtures', f)),
+  ...readdirSync(join(root, 'examples')).filter((f) => f.endsWith('.veer')).map((f) => join(root, 'examples', f)),
+];
+
+describe('JSON schemas', () => {
+  it('there are plans to validate', () => assert.ok(plans.length >= 7));
+
+  for (const plan of plans) {
+    it(`check --json and targets --json of ${plan.replace(root, '').slice(1)} follow their schemas`, () => {
+      const doc = JSON.parse(run(['check', '--json', plan]));
+      assert.ok(checkSchema(doc), ajv.errorsText(checkSchema.errors));
+      const targets = JSON.parse(run(['targets', '--json', plan]));
+      assert.ok(targetsSchema(targets), ajv.errorsText(targetsSchema.errors));
+    });
+  }
+
+  it('several files give an array that follows the schema', () => {
+    const docs = JSON.parse(run(['check', '--json', ...plans.slice(0, 3)]));
+    assert.ok(Array.isArray(docs) && docs.length === 3);
+    assert.ok(checkSchema(docs), ajv.errorsText(checkSchema.errors));
+  });
+
+  it('the schemas reject what they should (a heading of 360, a missing field)', () => {
+    const doc = JSON.parse(run(['check', '--json', plans[0]]));
+    const seg = doc.runs[0].segments[0];
+    seg.end.heading_deg = 360;
+    assert.equal(checkSchema(doc), false);
+    delete seg.end;
+    assert.equal(checkSchema(doc), false);
+  });
+});
