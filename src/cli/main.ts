@@ -2,7 +2,9 @@
 import { closeSync, openSync, readSync, realpathSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import { parseArgs } from 'node:util';
-import { checkPlan, fixPlan, renderSvg, targetsCsv, targetsDocument, targetsText, ExpressionCache, MAX_PLAN_CHARS, type CheckResult } from '../core';
+import { checkPlan, fixPlan, proveFix, renderSvg, targetsCsv, targetsDocument, targetsText, toSarif, ExpressionCache, MAX_PLAN_CHARS, type CheckResult, type Diagnostic, type Fix } from '../core';
+import { existsSync } from 'node:fs';
+import { pathToFileURL } from 'node:url';
 import { diagnosticLine, runSummaryLine, toJsonDocument } from '../core/report';
 import { version } from '../../package.json';
 
@@ -10,6 +12,7 @@ const HELP = `veer ${version}: check and draw plans for two-wheeled robot runs
 
 Usage:
   veer check [--json] [--strict] FILE...   check plans; one line per problem, a summary per run
+  veer check --format sarif FILE...        the problems as a SARIF 2.1.0 log, with the path-keeping fixes
   veer render FILE -o OUT.svg [--run NAME] draw the field, the path and the problems as SVG
   veer targets FILE [--run NAME] [--csv|--json]
                                            the numbers the robot's code needs, one row per motion:
@@ -20,7 +23,8 @@ Usage:
   veer --help | --version
 
 Options:
-  --json       print a JSON document (one file: an object; several: an array)
+  --json       print a JSON document (one file: an object; several: an array); schema/check.schema.json
+  --format F   \`check\` output: text (default), json, or sarif
   --strict     count warnings as errors
   -o, --output where \`render\` writes the SVG
   --run NAME   draw (or list the targets of) only this run (name or 1-based number)
@@ -74,6 +78,7 @@ function dispatch(argv: string[], io: CliIo): number {
         run: { type: 'string' },
         write: { type: 'boolean' },
         csv: { type: 'boolean' },
+        format: { type: 'string' },
       },
     });
   } catch (e) {
@@ -92,6 +97,7 @@ function dispatch(argv: string[], io: CliIo): number {
   if (!command) throw new UsageError('no command given: use `veer check FILE` or `veer render FILE -o OUT.svg`');
   if (command !== 'fix' && values.write) throw new UsageError('`--write` belongs to `veer fix`');
   if (command !== 'targets' && values.csv) throw new UsageError('`--csv` belongs to `veer targets`');
+  if (command !== 'check' && values.format !== undefined) throw new UsageError('`--format` belongs to `veer check`');
   if (command === 'targets') {
     if (values.output !== undefined || values.strict) throw new UsageError('`veer targets` takes a plan file, `--run`, and `--csv` or `--json`');
     if (values.csv && values.json) throw new UsageError('choose one of `--csv` and `--json`');
@@ -106,7 +112,10 @@ function dispatch(argv: string[], io: CliIo): number {
   if (command === 'check') {
     if (values.output !== undefined || values.run !== undefined) throw new UsageError('`-o` and `--run` belong to `veer render`');
     if (files.length === 0) throw new UsageError('`veer check` needs at least one plan file');
-    return check(files, { json: !!values.json, strict: !!values.strict }, io);
+    const format = values.format ?? (values.json ? 'json' : 'text');
+    if (!['text', 'json', 'sarif'].includes(format)) throw new UsageError(`unknown format \`${format}\`: use text, json or sarif`);
+    if (values.json && format !== 'json') throw new UsageError('choose one of `--json` and `--format`');
+    return check(files, { format: format as 'text' | 'json' | 'sarif', strict: !!values.strict }, io);
   }
   if (command === 'render') {
     if (values.json) throw new UsageError('`--json` belongs to `veer check`');
@@ -195,29 +204,38 @@ function progressReporter(io: CliIo, label: string): ((fraction: number) => void
   };
 }
 
-function checkOne(file: string, cache: ExpressionCache, io: CliIo): CheckResult {
+function checkOne(file: string, cache: ExpressionCache, io: CliIo): { result: CheckResult; text: string } {
   const text = readPlan(file);
   const onProgress = text.length > 200_000 ? progressReporter(io, `checking ${file}`) : undefined;
-  return checkPlan(text, { fileName: file, cache, onProgress });
+  return { result: checkPlan(text, { fileName: file, cache, onProgress }), text };
 }
 
 function failed(result: CheckResult, strict: boolean): boolean {
   return result.diagnostics.some((d) => d.severity === 'error' || (strict && d.severity === 'warning'));
 }
 
-function check(files: string[], opts: { json: boolean; strict: boolean }, io: CliIo): number {
+function check(files: string[], opts: { format: 'text' | 'json' | 'sarif'; strict: boolean }, io: CliIo): number {
   // Read every file first, so an unreadable one stops the command before any output.
   const cache = new ExpressionCache();
-  const results: Array<{ file: string; result: CheckResult }> = [];
-  for (const file of files) results.push({ file, result: checkOne(file, cache, io) });
+  const results: Array<{ file: string; result: CheckResult; text: string }> = [];
+  for (const file of files) results.push({ file, ...checkOne(file, cache, io) });
   let status = 0;
-  if (opts.json) {
+  if (opts.format === 'json') {
     const docs = results.map(({ file, result }) => toJsonDocument(file, result));
     io.out(JSON.stringify(docs.length === 1 ? docs[0] : docs, null, 2) + '\n');
+  } else if (opts.format === 'sarif') {
+    // The reference beside the installed command (dist/ in a package, src/cli/ in the repository).
+    const docs = [join(__dirname, '..', 'docs', 'diagnostics.md'), join(__dirname, '..', '..', 'docs', 'diagnostics.md')].find((p) => existsSync(p));
+    const log = toSarif(results.map(({ file, result, text }) => ({
+      file, result,
+      // Only fixes that keep the path, each proven by checking its result again.
+      fixesFor: (d: Diagnostic): Fix[] => (d.fixes ?? []).filter((f) => !f.changesPath && proveFix(text, result, f, d, { fileName: file }).ok),
+    })), { toolVersion: version, ...(docs ? { helpBase: pathToFileURL(docs).href } : {}) });
+    io.out(JSON.stringify(log, null, 2) + '\n');
   }
   for (const { file, result } of results) {
     if (failed(result, opts.strict)) status = 1;
-    if (opts.json) continue;
+    if (opts.format !== 'text') continue;
     for (const d of result.diagnostics) io.out(diagnosticLine(file, d) + '\n');
     for (const r of result.runs) io.out(`${file}: ${runSummaryLine(r)}\n`);
   }
@@ -226,7 +244,7 @@ function check(files: string[], opts: { json: boolean; strict: boolean }, io: Cl
 
 function render(file: string, output: string, run: string | undefined, strict: boolean, io: CliIo): number {
   if (sameFile(file, output)) throw new UsageError(`\`-o ${output}\` is the plan itself: writing the drawing there would destroy the plan. Choose another name, e.g. \`-o ${basename(file).replace(/\.veer$/i, '')}.svg\``);
-  const result = checkOne(file, new ExpressionCache(), io);
+  const { result } = checkOne(file, new ExpressionCache(), io);
   const runSel = selectRun(file, result, run);
   const svg = renderSvg(result, { run: runSel, standalone: true });
   writeAtomically(output, svg);

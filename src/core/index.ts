@@ -7,3 +7,4 @@ export { renderSvg, type RenderOptions } from './render/svg';
 export { ExpressionCache } from './units/evaluate';
 export { fewestResets, segmentAtLine, FEWEST_RESETS_TITLE, proveFix, comparePaths, fixPlan, applyEdits, lineMapper, PATH_TOLERANCE, type FixProof, type PlanFixResult } from './fix';
 export { targetTables, targetsDocument, targetsCsv, targetsMarkdown, targetsText, TARGET_COLUMNS, type TargetRow, type TargetTable, type TargetsDocument } from './targets';
+export { toSarif, CODE_SUMMARIES, type SarifInput, type SarifOptions } from './sarif';

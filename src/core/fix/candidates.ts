@@ -108,9 +108,9 @@ class FixContext {
     const zeroHelps = this.yaw.inRange(afterZero) && (problem === 'cross' || !this.nearEdge(afterZero));
     const seg = run.segments[index];
     const zeroHere: ReplayChanges = { zeroBefore: new Map([[index, seg.start.heading]]) };
-    if (zeroHelps) {
-      const rewritten = this.rewrites(at, zeroHere);
-      if (!rewritten) return fixes;
+    const rewrittenForZero = zeroHelps ? this.rewrites(at, zeroHere) : undefined;
+    if (zeroHelps && rewrittenForZero) {
+      const rewritten = rewrittenForZero;
       const insert = insertLinesBefore(stmt.line, [`${this.indent(stmt)}reset yaw`], this.eol);
       if (stmt.kind === 'turn' && stmt.angle && !stmt.reset) {
         fixes.push({
@@ -127,7 +127,8 @@ class FixContext {
       return fixes;
     }
     if (problem === 'edge' || stmt.kind !== 'turn') return fixes;
-    // No zero brings this turn into range: it is too big (or of the wrong sign) by itself.
+    // No zero brings this turn into range (it is too big, or of the wrong sign,
+    // by itself), or a zero here would make a later target cross: turn by encoders.
     const encoders = this.toEncoders(stmt, item.change);
     const rewritten = this.rewrites(at, { encoders: new Set([index]) }, index);
     if (rewritten) {
