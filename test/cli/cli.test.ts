@@ -53,8 +53,8 @@ describe('veer command line', () => {
       const header = rows[0];
       const first = Object.fromEntries(header.map((h, i) => [h, rows[1][i]]));
       assert.equal(first.motion, 'drive 3 * lane speed 60% hold 0');
-      // 750 mm on a 62 mm wheel: 750 / (π · 62) · 360 = 1386.188 (arc length over circumference).
-      assert.equal(Number(first.left_wheel_deg), Math.round((750 / (Math.PI * 62)) * 360 * 1000) / 1000);
+      // 750 mm on a 58 mm wheel: 750 / (π · 58) · 360 = 1481.787 (arc length over circumference).
+      assert.equal(Number(first.left_wheel_deg), Math.round((750 / (Math.PI * 58)) * 360 * 1000) / 1000);
       assert.equal(first.yaw_target_deg, '0');
       assert.equal(first.power_pct, '60');
     });
@@ -130,9 +130,10 @@ describe('veer command line', () => {
     assert.equal(turn.sensing, 'gyro');
     assert.deepEqual(turn.start, { x_mm: 200, y_mm: 950, heading_deg: 0 });
     // Spin wheel arc = (W/2)·θ; wheel degrees = arc / (π d) · 360 (differential-drive relation):
-    // (128/2 · π/2) / (π · 62) · 360 = 185.806 (the spec's example shows 185.8).
-    assert.ok(Math.abs(turn.wheel_deg.left - 185.806) < 0.01);
-    assert.ok(Math.abs(turn.wheel_deg.right + 185.806) < 0.01);
+    // (121/2 · π/2) / (π · 58) · 360 = 187.759.
+    const spin = ((121 / 2) * (Math.PI / 2)) / (Math.PI * 58) * 360;
+    assert.ok(Math.abs(turn.wheel_deg.left - spin) < 0.001);
+    assert.ok(Math.abs(turn.wheel_deg.right + spin) < 0.001);
     assert.equal(turn.yaw_target_deg, 90);
     for (const key of ['duration_s', 'distance_mm']) assert.equal(typeof doc.runs[0][key], 'number');
   });

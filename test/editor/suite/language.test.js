@@ -7,11 +7,11 @@ const { fixtureUri, diagnosticsWhere, codeOf, scratchCopy, hoverText } = require
 const FIXTURE = 'wrap-check.veer';
 const WRAP_LINE = 11; // the second `turn 90 by gyro`: reading 90 + 90 = target 180, outside [-180, 180)
 
-// Wheel and motor degrees of a 90° spin on 62 mm wheels: each wheel runs the arc
-// s = (W/2)·θ (arc length formula), i.e. W·θ/D wheel degrees; W = 128 mm measured
-// (gyro turns), 130 mm effective (encoder turns, spec section 5).
-const GYRO_SPIN_WHEEL_DEG = ((128 * 90) / 62).toFixed(1); // 185.8
-const ENCODER_SPIN_MOTOR_DEG = ((130 * 90) / 62).toFixed(1); // 188.7
+// Wheel and motor degrees of a 90° spin on 58 mm wheels: each wheel runs the arc
+// s = (W/2)·θ (arc length formula), i.e. W·θ/D wheel degrees; W = 121 mm measured
+// (gyro turns), 123 mm effective (encoder turns, spec section 5).
+const GYRO_SPIN_WHEEL_DEG = ((121 * 90) / 58).toFixed(1); // 187.8
+const ENCODER_SPIN_MOTOR_DEG = ((123 * 90) / 58).toFixed(1); // 190.9
 
 const hasWrapCross = (diagnostics) => diagnostics.some((d) => codeOf(d) === 'wrap-cross');
 
@@ -181,6 +181,9 @@ describe('Veer language features', () => {
     assert.ok(editor);
     assert.equal(editor.document.languageId, 'veer');
     assert.ok(editor.document.isUntitled);
+    // A plain file name for the first save, not the plan's first line.
+    assert.ok(editor.document.uri.path.endsWith('watering-round.veer'), editor.document.uri.toString());
+    assert.match(editor.document.getText(), /^# A first plan/);
     const symbols = await vscode.commands.executeCommand('vscode.executeDocumentSymbolProvider', editor.document.uri);
     assert.deepEqual(symbols.map((s) => s.name), ['to the tap']);
     assert.deepEqual(vscode.languages.getDiagnostics(editor.document.uri).map(codeOf), []);
