@@ -2,6 +2,7 @@
 // built from a CheckResult. Pure, so the editor and tests can use it too.
 import type { CheckResult, Diagnostic, Pose, RunResult, Segment, WheelPair } from './types';
 import { normaliseHeading } from './solve/frame';
+import { formatRunDistance, formatRunTime } from './format';
 
 export interface JsonPose { x_mm: number; y_mm: number; heading_deg: number }
 
@@ -125,6 +126,5 @@ export function diagnosticLine(file: string, d: Diagnostic): string {
 
 /** One line per run: distance, time, turns, wrap crossings. */
 export function runSummaryLine(r: RunResult): string {
-  const m = r.distance / 1000;
-  return `run "${r.name}": ${m.toFixed(2)} m, ${Number.isFinite(r.duration) ? `${r.duration.toFixed(1)} s` : 'time unknown (see the errors)'}, ${r.turns} turn${r.turns === 1 ? '' : 's'}, ${r.wrapCrossings} wrap crossing${r.wrapCrossings === 1 ? '' : 's'}`;
+  return `run "${r.name}": ${formatRunDistance(r.distance)}, ${formatRunTime(r.duration)}, ${r.turns} turn${r.turns === 1 ? '' : 's'}, ${r.wrapCrossings} wrap crossing${r.wrapCrossings === 1 ? '' : 's'}`;
 }

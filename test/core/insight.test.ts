@@ -3,6 +3,7 @@ import type { CheckResult, Diagnostic, RunResult, Segment, Statement } from '../
 import {
   completionsAt, documentSymbols, formatHeading, formatLength, hoverAt, inlayHints, statusSummary,
 } from '../../src/core/insight';
+import { checkPlan, renderSvg, runSummaryLine } from '../../src/core';
 
 // Hand-built check results: these tests pin the insight helpers' own
 // behaviour, independent of the solver.
@@ -190,7 +191,7 @@ describe('insight: outline', () => {
       ['mark', 'parked'],
     ]);
     assert.deepEqual(symbols[0].range, { start: { line: 3, character: 0 }, end: { line: 8, character: 23 } });
-    assert.equal(symbols[0].detail, '5.71 s'); // 2.5 + 1.21 + 2 s, the segments' durations above
+    assert.equal(symbols[0].detail, '5.7 s · 0.75 m'); // 2.5 + 1.21 + 2 s and 750 mm, the segments above
   });
 });
 
@@ -236,15 +237,31 @@ describe('insight: completion', () => {
 });
 
 describe('insight: status summary', () => {
-  it('adds up time and distance and counts wrap problems', () => {
+  it('adds up time and distance and counts the problems, errors first', () => {
     const res = planResult();
     const wrap: Diagnostic = { range: range(7, 0, 9), severity: 'error', code: 'wrap-cross', message: 'm' };
     res.diagnostics = [wrap, { ...wrap, code: 'wrap-edge', severity: 'warning' }, { ...wrap, code: 'collision' }];
     const summary = statusSummary(res);
-    assert.equal(summary.wrapProblems, 2);
     assert.equal(summary.errors, 2);
-    // 2.5 + 1.21 + 2 s and 750 mm = 75 cm from the segments above.
-    assert.equal(summary.text, '2 runs · 5.71 s · 75 cm · 2 wrap problems');
-    assert.match(summary.tooltip, /^out: 5\.71 s, 75 cm, 2 turns\nback: 0 s, 0 cm, 0 turns$/);
+    assert.equal(summary.warnings, 1);
+    // 2.5 + 1.21 + 2 s and 750 mm from the segments above, as the command line's summary writes them.
+    assert.equal(summary.text, '2 runs · 5.7 s · 0.75 m · 2 errors, 1 warning');
+    assert.match(summary.tooltip, /^out: 5\.7 s, 0\.75 m, 2 turns\nback: 0\.0 s, 0\.00 m, 0 turns$/);
+  });
+
+  it('says there are errors when a plan has errors but no wrap problem (no wheel)', () => {
+    const summary = statusSummary(checkPlan('track 112\nstart (0, 0) heading 0\ndrive 100'));
+    assert.match(summary.text, /1 error$/);
+  });
+
+  it('reads the same as the command line\'s summary and the drawing\'s legend', () => {
+    const plan = 'wheel 56\ntrack 112\nstart (0, 0) heading 0\ndrive 3094.2\nturn 90';
+    const r = checkPlan(plan);
+    const summary = statusSummary(r);
+    const line = runSummaryLine(r.runs[0]);
+    const svg = renderSvg(r, { standalone: true });
+    const [, time, distance] = summary.parts;
+    assert.ok(line.includes(`${distance}, ${time}`), `${line} vs ${summary.text}`);
+    assert.ok(svg.includes(`· ${time}`), 'the legend shows the same time');
   });
 });

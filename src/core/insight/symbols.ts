@@ -1,4 +1,5 @@
 // The plan's outline: each run, with its motion lines and marks as children.
+import { formatRunDistance, formatRunTime } from '../format';
 import type { CheckResult, Range, Statement } from '../types';
 import { formatTime } from './format';
 import { splitLines } from './text';
@@ -40,7 +41,7 @@ export function documentSymbols(result: CheckResult, text: string): PlanSymbol[]
     });
     return {
       name: run.name,
-      detail: formatTime(run.duration),
+      detail: `${formatRunTime(run.duration)} · ${formatRunDistance(run.distance)}`,
       kind: 'run',
       range: { start: { line: run.line, character: 0 }, end: lastStatement && lastStatement.line >= run.line ? lastStatement.range.end : run.range.end },
       selectionRange: run.range,

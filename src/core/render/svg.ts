@@ -32,6 +32,7 @@
 // Colours: all shapes paint with currentColor, so a host page colours the
 // drawing by setting `color` per class. A standalone drawing carries its own
 // <style> doing exactly that; otherwise the markup has no colour at all.
+import { formatRunTime } from '../format';
 import type { CheckResult, Diagnostic, PathPiece, Point, Pose, RunResult, Segment, TurnDirection } from '../types';
 import { footprintCorners, footprintOf, forwardVector, rotateAbout, turnSign, type Footprint } from '../solve/frame';
 import { escapeXml, num } from './markup';
@@ -304,7 +305,7 @@ function headerLayout(result: CheckResult, runs: IndexedRun[]): HeaderLayout {
   const entries = runs.map(({ run, index }) => ({
     run,
     index,
-    text: Number.isFinite(run.duration) ? `${run.name} · ${Math.round(run.duration * 10) / 10} s` : run.name,
+    text: Number.isFinite(run.duration) ? `${run.name} · ${formatRunTime(run.duration)}` : run.name,
   }));
   const swatch = 18;
   const gap = 16;
@@ -647,7 +648,7 @@ function drawStartEnd(out: string[], d: Drawing, run: RunResult, runIndex: numbe
   const lastIndex = segs.length - 1;
   const end = segs[lastIndex].end;
   if (finite(end)) {
-    const time = Number.isFinite(run.duration) ? ` (${Math.round(run.duration * 10) / 10} s)` : '';
+    const time = Number.isFinite(run.duration) ? ` (${formatRunTime(run.duration)})` : '';
     out.push(
       `<g class="end"${segmentAttrs(segs[lastIndex], runIndex, lastIndex)}><title>${escapeXml(`end of ${run.name}${time}`)}</title>`,
       `<path d="${d.circle(end, 7 * px)}" stroke-width="${d.px(2)}"/>`,

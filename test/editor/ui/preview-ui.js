@@ -64,6 +64,8 @@ async function goToLine(page, line) {
     const rows = await problems(page);
     check(rows.some((r) => r.includes('wrap-cross')), `Problems panel: ${rows.join(' | ')}`);
     await page.keyboard.press('Control+Shift+M'); // hide the panel again: more room for the drawing
+    // The status bar counts the plan's problems (one error here), not only its wrap problems.
+    await page.waitForSelector('.statusbar-item:has-text("1 error")');
 
     reached('preview drawn');
     await page.locator('.monaco-editor .view-lines').first().click();
@@ -86,6 +88,9 @@ async function goToLine(page, line) {
     await page.waitForSelector('.statusbar-item:has-text("selected")');
     await view.locator(`svg.drawing .seg.is-current[data-line="${DRIVE_LINE}"]`).waitFor();
 
+    // With the preview focused (its drawing was just clicked), the summary stays in the status bar.
+    await view.locator('svg.drawing').click({ position: { x: 5, y: 5 } });
+    await page.waitForSelector('.statusbar-item:has-text("1 error")');
     await view.locator(`svg.drawing path.seg[data-line="${SECOND_RUN_DRIVE_LINE}"]`).hover();
     const tooltip = view.locator('.tooltip', { hasText: `line ${SECOND_RUN_DRIVE_LINE + 1}: drive` });
     await tooltip.waitFor({ state: 'visible' });
