@@ -121,6 +121,6 @@ export function toCompletionItem(info: CompletionInfo): vscode.CompletionItem {
   const item = new vscode.CompletionItem(info.label, COMPLETION_KINDS[info.kind]);
   if (info.detail) item.detail = info.detail;
   if (info.insertText) item.insertText = info.insertText;
-  item.sortText = `${info.sortGroup}${info.label}`;
+  item.sortText = `${info.sortGroup}${String(info.sortIndex ?? 0).padStart(3, '0')}${info.label}`;
   return item;
 }

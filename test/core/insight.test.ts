@@ -1,7 +1,7 @@
 import { strict as assert } from 'node:assert';
 import type { CheckResult, Diagnostic, RunResult, Segment, Statement } from '../../src/core/types';
 import {
-  completionsAt, documentSymbols, formatHeading, formatLength, hoverAt, inlayHints, statusSummary,
+  completionsAt, documentSymbols, formatHeading, formatLength, hoverAt, inlayHints, statusSummary, type CompletionInfo,
 } from '../../src/core/insight';
 import { checkPlan, renderSvg, runSummaryLine } from '../../src/core';
 
@@ -220,9 +220,28 @@ describe('insight: completion', () => {
     assert.deepEqual(labels('reset '), ['yaw']);
     assert.ok(labels('turn ').includes('to'));
   });
-  it('offers units after a number', () => {
-    const items = labels('drive 40 ');
-    assert.ok(items.includes('mm') && items.includes('mm/s^2') && items.includes('speed'));
+  it('offers units only while one is typed after a number, and only those that fit the value', () => {
+    assert.deepEqual(labels('drive 40 c').filter((l) => ['mm', 'cm', 'm', 'in', 'deg', 's', 'mm/s^2'].includes(l)), ['mm', 'cm', 'm', 'in']);
+    assert.deepEqual(labels('turn 90 d').filter((l) => ['deg', 'rad', 'mm', 's'].includes(l)), ['deg', 'rad']);
+    assert.ok(labels('drive 40 speed 30 c').includes('mm/s') && !labels('drive 40 speed 30 c').includes('mm'));
+    assert.ok(labels('box "b" (10 c').includes('mm'), 'a point holds lengths');
+    // Right after the space: the statement's options, not a list of units.
+    const afterSpace = labels('turn 90 ');
+    assert.ok(afterSpace.includes('pivot') && !afterSpace.includes('mm') && !afterSpace.includes('deg'));
+  });
+  it('offers nothing at the end of a complete line, so Enter starts a new line', () => {
+    assert.deepEqual(labels('limit 30 s'), []);
+    assert.deepEqual(labels('wheel 56 mm'), []);
+    assert.deepEqual(labels('let leg = 550 mm'), []);
+    assert.deepEqual(labels('turn 90 pivot left'), []);
+  });
+  it('ranks by context: setup first in a new file, motions first inside a run', () => {
+    const inOrder = (items: CompletionInfo[]) => [...items].sort((a, b) => a.sortGroup - b.sortGroup || (a.sortIndex ?? 0) - (b.sortIndex ?? 0)).map((i) => i.label);
+    const empty = inOrder(completionsAt('', { line: 0, character: 0 }));
+    assert.deepEqual(empty.slice(0, 4), ['plan', 'units', 'wheel', 'track']);
+    const plan = 'wheel 56\ntrack 112\nstart (0, 0) heading 0\n';
+    const inRun = inOrder(completionsAt(plan, { line: 3, character: 0 }));
+    assert.deepEqual(inRun.slice(0, 3), ['drive', 'turn', 'mark']);
   });
   it('offers let names bound above, and zone names after `in`', () => {
     const res = planResult();
