@@ -18,7 +18,7 @@ import { chromium } from 'playwright-core';
 
 // The TypeScript sources are CommonJS under tsx: require them, for their named exports.
 const require = createRequire(import.meta.url);
-const { checkPlan, renderSvg } = require('../src/core');
+const { checkPlan, renderSvg, targetTables } = require('../src/core');
 const { buildRenderMessage } = require('../src/shared/messages');
 const { openStandIn } = require('../test/browser/standInHost');
 const { median, round } = require('./stats.js');
@@ -164,7 +164,7 @@ async function main() {
   writeFileSync(PLAN, text);
 
   const uri = `file://${PLAN}`;
-  const message = buildRenderMessage(result, { uri, version: 1 }, -1, renderSvg(result, { standalone: false }));
+  const message = buildRenderMessage(result, { uri, version: 1 }, -1, renderSvg(result, { standalone: false }), targetTables(result, text));
   if (process.env.VEER_BENCH_ONLY === 'preview') {
     // The quick loop while working on the preview: its render time alone, nothing written.
     run('node', ['scripts/build.mjs', '--production']);

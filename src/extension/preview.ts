@@ -4,7 +4,7 @@
 import { previewCsp } from '../shared/csp';
 import { randomBytes } from 'crypto';
 import * as vscode from 'vscode';
-import { renderSvg } from '../core';
+import { renderSvg, targetTables, targetsCsv, targetsMarkdown } from '../core';
 import {
   buildRenderMessage,
   parsePreviewMessage,
@@ -216,7 +216,7 @@ class PathPreview implements vscode.Disposable {
     const { result, version } = getAnalysis(document);
     if (this.run >= result.runs.length) this.run = -1;
     const svg = renderSvg(result, { standalone: false, ...runOption(this.run) });
-    const message = buildRenderMessage(result, { uri: document.uri.toString(), version }, this.run, svg);
+    const message = buildRenderMessage(result, { uri: document.uri.toString(), version }, this.run, svg, targetTables(result, getAnalysis(document).text));
     this.posted = { uri: message.uri, version: message.version };
     this.post(message);
   }
@@ -247,6 +247,13 @@ class PathPreview implements vscode.Disposable {
       case 'exportSvg': {
         const svg = renderSvg(getAnalysis(document).result, { standalone: true, ...runOption(this.run) });
         await this.save(document, 'svg', new TextEncoder().encode(svg));
+        return;
+      }
+      case 'copyTargets': {
+        const analysis = getAnalysis(document);
+        const tables = targetTables(analysis.result, analysis.text, this.run >= 0 ? this.run : undefined);
+        await vscode.env.clipboard.writeText(message.format === 'csv' ? targetsCsv(tables) : targetsMarkdown(tables));
+        void vscode.window.showInformationMessage(`Copied the targets table as ${message.format === 'csv' ? 'CSV' : 'Markdown'}.`);
         return;
       }
       case 'exportPng': {

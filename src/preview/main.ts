@@ -10,6 +10,7 @@ import {
   type SegmentSummary,
 } from '../shared/messages';
 import { rasterise } from './rasterise';
+import { TargetsView } from './targetsView';
 import { importSvg } from './safeSvg';
 import { tooltipLines } from './tooltip';
 import { formatViewBox, isViewBox, panBy, parseViewBox, zoomAbout, type ViewBox } from './viewport';
@@ -21,6 +22,8 @@ interface PreviewState {
   run: number;
   /** Absent while the drawing is fitted to the panel. */
   view?: ViewBox;
+  /** Which tab is shown. */
+  tab?: 'drawing' | 'targets';
 }
 
 interface VsCodeApi {
@@ -43,7 +46,10 @@ function readState(value: unknown): PreviewState | undefined {
   if (typeof value !== 'object' || value === null) return undefined;
   const s = value as Record<string, unknown>;
   if (typeof s.uri !== 'string' || typeof s.version !== 'number' || typeof s.run !== 'number') return undefined;
-  return { uri: s.uri, version: s.version, run: s.run, ...(isViewBox(s.view) ? { view: s.view } : {}) };
+  return {
+    uri: s.uri, version: s.version, run: s.run, ...(isViewBox(s.view) ? { view: s.view } : {}),
+    ...(s.tab === 'targets' ? { tab: 'targets' as const } : {}),
+  };
 }
 
 function element<K extends keyof HTMLElementTagNameMap>(tag: K, props: Partial<HTMLElementTagNameMap[K]> = {}): HTMLElementTagNameMap[K] {
@@ -65,6 +71,13 @@ class Preview {
   private readonly tooltip = element('div', { className: 'tooltip' });
   private readonly status = element('div', { className: 'status', textContent: 'Waiting for the plan…' });
   private readonly notice = element('span', { className: 'notice' });
+  private readonly tabs = element('div', { className: 'tabs' });
+  private readonly drawingTab = element('button', { type: 'button', className: 'tab', textContent: 'Drawing' });
+  private readonly targetsTab = element('button', { type: 'button', className: 'tab', textContent: 'Targets' });
+  private readonly targets = new TargetsView(
+    (line) => this.post({ type: 'reveal', ...this.stamp(), line }),
+    (format) => this.post({ type: 'copyTargets', ...this.stamp(), format }),
+  );
 
   constructor() {
     const button = (label: string, title: string, action: () => void): HTMLButtonElement => {
@@ -89,7 +102,15 @@ class Preview {
     this.tooltip.hidden = true;
     this.tooltip.setAttribute('role', 'tooltip');
     this.stage.append(this.status);
-    document.body.append(toolbar, this.stage, this.tooltip);
+    this.tabs.setAttribute('role', 'tablist');
+    for (const [tab, name] of [[this.drawingTab, 'drawing'], [this.targetsTab, 'targets']] as const) {
+      tab.setAttribute('role', 'tab');
+      tab.dataset.tab = name;
+      tab.addEventListener('click', () => this.showTab(name));
+    }
+    this.tabs.append(this.drawingTab, this.targetsTab);
+    document.body.append(toolbar, this.tabs, this.stage, this.targets.element, this.tooltip);
+    this.showTab(this.state.tab ?? 'drawing', false);
 
     window.addEventListener('message', (event) => this.onMessage(event.data));
     this.stage.addEventListener('wheel', (event) => this.onWheel(event), { passive: false });
@@ -97,6 +118,18 @@ class Preview {
     this.stage.addEventListener('pointermove', (event) => this.onHover(event));
     this.stage.addEventListener('pointerleave', () => { this.tooltip.hidden = true; });
     this.post({ type: 'ready', uri: this.state.uri, version: this.state.version });
+  }
+
+  /** The drawing or the targets table; the choice survives a reload. */
+  private showTab(tab: 'drawing' | 'targets', save = true): void {
+    this.state.tab = tab;
+    const targets = tab === 'targets';
+    this.stage.hidden = targets;
+    this.targets.element.hidden = !targets;
+    this.drawingTab.setAttribute('aria-selected', String(!targets));
+    this.targetsTab.setAttribute('aria-selected', String(targets));
+    document.body.dataset.tab = tab;
+    if (save) this.saveState();
   }
 
   private stamp(): { uri: string; version: number } {
@@ -130,7 +163,7 @@ class Preview {
     svg.removeAttribute('height');
     svg.classList.add('drawing');
     const keepView = sameDocument && message.run === this.state.run ? this.state.view : undefined;
-    this.state = { uri: message.uri, version: message.version, run: message.run, ...(keepView ? { view: keepView } : {}) };
+    this.state = { uri: message.uri, version: message.version, run: message.run, ...(keepView ? { view: keepView } : {}), ...(this.state.tab ? { tab: this.state.tab } : {}) };
     this.fit = parseViewBox(svg.getAttribute('viewBox')) ?? undefined;
     this.svg?.remove();
     this.status.remove();
@@ -150,6 +183,7 @@ class Preview {
     ].filter(Boolean).join(', ');
     this.counts.classList.toggle('has-errors', message.errorCount > 0);
     this.fillRunSelect(message);
+    this.targets.show(message.run >= 0 ? message.targets.slice(message.run, message.run + 1) : message.targets);
     if (!sameDocument) this.currentLine = undefined;
     this.applyHighlight();
     this.saveState();
@@ -172,6 +206,7 @@ class Preview {
   }
 
   private applyHighlight(): void {
+    this.targets.highlight(this.currentLine);
     for (const el of Array.from(this.stage.querySelectorAll('.is-current'))) el.classList.remove('is-current');
     if (this.currentLine === undefined || !this.svg) return;
     for (const el of Array.from(this.svg.querySelectorAll(`[data-line="${this.currentLine}"]`))) el.classList.add('is-current');

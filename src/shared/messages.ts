@@ -2,6 +2,7 @@
 // Every message names the document (URI string) and the document version it
 // belongs to, so either side can drop what arrives late for an older text.
 import type { CheckResult, RunResult, SegmentKind, TurnShape, WheelPair } from '../core/types';
+import type { TargetTable } from '../core/targets';
 import { normaliseHeading } from '../core/solve/frame';
 
 export interface DocumentStamp {
@@ -39,6 +40,8 @@ export interface RenderMessage extends DocumentStamp {
   /** Index into `runNames` of the run drawn, or -1 when every run is drawn. */
   run: number;
   segments: SegmentSummary[];
+  /** The targets table of every run (the table shows the run drawn, or all). */
+  targets: TargetTable[];
   errorCount: number;
   warningCount: number;
 }
@@ -82,7 +85,13 @@ export interface ExportPngMessage extends DocumentStamp {
   base64: string;
 }
 
-export type PreviewMessage = ReadyMessage | RevealMessage | SelectRunMessage | ExportSvgMessage | ExportPngMessage;
+/** Copy the targets table of the run shown (or of every run) to the clipboard. */
+export interface CopyTargetsMessage extends DocumentStamp {
+  type: 'copyTargets';
+  format: 'csv' | 'markdown';
+}
+
+export type PreviewMessage = ReadyMessage | RevealMessage | SelectRunMessage | ExportSvgMessage | ExportPngMessage | CopyTargetsMessage;
 
 /** Largest PNG the host accepts from the webview (base64 characters), so a runaway canvas cannot fill memory. */
 export const MAX_PNG_BASE64 = 64 * 1024 * 1024;
@@ -118,6 +127,8 @@ export function parsePreviewMessage(value: unknown): PreviewMessage | undefined 
       return isIndex(value.run, -1) ? { type: 'selectRun', ...stamp, run: value.run } : undefined;
     case 'exportSvg':
       return { type: 'exportSvg', ...stamp };
+    case 'copyTargets':
+      return value.format === 'csv' || value.format === 'markdown' ? { type: 'copyTargets', ...stamp, format: value.format } : undefined;
     case 'exportPng':
       return typeof value.base64 === 'string' && value.base64.length > 0 && value.base64.length <= MAX_PNG_BASE64
         && /^[A-Za-z0-9+/]+={0,2}$/.test(value.base64)
@@ -134,7 +145,7 @@ export function parseHostMessage(value: unknown): HostMessage | undefined {
   if (value.type === 'cursor') return isIndex(value.line, 0) ? (value as unknown as CursorMessage) : undefined;
   if (value.type === 'render') {
     return typeof value.svg === 'string' && typeof value.title === 'string' && Array.isArray(value.runNames)
-      && Array.isArray(value.segments) && isIndex(value.run, -1)
+      && Array.isArray(value.segments) && Array.isArray(value.targets) && isIndex(value.run, -1)
       ? (value as unknown as RenderMessage)
       : undefined;
   }
@@ -167,7 +178,7 @@ export function summariseSegments(runs: readonly RunResult[]): SegmentSummary[] 
  * The render message for `result`, whose drawing `svg` the caller made with the
  * core's renderer (kept out of here so the webview bundle never pulls in the core).
  */
-export function buildRenderMessage(result: CheckResult, stamp: DocumentStamp, run: number, svg: string): RenderMessage {
+export function buildRenderMessage(result: CheckResult, stamp: DocumentStamp, run: number, svg: string, targets: TargetTable[]): RenderMessage {
   const severities = result.diagnostics.map((d) => d.severity);
   return {
     type: 'render',
@@ -177,6 +188,7 @@ export function buildRenderMessage(result: CheckResult, stamp: DocumentStamp, ru
     runNames: result.runs.map((r) => r.name),
     run,
     segments: summariseSegments(result.runs),
+    targets,
     errorCount: severities.filter((s) => s === 'error').length,
     warningCount: severities.filter((s) => s === 'warning').length,
   };

@@ -243,6 +243,35 @@ describe('path preview webview (Chromium)', function () {
     assert.ok(page.url().startsWith('https://veer-preview.test/'), page.url());
   });
 
+  it('shows the targets table on its tab: a row per motion, linked to the plan lines both ways, and copy buttons', async () => {
+    const message = renderFor(PLAN, URI, 1);
+    await rendered(message);
+    const page = host.page;
+    await page.getByRole('tab', { name: 'Targets' }).click();
+    assert.ok(await page.locator('svg.drawing').isHidden());
+    const rows = page.locator('.targets tbody tr');
+    const expectedRows = message.targets.reduce((n, t) => n + t.rows.length, 0);
+    assert.ok(expectedRows >= 3);
+    assert.strictEqual(await rows.count(), expectedRows);
+    // The first drive's row shows its line (1-based), its text and its wheel degrees, as the core computed them.
+    const drive = message.targets[0].rows.find((r) => r.line === LINE_FIRST_DRIVE + 1)!;
+    const row = page.locator(`.targets tr[data-line="${LINE_FIRST_DRIVE}"]`);
+    const cells = await row.locator('td').allTextContents();
+    assert.strictEqual(cells[0], String(LINE_FIRST_DRIVE + 1));
+    assert.strictEqual(cells[1], drive.motion);
+    assert.strictEqual(Number(cells[4]), Math.round(drive.left_wheel_deg! * 10) / 10);
+    // Cursor to row, and row to plan line.
+    await host.send({ type: 'cursor', uri: URI, version: 1, line: LINE_SPIN });
+    await page.waitForSelector(`.targets tr.is-current[data-line="${LINE_SPIN}"]`);
+    await row.click();
+    assert.deepStrictEqual(await host.waitForPosted('reveal'), { type: 'reveal', uri: URI, version: 1, line: LINE_FIRST_DRIVE });
+    await page.getByRole('button', { name: 'Copy CSV' }).click();
+    assert.deepStrictEqual(await host.waitForPosted('copyTargets'), { type: 'copyTargets', uri: URI, version: 1, format: 'csv' });
+    // The tab is remembered across a reload.
+    assert.strictEqual((await page.evaluate(() => (window as unknown as Win).__state) as { tab?: string }).tab, 'targets');
+    await page.screenshot({ path: 'test-output/preview-targets.png' });
+  });
+
   it('exports a PNG of the drawing, rasterised in the page', async () => {
     await rendered(renderFor(PLAN, URI, 1));
     await host.page.getByRole('button', { name: 'PNG' }).click();

@@ -7,7 +7,7 @@ import { previewCsp } from '../../src/shared/csp';
 import { readFileSync } from 'fs';
 import { join } from 'path';
 import type { Browser, Page } from 'playwright-core';
-import { checkPlan, renderSvg } from '../../src/core';
+import { checkPlan, renderSvg, targetTables } from '../../src/core';
 import { buildRenderMessage, type HostMessage, type PreviewMessage, type RenderMessage } from '../../src/shared/messages';
 
 export const ORIGIN = 'https://veer-preview.test';
@@ -145,5 +145,5 @@ export function fixture(name: string): string {
 export function renderFor(text: string, uri: string, version: number, run = -1): RenderMessage {
   const result = checkPlan(text, { fileName: uri.split('/').pop() ?? uri });
   const svg = renderSvg(result, { standalone: false, ...(run >= 0 ? { run } : {}) });
-  return buildRenderMessage(result, { uri, version }, run, svg);
+  return buildRenderMessage(result, { uri, version }, run, svg, targetTables(result, text));
 }

@@ -1,0 +1,100 @@
+// The targets table beside the drawing: one row per motion with the numbers
+// the robot's code needs. A click on a row shows its line in the editor; the
+// cursor's line is highlighted here as in the drawing; both copy buttons ask
+// the host, which writes the table with the core's own CSV and Markdown.
+import type { TargetRow, TargetTable } from '../core/targets';
+
+/** Columns shown, with headers a student can read; `motion` is the line as written. */
+const COLUMNS: readonly { key: keyof TargetRow; header: string; title: string }[] = [
+  { key: 'line', header: 'Line', title: 'The plan line' },
+  { key: 'motion', header: 'Motion', title: 'The line as written' },
+  { key: 'start_s', header: 'Start (s)', title: 'When the motion starts, from the start of the run' },
+  { key: 'duration_s', header: 'Time (s)', title: 'How long the motion takes' },
+  { key: 'left_wheel_deg', header: 'Wheel L (°)', title: 'Left wheel rotation, degrees' },
+  { key: 'right_wheel_deg', header: 'Wheel R (°)', title: 'Right wheel rotation, degrees' },
+  { key: 'left_motor_deg', header: 'Motor L (°)', title: 'Left motor target, degrees: with the gear and, for encoder turns, the effective track' },
+  { key: 'right_motor_deg', header: 'Motor R (°)', title: 'Right motor target, degrees: with the gear and, for encoder turns, the effective track' },
+  { key: 'yaw_target_deg', header: 'Yaw target (°)', title: 'The reading the robot\'s code steers to' },
+  { key: 'power_pct', header: 'Power (%)', title: 'Top power' },
+  { key: 'min_power_pct', header: 'Min (%)', title: 'Lowest power of a gyro or ramped turn' },
+  { key: 'speed_mm_s', header: 'Speed (mm/s)', title: 'Wheel speed at the top power' },
+];
+
+function cell(row: TargetRow, key: keyof TargetRow): string {
+  const v = row[key];
+  if (v === undefined || v === null) return key === 'duration_s' ? '?' : '';
+  return typeof v === 'number' ? (Number.isInteger(v) ? String(v) : v.toFixed(key === 'start_s' || key === 'duration_s' ? 2 : 1)) : v;
+}
+
+export class TargetsView {
+  readonly element = document.createElement('div');
+  private readonly body = document.createElement('div');
+  private rows: HTMLTableRowElement[] = [];
+
+  constructor(reveal: (line: number) => void, copy: (format: 'csv' | 'markdown') => void) {
+    this.element.className = 'targets';
+    this.element.hidden = true;
+    const actions = document.createElement('div');
+    actions.className = 'targets-actions';
+    for (const [label, format] of [['Copy CSV', 'csv'], ['Copy Markdown', 'markdown']] as const) {
+      const b = document.createElement('button');
+      b.type = 'button';
+      b.textContent = label;
+      b.dataset.action = `copy-${format}`;
+      b.title = `Copy the table as ${format === 'csv' ? 'CSV (for a spreadsheet or your code)' : 'Markdown (for notes)'}`;
+      b.addEventListener('click', () => copy(format));
+      actions.append(b);
+    }
+    this.element.append(actions, this.body);
+    this.body.addEventListener('click', (event) => {
+      const row = (event.target as Element | null)?.closest?.('tr[data-line]');
+      const line = Number(row?.getAttribute('data-line'));
+      if (row && Number.isInteger(line) && line >= 0) reveal(line);
+    });
+  }
+
+  show(tables: readonly TargetTable[]): void {
+    this.rows = [];
+    const parts: HTMLElement[] = [];
+    for (const t of tables) {
+      const heading = document.createElement('h3');
+      heading.textContent = t.run;
+      const table = document.createElement('table');
+      const head = table.createTHead().insertRow();
+      for (const c of COLUMNS) {
+        const th = document.createElement('th');
+        th.textContent = c.header;
+        th.title = c.title;
+        th.scope = 'col';
+        if (c.key !== 'motion') th.className = 'num';
+        head.append(th);
+      }
+      const body = table.createTBody();
+      for (const row of t.rows) {
+        const tr = body.insertRow();
+        // Lines are 1-based in the table and 0-based in messages.
+        tr.dataset.line = String(row.line - 1);
+        tr.title = 'Show this line in the plan';
+        for (const c of COLUMNS) {
+          const td = tr.insertCell();
+          td.textContent = cell(row, c.key);
+          if (c.key !== 'motion') td.className = 'num';
+          else td.classList.add('motion');
+        }
+        this.rows.push(tr);
+      }
+      parts.push(heading, table);
+    }
+    if (parts.length === 0) {
+      const empty = document.createElement('p');
+      empty.className = 'status';
+      empty.textContent = 'No motions yet: add a `start` and a `drive` or `turn`.';
+      parts.push(empty);
+    }
+    this.body.replaceChildren(...parts);
+  }
+
+  highlight(line: number | undefined): void {
+    for (const tr of this.rows) tr.classList.toggle('is-current', line !== undefined && tr.dataset.line === String(line));
+  }
+}
