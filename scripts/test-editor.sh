@@ -26,11 +26,13 @@ bash "$TOOL" ext-test "$ROOT/test/editor/workspace" "$ROOT" "$ROOT/test/editor" 
 rm -f "$VSIX"
 npm run --silent package -- --out "$VSIX" >"$OUT/package.log" 2>&1 || { cat "$OUT/package.log"; exit 1; }
 ui_status=0
-# REAL_EDITOR_DIR tells the UI script where the tool's page helpers are.
-REAL_EDITOR_DIR="$(dirname "$TOOL")" EXTENSIONS="$VSIX" \
-  bash "$TOOL" ui "$ROOT/test/editor/workspace" "$ROOT/test/editor/ui/preview-ui.js" "$OUT" || ui_status=$?
+# REAL_EDITOR_DIR tells the UI scripts where the tool's page helpers are.
+for script in preview-ui.js typing-ui.js; do
+  REAL_EDITOR_DIR="$(dirname "$TOOL")" EXTENSIONS="$VSIX" \
+    bash "$TOOL" ui "$ROOT/test/editor/workspace" "$ROOT/test/editor/ui/$script" "$OUT" || ui_status=$?
+done
 # Leave the development build (with source maps) in dist/, as `npm run build` does.
 node scripts/build.mjs
 
-echo "test-editor: extension host suite $([ $host_status = 0 ] && echo passed || echo "FAILED ($host_status)"); UI script $([ $ui_status = 0 ] && echo passed || echo "FAILED ($ui_status)")"
+echo "test-editor: extension host suite $([ $host_status = 0 ] && echo passed || echo "FAILED ($host_status)"); UI scripts $([ $ui_status = 0 ] && echo passed || echo "FAILED ($ui_status)")"
 [ $host_status = 0 ] && [ $ui_status = 0 ]

@@ -11,7 +11,10 @@ export function registerCompletion(context: vscode.ExtensionContext): void {
       {
         provideCompletionItems(document, position) {
           const text = document.getText();
-          return completionsAt(text, fromPosition(position), getAnalysis(document).result).map(toCompletionItem);
+          const items = completionsAt(text, fromPosition(position), getAnalysis(document).result).map(toCompletionItem);
+          // Incomplete: asked again on every keystroke, so a list closes as soon as the word on the
+          // line is complete (the core then offers nothing) and Enter starts a new line.
+          return new vscode.CompletionList(items, true);
         },
       },
       ' ',

@@ -164,15 +164,18 @@ describe('Veer language features', () => {
   });
 
   it('completes turn options, the words after `pivot`, and units', async () => {
-    const scratch = await vscode.workspace.openTextDocument({ language: 'veer', content: 'turn 90 pivot \ndrive 40 ' });
+    const scratch = await vscode.workspace.openTextDocument({ language: 'veer', content: 'turn 90 pivot \ndrive 40 \ndrive 40 c' });
     const labels = async (line, character) => {
       const list = await vscode.commands.executeCommand('vscode.executeCompletionItemProvider', scratch.uri, new vscode.Position(line, character));
       return list.items.map((i) => (typeof i.label === 'string' ? i.label : i.label.label));
     };
     const afterPivot = await labels(0, 14);
     assert.ok(afterPivot.includes('left') && afterPivot.includes('right'), afterPivot.join(','));
+    // After a number and a space: the drive's options; a unit only once one is being typed (and only lengths here).
     const afterNumber = await labels(1, 9);
-    assert.ok(afterNumber.includes('mm') && afterNumber.includes('speed') && afterNumber.includes('hold'), afterNumber.join(','));
+    assert.ok(afterNumber.includes('speed') && afterNumber.includes('hold') && !afterNumber.includes('mm'), afterNumber.join(','));
+    const typingUnit = await labels(2, 10);
+    assert.ok(typingUnit.includes('cm') && !typingUnit.includes('deg'), typingUnit.join(','));
   });
 
   it('"Veer: New Plan" opens a template plan that checks cleanly', async () => {
