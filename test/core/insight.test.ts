@@ -164,15 +164,18 @@ describe('insight: hover', () => {
 });
 
 describe('insight: inlay hints', () => {
-  it('puts end heading and yaw at the end of motion lines, motor degrees on encoder turns', () => {
+  it('puts the end facing, the yaw reading and the motor degrees (whole degrees) at the end of motion lines, within the editor\'s hint width', () => {
     const hints = inlayHints(planResult());
     const byLine = new Map(hints.map((h) => [h.position.line, h]));
     assert.deepEqual([...byLine.keys()], [4, 5, 6, 7, 10]);
     assert.deepEqual(byLine.get(5)?.position, { line: 5, character: 21 }); // end of `drive 3 * lane hold 0`, before the comment
-    assert.equal(byLine.get(5)?.label, '→ heading 0° · yaw 0°');
-    assert.equal(byLine.get(6)?.label, '→ heading 90° · yaw 90° · motor L 188.7°, R -188.7°');
-    // -90 field heading shown as 270 (mod 360); motor degrees 2 × 188.71 = 377.4 (SPIN_MOTOR_DEG).
-    assert.equal(byLine.get(7)?.label, '→ heading 270° · yaw -90° · motor L -377.4°, R 377.4°');
+    assert.equal(byLine.get(5)?.label, '→ 0° · yaw 0° · L 1387° R 1387°'); // the drive's motor degrees, from the segment built above
+    assert.equal(byLine.get(6)?.label, '→ 90° · yaw 90° · L 189° R -189°');
+    // -90 field heading shown as 270 (mod 360); motor degrees 2 × 188.71 = 377.4, so 377 (SPIN_MOTOR_DEG).
+    assert.equal(byLine.get(7)?.label, '→ 270° · yaw -90° · L -377° R 377°');
+    // The editor shows at most 43 characters of a hint by default (editor.inlayHints.maximumLength).
+    for (const h of hints) assert.ok(h.label.length <= 43, h.label);
+    assert.match(byLine.get(6)!.tooltip!, /motor degrees/);
   });
   it('limits hints to the requested lines', () => {
     assert.deepEqual(inlayHints(planResult(), { from: 6, to: 7 }).map((h) => h.position.line), [6, 7]);

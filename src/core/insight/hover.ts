@@ -1,7 +1,7 @@
 // Hover text for a plan: a `let` name's value, an expression's value in the
 // file's units, or everything computed for a motion line.
 import type { CheckResult, LengthUnitName, MotionStmt, Pos, Range, Segment, Statement } from '../types';
-import { formatAngle, formatHeading, formatLength, formatTime, formatWheels } from './format';
+import { formatAngle, formatHeading, formatLength, formatNumber, formatTime, formatWheels } from './format';
 import { identifierAt, rangeContains, rangeSize, splitLines } from './text';
 
 export interface HoverInfo {
@@ -44,7 +44,21 @@ function motionHover(result: CheckResult, pos: Pos): HoverInfo | undefined {
   if (!statement) return undefined;
   const segments = result.runs.flatMap((run) => run.segments).filter((segment) => segment.line === pos.line);
   if (segments.length === 0) return undefined;
-  return { markdown: describeSegments(segments, result.setup.lengthUnit), range: statement.range };
+  return { markdown: describeSegments(segments, result.setup.lengthUnit, robotNotes(result, segments)), range: statement.range };
+}
+
+/** Why motor degrees differ from wheel degrees, when they do: the gear and the effective track. */
+function robotNotes(result: CheckResult, segments: Segment[]): string[] {
+  const robot = result.setup.robot;
+  const notes: string[] = [];
+  if (robot.gear !== undefined && robot.gear !== 1 && segments.some((s) => s.motorDeg)) {
+    notes.push(`motor degrees include the gear: ${formatNumber(robot.gear, 3)} motor degrees per wheel degree`);
+  }
+  const encoderTurn = segments.some((s) => s.kind === 'turn' && s.sensing === 'encoders' && s.motorDeg);
+  if (encoderTurn && robot.effectiveTrack !== undefined && robot.track !== undefined && robot.effectiveTrack !== robot.track) {
+    notes.push(`this encoder turn's motor degrees use the effective track, ${formatLength(robot.effectiveTrack, result.setup.lengthUnit)} (measured: ${formatLength(robot.track, result.setup.lengthUnit)}), which is what the robot really needs to turn; the wheel degrees use the measured track`);
+  }
+  return notes;
 }
 
 /**
@@ -52,7 +66,7 @@ function motionHover(result: CheckResult, pos: Pos): HoverInfo | undefined {
  * place, then the drive): the hover spans from the first one's start to the
  * last one's end and adds up what adds up.
  */
-export function describeSegments(segments: Segment[], unit: LengthUnitName): string {
+export function describeSegments(segments: Segment[], unit: LengthUnitName, notes: string[] = []): string {
   const first = segments[0];
   const last = segments[segments.length - 1];
   const sum = (pick: (s: Segment) => number | undefined) => segments.reduce((total, s) => total + (pick(s) ?? 0), 0);
@@ -63,8 +77,16 @@ export function describeSegments(segments: Segment[], unit: LengthUnitName): str
 
   const title = [`**${first.kind}**`, first.shape, first.sensing && `by ${first.sensing}`].filter(Boolean).join(' · ');
   const place = (x: number, y: number) => `(${formatLength(x, unit)}, ${formatLength(y, unit)})`;
+  // The numbers the robot's code needs come first, on one line.
+  const motorsFirst = sumPairs((s) => s.motorDeg);
+  const targetFirst = segments.find((s) => s.yawTarget !== undefined)?.yawTarget;
+  const needs = [
+    motorsFirst && `motors ${formatWheels(motorsFirst)}`,
+    targetFirst !== undefined && `yaw target ${formatAngle(targetFirst)}`,
+    `time ${formatTime(sum((s) => s.duration))}`,
+  ].filter(Boolean);
   const lines = [
-    title,
+    `${title}: ${needs.join(' · ')}`,
     '',
     '| | start | end |',
     '|---|---|---|',
@@ -89,5 +111,6 @@ export function describeSegments(segments: Segment[], unit: LengthUnitName): str
   facts.push(`time: ${formatTime(sum((s) => s.duration))}`);
   if (segments.some((s) => !s.complete)) facts.push('_some values of this line could not be computed_');
   lines.push(facts.join('  \n'));
+  if (notes.length) lines.push('', ...notes.map((n) => `_${n}_`));
   return lines.join('\n');
 }

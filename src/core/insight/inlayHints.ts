@@ -1,8 +1,8 @@
 // Short facts shown at the end of each motion line while typing: where the
-// robot ends up facing, what the yaw sensor then reads, and for encoder turns
-// the motor degrees the robot's code must command.
+// robot ends up facing, what the yaw sensor then reads, and the motor degrees
+// the robot's code must command.
 import type { CheckResult, Pos, Segment, Statement } from '../types';
-import { formatAngle, formatHeading, formatWheels } from './format';
+import { formatAngle, formatHeading } from './format';
 
 export interface InlayHintInfo {
   position: Pos;
@@ -26,14 +26,20 @@ export function inlayHints(result: CheckResult, lines?: { from: number; to: numb
     const segments = segmentsByLine.get(statement.line);
     if (!segments) continue;
     const last = segments[segments.length - 1];
-    const parts = [`heading ${formatHeading(last.end.heading)}`, `yaw ${formatAngle(last.yawEnd)}`];
-    const encoderTurn = segments.find((s) => s.kind === 'turn' && s.sensing === 'encoders' && s.motorDeg);
-    if (encoderTurn?.motorDeg) parts.push(`motor ${formatWheels(encoderTurn.motorDeg)}`);
+    // Short enough for the editor's default hint width (43 characters): the facing, the
+    // reading, and the motor degrees in whole degrees; the tooltip says what each is.
+    const parts = [formatHeading(last.end.heading), `yaw ${formatAngle(last.yawEnd)}`];
+    const moving = segments.filter((s) => s.motorDeg);
+    if (moving.length) {
+      const left = moving.reduce((t, s) => t + s.motorDeg!.left, 0);
+      const right = moving.reduce((t, s) => t + s.motorDeg!.right, 0);
+      parts.push(`L ${Math.round(left)}° R ${Math.round(right)}°`);
+    }
     hints.push({
       position: statement.range.end,
       label: `→ ${parts.join(' · ')}`,
-      tooltip: 'End heading on the field, the yaw sensor reading after this line' +
-        (encoderTurn ? ', and the motor degrees to command for this encoder turn' : ''),
+      tooltip: `Facing ${formatHeading(last.end.heading)} on the field after this line; the yaw sensor then reads ${formatAngle(last.yawEnd)}` +
+        (moving.length ? '; the motor degrees to command, left and right (hover the line for the exact values)' : ''),
     });
   }
   return hints;

@@ -63,9 +63,9 @@ describe('Veer language features', () => {
       const hint = hints.find((h) => h.position.line === line);
       return hint && (typeof hint.label === 'string' ? hint.label : hint.label.map((p) => p.value).join(''));
     };
-    assert.equal(label(10), '→ heading 90° · yaw 90°');
+    assert.equal(label(10), `→ 90° · yaw 90° · L ${Math.round(GYRO_SPIN_WHEEL_DEG)}° R -${Math.round(GYRO_SPIN_WHEEL_DEG)}°`);
     // 0 + 3 × 90 = 270° on the field; the yaw reading wrapped at 180 reads -180 + 90 = -90.
-    assert.equal(label(12), `→ heading 270° · yaw -90° · motor L ${ENCODER_SPIN_MOTOR_DEG}°, R -${ENCODER_SPIN_MOTOR_DEG}°`);
+    assert.equal(label(12), `→ 270° · yaw -90° · L ${Math.round(ENCODER_SPIN_MOTOR_DEG)}° R -${Math.round(ENCODER_SPIN_MOTOR_DEG)}°`);
     assert.equal(hints.find((h) => h.position.line === 12).position.character, 'turn 90 by encoders'.length);
   });
 
