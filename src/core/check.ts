@@ -133,7 +133,7 @@ function checkPlanUnguarded(text: string, options: CheckOptions): CheckResult {
       const guess = suggestWord(out.name, nameList);
       if (guess) {
         d.message += `: did you mean \`${guess}\`?`;
-        d.fixes = [{ title: `Change to \`${guess}\``, edits: [{ range: d.range, newText: guess }], preferred: true }];
+        d.fixes = [{ title: `Change to "${guess}"`, edits: [{ range: d.range, newText: guess }], preferred: true }];
       } else {
         d.message += `; bind it first with \`let ${out.name} = ...\``;
       }
@@ -348,6 +348,8 @@ function checkPlanUnguarded(text: string, options: CheckOptions): CheckResult {
   options.onProgress?.(1);
 
   diagnostics.sort(compareDiagnostics);
+  // Every message reads as a sentence (a message that opens with quoted plan text keeps it as written).
+  for (const d of diagnostics) d.message = sentenceCase(d.message);
   const result: CheckResult = { ast, setup, runs: solved, diagnostics, names, values };
   attachFixes(result, text);
   return result;
@@ -437,6 +439,11 @@ function narrowTo(expr: ExprNode, name: string | undefined): Range {
     return { start: { line: expr.range.start.line, character: col }, end: { line: expr.range.start.line, character: col + name.length } };
   }
   return expr.range;
+}
+
+function sentenceCase(message: string): string {
+  const first = message.charAt(0);
+  return first >= 'a' && first <= 'z' ? first.toUpperCase() + message.slice(1) : message;
 }
 
 export function compareDiagnostics(a: Diagnostic, b: Diagnostic): number {

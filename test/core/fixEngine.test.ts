@@ -97,7 +97,7 @@ describe('fix engine: every fix offered keeps its promises', function () {
     // The generator must reach every kind of fix, or the property says little.
     const kinds = [...byTitle.keys()].join('\n');
     for (const expected of [/^Add reset to this turn/m, /^Insert "reset yaw" before this line$/m, /and turn to N/m, /and hold N/m,
-      /^Turn by encoders instead/m, /^Split into N gyro turns/m, /^Add step/m, /^Turn onto/m, /^Turn the short way/m, /^Change to `turn`/m]) {
+      /^Turn by encoders instead/m, /^Split into N gyro turns/m, /^Add step/m, /^Turn onto/m, /^Turn the short way/m, /^Change to "turn"/m]) {
       assert.match(kinds, expected);
     }
     assert.ok(fixesTried > PLANS, `only ${fixesTried} fixes tried`);

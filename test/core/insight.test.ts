@@ -287,3 +287,27 @@ describe('insight: status summary', () => {
     assert.ok(svg.includes(`· ${time}`), 'the legend shows the same time');
   });
 });
+
+describe('insight: hovers on the words of the language', () => {
+  const text = 'wheel 58 mm\ntrack 121 mm effective 123 mm\nbody 140 by 170 axle -25\nstart (0, 0) heading 0\nturn 90 pivot left';
+  const res = checkPlan(text);
+  const at = (line: number, character: number) => hoverAt(res, text, { line, character })?.markdown ?? '';
+
+  it('explains `effective` with the motor degrees it leads to', () => {
+    const md = at(1, 15);
+    assert.match(md, /^\*\*effective\*\*/);
+    // A 90° spin on the 123 mm effective track and 58 mm wheels: (123/2)(π/2) / (π · 58) · 360 = 190.9° (arc length over circumference).
+    assert.ok(md.includes(`${(((123 / 2) * (Math.PI / 2)) / (Math.PI * 58) * 360).toFixed(1)}°`), md);
+    assert.match(md, /measured 121 mm/);
+  });
+
+  it('explains `axle` in plain words first', () => {
+    assert.match(at(2, 17), /point midway between the wheels \(the axle midpoint\)/);
+  });
+
+  it('on a motion line, the numbers come first and the word\'s meaning after', () => {
+    const md = at(4, 10);
+    assert.ok(md.indexOf('motors L') < md.indexOf('**pivot**'), md);
+    assert.match(md, /effective track, 123 mm \(measured: 121 mm\)/);
+  });
+});

@@ -391,7 +391,7 @@ describe('parsePlan', () => {
         assert.deepEqual(diagnostic.range, span(0, start, end));
         // A change of case alone needs no choice by a person (`veer fix` applies it).
         assert.deepEqual(diagnostic.fixes, [{
-          title: `Change to \`${suggestion}\``,
+          title: `Change to "${suggestion}"`,
           edits: [{ range: span(0, start, end), newText: suggestion }],
           preferred: true,
           ...(suggestion.toLowerCase() === word.toLowerCase() ? { safe: true } : {}),

@@ -3,6 +3,7 @@
 import type { CheckResult, LengthUnitName, MotionStmt, Pos, Range, Segment, Statement } from '../types';
 import { formatAngle, formatHeading, formatLength, formatNumber, formatTime, formatWheels } from './format';
 import { identifierAt, rangeContains, rangeSize, splitLines } from './text';
+import { WORD_EXPLANATIONS } from './explain';
 
 export interface HoverInfo {
   /** Markdown. */
@@ -13,7 +14,22 @@ export interface HoverInfo {
 const MOTION_KINDS = new Set<Statement['kind']>(['start', 'drive', 'turn', 'resetYaw', 'square', 'wait', 'mark']);
 
 export function hoverAt(result: CheckResult, text: string, pos: Pos): HoverInfo | undefined {
-  return nameHover(result, text, pos) ?? valueHover(result, pos) ?? motionHover(result, pos);
+  const word = wordHover(result, text, pos);
+  const motion = motionHover(result, pos);
+  if (motion && word) return { markdown: `${motion.markdown}\n\n---\n\n${word.markdown}`, range: motion.range };
+  return nameHover(result, text, pos) ?? valueHover(result, pos) ?? motion ?? word;
+}
+
+/** A word of the language under the cursor (`track`, `effective`, `pivot`, ...), explained with this plan's values. */
+function wordHover(result: CheckResult, text: string, pos: Pos): HoverInfo | undefined {
+  const lineText = splitLines(text)[pos.line];
+  if (lineText === undefined) return undefined;
+  const word = identifierAt(lineText, pos);
+  if (!word || Object.prototype.hasOwnProperty.call(result.names, word.word)) return undefined;
+  const statement = result.ast.statements.find((s) => s.line === pos.line);
+  if (!statement || !rangeContains(statement.range, pos)) return undefined;
+  const explain = Object.prototype.hasOwnProperty.call(WORD_EXPLANATIONS, word.word) ? WORD_EXPLANATIONS[word.word] : undefined;
+  return explain ? { markdown: explain(result), range: word.range } : undefined;
 }
 
 function nameHover(result: CheckResult, text: string, pos: Pos): HoverInfo | undefined {

@@ -2,7 +2,7 @@
 import type { Pos, Range } from '../types';
 
 export function splitLines(text: string): string[] {
-  return text.split(/\r?\n/);
+  return text.split(/\r\n|\r|\n/); // the editor's line breaks, as the parser reads them
 }
 
 export function comparePos(a: Pos, b: Pos): number {

@@ -688,7 +688,7 @@ class LineReader {
       throw new LineProblem(token.start, token.end,
         `unknown word \`${abbreviate(token.text)}\`: did you mean \`${suggestion}\`?`,
         [{
-          title: `Change to \`${suggestion}\``,
+          title: `Change to "${suggestion}"`,
           edits: [{ range: this.range(token.start, token.end), newText: suggestion }],
           preferred: true,
           ...(suggestion.toLowerCase() === token.text.toLowerCase() ? { safe: true } : {}),

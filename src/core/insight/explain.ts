@@ -1,0 +1,57 @@
+// What the language's words mean, for hovers on them, with the values they
+// lead to in this plan where that helps (a student's first question about
+// `effective` or `axle` is "what does it do to my numbers?").
+import type { CheckResult } from '../types';
+import { formatLength, formatNumber } from './format';
+
+type Explain = (result: CheckResult) => string;
+
+const RAD = Math.PI / 180;
+
+/** A 90° spin's wheel degrees on a track, for showing what the track does. */
+function quarterSpin(result: CheckResult, track: number): string | undefined {
+  const d = result.setup.robot.wheelDiameter;
+  if (d === undefined) return undefined;
+  return `${formatNumber((((track / 2) * 90 * RAD) / (Math.PI * d)) * 360, 1)}°`;
+}
+
+export const WORD_EXPLANATIONS: Record<string, Explain> = {
+  wheel: (r) => `**wheel**: the wheel's diameter, measured across the tyre. Every wheel and motor degree comes from it: one wheel turn drives π × diameter` +
+    (r.setup.robot.wheelDiameter !== undefined ? ` (here ${formatLength(Math.PI * r.setup.robot.wheelDiameter, r.setup.lengthUnit)}).` : '.'),
+  track: (r) => {
+    const t = r.setup.robot.track;
+    const spin = t !== undefined ? quarterSpin(r, t) : undefined;
+    return `**track**: the distance between the two wheels, from the middle of one tyre to the middle of the other. Turns and footprints use it` +
+      (spin ? `; a 90° spin turns each wheel ${spin}.` : '.');
+  },
+  effective: (r) => {
+    const { track, effectiveTrack } = r.setup.robot;
+    const spin = effectiveTrack !== undefined ? quarterSpin(r, effectiveTrack) : undefined;
+    return '**effective**: the track that turns by encoders really need. The tyres scrub as the robot turns, so it turns a little less than the wheel degrees say; measure it by turning ten times by encoders and correcting. ' +
+      (effectiveTrack !== undefined && track !== undefined ? `Here ${formatLength(effectiveTrack, r.setup.lengthUnit)} (measured ${formatLength(track, r.setup.lengthUnit)})` : '') +
+      (spin ? `: a 90° encoder spin commands ${spin} per motor.` : '.');
+  },
+  axle: () => '**axle**: how far the point midway between the wheels (the axle midpoint) sits ahead of the middle of the footprint; negative when it sits behind. Positions in the plan are of that point.',
+  body: () => '**body**: the robot\'s footprint seen from above, width across by length along its heading, used to find collisions and walls. Without it Veer uses a circle as wide as the track.',
+  gear: (r) => `**gear**: motor degrees per wheel degree (1 when the wheels sit on the motors). Here ${formatNumber(r.setup.robot.gear ?? 1, 3)}.`,
+  motor: () => '**motor**: how fast the motor turns at full power (e.g. `900 deg/s` or `150 rpm`), and with `lag` how long it takes to get up to speed. Times come from it.',
+  lag: () => '**lag**: the motor\'s time constant: about how long it takes to reach two thirds of a new speed.',
+  field: () => '**field**: the size of the board (width by height, from its lower-left corner); with `grid`, the spacing of the drawn grid.',
+  limit: (r) => `**limit**: the time allowed for each run${r.setup.limit !== undefined ? ` (here ${formatNumber(r.setup.limit, 1)} s)` : ''}; Veer warns when a run takes longer.`,
+  units: (r) => `**units**: the unit of bare lengths (here ${r.setup.lengthUnit}); write a unit after any number to use another.`,
+  turns: (r) => `**turns**: which way positive headings and turns go (here ${r.setup.turns}).`,
+  hold: () => '**hold**: the gyro keeps the yaw reading at this value while driving (the robot steers back when it drifts).',
+  step: () => '**step**: the held heading is meant to differ from the current one: the robot turns onto it while driving.',
+  gain: () => '**gain**: how hard the robot steers per degree of error, in % power per degree.',
+  min: () => '**min**: the lowest power of a gyro turn near its target, so the robot still moves.',
+  stop: () => '**stop**: how close to the target reading the robot stops (the reading never equals it exactly).',
+  ramp: () => '**ramp**: speed up and slow down gently instead of jumping to full speed.',
+  reset: () => '**reset**: the yaw sensor reads zero just before this turn, so its target is the turn\'s own angle.',
+  spin: () => '**spin**: both wheels turn opposite ways; the robot turns on the spot.',
+  pivot: () => '**pivot**: one wheel stays still and the robot turns about it: the other wheel sweeps a wider circle than a spin.',
+  arc: () => '**arc**: the point midway between the wheels follows a circle of this radius.',
+  ratio: () => '**ratio**: the inner wheel\'s speed as a share of the outer wheel\'s: -100 % is a spin, 0 % a pivot.',
+  gyro: () => '**by gyro**: turn until the yaw sensor reads the target. Mind the wrap point of the sensor\'s range.',
+  encoders: () => '**by encoders**: turn each wheel by computed degrees; the yaw sensor is not used.',
+  square: () => '**square**: drive until the front (or back) meets a wall, and end square to it.',
+};
