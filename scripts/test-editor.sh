@@ -31,6 +31,9 @@ for script in preview-ui.js typing-ui.js; do
   REAL_EDITOR_DIR="$(dirname "$TOOL")" EXTENSIONS="$VSIX" \
     bash "$TOOL" ui "$ROOT/test/editor/workspace" "$ROOT/test/editor/ui/$script" "$OUT" || ui_status=$?
 done
+# The pictures in docs/ (walkthrough, preview in light and dark), taken by the test itself.
+REAL_EDITOR_DIR="$(dirname "$TOOL")" EXTENSIONS="$VSIX" \
+  bash "$TOOL" ui "$ROOT/test/editor/workspace" "$ROOT/test/editor/ui/docs-ui.js" "$ROOT/docs" || ui_status=$?
 # Leave the development build (with source maps) in dist/, as `npm run build` does.
 node scripts/build.mjs
 

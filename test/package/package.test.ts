@@ -109,8 +109,12 @@ describe('package.json', () => {
     const icons = collect(pkg.contributes, 'icon').flatMap((i) =>
       typeof i === 'string' ? [i] : i && typeof i === 'object' ? Object.values(i as Record<string, string>) : [],
     ).filter((i) => !/^\$\(/.test(i));
+    // The walkthrough's media (markdown and images) and the extension's own icon.
+    const media = [...collect(pkg.contributes, 'markdown'), ...collect(pkg.contributes, 'image')].filter((m): m is string => typeof m === 'string');
+    assert.ok(media.length >= 4, 'every walkthrough step has its media');
+    assert.equal(typeof pkg.icon, 'string', 'the extension has an icon');
     assert.ok(paths.length >= 3, 'grammar, snippets and language configuration are contributed');
-    for (const file of [...paths, ...icons]) {
+    for (const file of [...paths, ...icons, ...media, pkg.icon]) {
       const relative = posix.normalize(file);
       assert.ok(existsSync(join(root, relative)), `${file} does not exist`);
       assert.ok(
