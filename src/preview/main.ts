@@ -41,6 +41,9 @@ const NOT_REVEALED = '.field, .grid';
 /** A press that moves less than this many pixels is a click, not a drag. */
 const CLICK_SLOP_PX = 4;
 const BUTTON_ZOOM_FACTOR = 1.5;
+/** Where to look around the pointer for something to hit: the point itself, then rings of 3 and 6 pixels. */
+const HIT_OFFSETS: readonly [number, number][] = [[0, 0],
+  ...[3, 6].flatMap((r) => [0, 45, 90, 135, 180, 225, 270, 315].map((a) => [Math.round(r * Math.cos((a * Math.PI) / 180)), Math.round(r * Math.sin((a * Math.PI) / 180))] as [number, number]))];
 
 function readState(value: unknown): PreviewState | undefined {
   if (typeof value !== 'object' || value === null) return undefined;
@@ -71,6 +74,7 @@ class Preview {
   private readonly tooltip = element('div', { className: 'tooltip' });
   private readonly status = element('div', { className: 'status', textContent: 'Waiting for the plan…' });
   private readonly notice = element('span', { className: 'notice' });
+  private readonly readout = element('span', { className: 'readout' });
   private readonly tabs = element('div', { className: 'tabs' });
   private readonly drawingTab = element('button', { type: 'button', className: 'tab', textContent: 'Drawing' });
   private readonly targetsTab = element('button', { type: 'button', className: 'tab', textContent: 'Targets' });
@@ -92,7 +96,7 @@ class Preview {
     const toolbar = element('div', { className: 'toolbar' });
     toolbar.setAttribute('role', 'toolbar');
     toolbar.append(
-      this.title, this.runSelect, this.counts, this.notice, element('span', { className: 'spacer' }),
+      this.title, this.runSelect, this.counts, this.notice, element('span', { className: 'spacer' }), this.readout,
       button('Fit', 'Fit the drawing to the panel', () => this.setView(undefined)),
       button('+', 'Zoom in', () => this.zoomCentre(BUTTON_ZOOM_FACTOR)),
       button('−', 'Zoom out', () => this.zoomCentre(1 / BUTTON_ZOOM_FACTOR)),
@@ -116,7 +120,7 @@ class Preview {
     this.stage.addEventListener('wheel', (event) => this.onWheel(event), { passive: false });
     this.stage.addEventListener('pointerdown', (event) => this.onPointerDown(event));
     this.stage.addEventListener('pointermove', (event) => this.onHover(event));
-    this.stage.addEventListener('pointerleave', () => { this.tooltip.hidden = true; });
+    this.stage.addEventListener('pointerleave', () => { this.tooltip.hidden = true; this.readout.textContent = ''; });
     this.post({ type: 'ready', uri: this.state.uri, version: this.state.version });
   }
 
@@ -251,8 +255,7 @@ class Preview {
 
   private onPointerDown(event: PointerEvent): void {
     if (event.button !== 0 || !this.svg) return;
-    const hit = (event.target as Element | null)?.closest?.('[data-line]');
-    const lineElement = hit && !hit.matches(NOT_REVEALED) ? hit : undefined;
+    const lineElement = this.hitAt(event.clientX, event.clientY, '[data-line]');
     const start = { x: event.clientX, y: event.clientY };
     let last = start;
     let dragging = false;
@@ -283,15 +286,44 @@ class Preview {
     this.stage.addEventListener('pointercancel', up);
   }
 
+  /**
+   * The drawn element under a point, or failing that the nearest one within a
+   * few pixels: a thin path is hard to hit exactly.
+   */
+  private hitAt(clientX: number, clientY: number, selector: string): Element | undefined {
+    for (const [dx, dy] of HIT_OFFSETS) {
+      for (const el of document.elementsFromPoint(clientX + dx, clientY + dy)) {
+        if (!this.svg?.contains(el)) continue;
+        const hit = el.closest(selector);
+        if (hit && !hit.matches(NOT_REVEALED)) return hit;
+      }
+    }
+    return undefined;
+  }
+
+  /** Field coordinates (mm) of a client point, from the drawing's frame. */
+  private fieldAt(clientX: number, clientY: number): { x: number; y: number } | undefined {
+    const frame = this.svg?.getAttribute('data-frame')?.split(' ').map(Number);
+    const p = this.toUser(clientX, clientY);
+    if (!frame || frame.length !== 2 || !frame.every(Number.isFinite) || !p) return undefined;
+    return { x: p.x + frame[0], y: frame[1] - p.y };
+  }
+
   private onHover(event: PointerEvent): void {
     if (this.stage.classList.contains('is-dragging')) return;
-    const id = (event.target as Element | null)?.closest?.('[data-segment]')?.getAttribute('data-segment');
+    const at = this.fieldAt(event.clientX, event.clientY);
+    this.readout.textContent = at ? `x ${Math.round(at.x)} mm, y ${Math.round(at.y)} mm` : '';
+    // A problem marker says what the problem is.
+    const marker = this.hitAt(event.clientX, event.clientY, '.marker');
+    const id = this.hitAt(event.clientX, event.clientY, '[data-segment]')?.getAttribute('data-segment');
     const seg = id ? this.segments.get(id) : undefined;
-    if (!seg) {
+    const lines = marker ? [marker.querySelector('title')?.textContent ?? ''].filter(Boolean) : seg ? tooltipLines(seg) : [];
+    if (lines.length === 0) {
       this.tooltip.hidden = true;
       return;
     }
-    this.tooltip.replaceChildren(...tooltipLines(seg).map((text) => element('div', { textContent: text })));
+    this.tooltip.classList.toggle('is-problem', !!marker);
+    this.tooltip.replaceChildren(...lines.map((text) => element('div', { textContent: text })));
     this.tooltip.hidden = false;
     // Keep the tooltip inside the panel near the right and bottom edges.
     const pad = 12;

@@ -38,9 +38,15 @@ function loadImage(url: string): Promise<HTMLImageElement> {
  * and returns the PNG as base64 without the data: prefix.
  */
 export async function rasterise(svg: SVGSVGElement, fit: ViewBox, background: string): Promise<string> {
+  // The cursor highlight is the editor's, not the drawing's: taken off while the styles are copied.
+  const current = Array.from(svg.querySelectorAll('.is-current'));
+  for (const el of current) el.classList.remove('is-current');
   const clone = svg.cloneNode(true) as SVGSVGElement;
-  inlineComputedStyles(svg, clone);
-  for (const el of Array.from(clone.querySelectorAll('.is-current'))) el.classList.remove('is-current');
+  try {
+    inlineComputedStyles(svg, clone);
+  } finally {
+    for (const el of current) el.classList.add('is-current');
+  }
   const scale = LONG_SIDE_PX / Math.max(fit.width, fit.height);
   const width = Math.round(fit.width * scale);
   const height = Math.round(fit.height * scale);

@@ -11,5 +11,5 @@ export const ALLOWED_ATTRIBUTES: ReadonlySet<string> = new Set([
   'class', 'd', 'x', 'y', 'dx', 'dy', 'cx', 'cy', 'r', 'rx', 'ry', 'x1', 'y1', 'x2', 'y2', 'points', 'width', 'height',
   'viewbox', 'transform', 'fill', 'fill-opacity', 'stroke', 'stroke-width', 'stroke-opacity', 'stroke-dasharray',
   'stroke-linecap', 'stroke-linejoin', 'opacity', 'text-anchor', 'dominant-baseline', 'font-size', 'font-weight',
-  'font-family', 'preserveaspectratio', 'version', 'data-line', 'data-segment', 'data-code', 'data-run',
+  'font-family', 'preserveaspectratio', 'version', 'data-line', 'data-segment', 'data-code', 'data-run', 'data-frame',
 ]);

@@ -2,6 +2,8 @@
 // made by the real core from fixture plans.
 import assert from 'assert';
 import { chromium, type Browser } from 'playwright-core';
+import { readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { checkPlan } from '../../src/core';
 import { summariseSegments, type RenderMessage } from '../../src/shared/messages';
 import { fixture, openStandIn, renderFor, type StandIn } from './standInHost';
@@ -270,6 +272,82 @@ describe('path preview webview (Chromium)', function () {
     // The tab is remembered across a reload.
     assert.strictEqual((await page.evaluate(() => (window as unknown as Win).__state) as { tab?: string }).tab, 'targets');
     await page.screenshot({ path: 'test-output/preview-targets.png' });
+  });
+
+  it('says what a problem marker is about when the pointer is on it', async () => {
+    const wrapping = ['wheel 60 mm', 'track 130 mm', 'field 2000 by 2000', 'start (500, 500) heading 0', 'turn 90 by gyro', 'turn 90 by gyro'].join('\n');
+    const message = renderFor(wrapping, URI, 1);
+    await rendered(message);
+    const page = host.page;
+    const marker = page.locator('svg.drawing .marker').first();
+    await marker.hover({ force: true });
+    const tooltip = page.locator('.tooltip.is-problem');
+    await tooltip.waitFor({ state: 'visible' });
+    assert.match(await tooltip.innerText(), /never settles/);
+  });
+
+  it('draws a heading compass and reads out field coordinates under the pointer', async () => {
+    await rendered(renderFor(PLAN, URI, 1));
+    const page = host.page;
+    assert.strictEqual(await page.locator('svg.drawing .compass').count(), 1);
+    assert.match(await page.locator('svg.drawing .compass title').textContent() ?? '', /clockwise/);
+    // The first run starts at (200, 200) (fixtures/greenhouse.veer): the read-out over its start dot says so.
+    const dot = page.locator('svg.drawing .start circle').first();
+    const box = (await dot.boundingBox())!;
+    await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
+    const text = await page.locator('.readout').innerText();
+    const [, x, y] = /x (-?\d+) mm, y (-?\d+) mm/.exec(text) ?? [];
+    assert.ok(Math.abs(Number(x) - 200) <= 6 && Math.abs(Number(y) - 200) <= 6, text);
+  });
+
+  it('a click a few pixels off a thin path still finds it', async () => {
+    await rendered(renderFor(PLAN, URI, 1));
+    const page = host.page;
+    const path = page.locator(`svg.drawing path.seg[data-line="${LINE_FIRST_DRIVE}"]`);
+    const box = (await path.boundingBox())!;
+    // The first drive runs straight up: 4 pixels to the side of its middle is off the stroke.
+    await page.mouse.click(box.x + box.width / 2 + 4, box.y + box.height / 2);
+    assert.deepStrictEqual(await host.waitForPosted('reveal'), { type: 'reveal', uri: URI, version: 1, line: LINE_FIRST_DRIVE });
+  });
+
+  it('keeps labels apart: no two label boxes overlap in the example and fixture plans', async () => {
+    const dir = join(__dirname, '..', 'fixtures');
+    const plans = [
+      ...readdirSync(dir).filter((f) => f.endsWith('.veer')).map((f) => readFileSync(join(dir, f), 'utf8')),
+      readFileSync(join(__dirname, '..', '..', 'examples', 'parcel-table.veer'), 'utf8'),
+      PLAN,
+    ];
+    for (const [i, plan] of plans.entries()) {
+      await rendered(renderFor(plan, URI, i + 1));
+      const boxes = await host.page.$$eval('svg.drawing .label', (els) => els.map((e) => {
+        const b = (e as SVGGraphicsElement).getBoundingClientRect();
+        return { x0: b.left, y0: b.top, x1: b.right, y1: b.bottom, text: e.textContent };
+      }));
+      for (let a = 0; a < boxes.length; a++) {
+        for (let b = a + 1; b < boxes.length; b++) {
+          const p = boxes[a];
+          const q = boxes[b];
+          const overlap = Math.min(p.x1, q.x1) - Math.max(p.x0, q.x0) > 0.5 && Math.min(p.y1, q.y1) - Math.max(p.y0, q.y0) > 0.5;
+          assert.ok(!overlap, `plan ${i}: "${p.text}" and "${q.text}" overlap`);
+        }
+      }
+      await host.page.context().close();
+    }
+  });
+
+  it('exports the same PNG with or without the cursor highlight', async () => {
+    await rendered(renderFor(PLAN, URI, 1));
+    const page = host.page;
+    await page.getByRole('button', { name: 'PNG' }).click();
+    const plain = (await host.waitForPosted('exportPng')).base64;
+    await host.send({ type: 'cursor', uri: URI, version: 1, line: LINE_FIRST_DRIVE });
+    await page.waitForSelector('.is-current');
+    await page.evaluate(() => { (window as unknown as Win).__posted.length = 0; });
+    await page.getByRole('button', { name: 'PNG' }).click();
+    const highlighted = (await host.waitForPosted('exportPng')).base64;
+    assert.ok(plain === highlighted, 'the exported image must not show the editor\'s cursor line');
+    // The highlight is still on the page afterwards.
+    assert.ok(await page.locator('.is-current').count() > 0);
   });
 
   it('exports a PNG of the drawing, rasterised in the page', async () => {

@@ -302,7 +302,9 @@ describe('renderSvg', () => {
     const arcs = arcsOf(spin.getAttribute('d') ?? '');
     assert.ok(arcs.length > 0 && arcs.every((a) => a.r > 0));
     const labels = withClass(doc, 'turn-label').map((el) => el.textContent);
-    assert.deepEqual(labels, ['+90°']); // the scenario's `turn 90` spin
+    // The scenario's `turn 90` spin, then its two -90° arcs and pivots: every turn says its angle.
+    assert.deepEqual(labels, ['+90°', '-90°', '-90°']);
+    assert.equal(withClass(doc, 'center').length, 0, 'no unexplained cross at a turn centre');
   });
 
   it('flips y: field y = 0 is the bottom edge of the field rectangle, y = height the top', () => {
@@ -395,7 +397,9 @@ describe('renderSvg', () => {
     // Run 0: start (0), turns (2, 4), end (6); run 1: start (0), turn (2), end (3).
     assert.deepEqual(positions, ['0:0', '0:2', '0:4', '0:6', '1:0', '1:2', '1:3']);
     const first = withClass(withBody, 'footprint')[0].getAttribute('d') ?? '';
-    assert.equal((first.match(/L/g) ?? []).length, 4); // 3 sides of the rectangle + the heading tick
+    assert.equal((first.match(/L/g) ?? []).length, 3); // 3 sides of the rectangle (the fourth closes it)
+    // Each footprint has a filled triangle inside its front edge.
+    assert.deepEqual(withClass(withBody, 'footprint-front').map((el) => el.getAttribute('data-segment')), positions);
 
     const noBody = sampleScenario();
     delete noBody.body;

@@ -16,7 +16,9 @@
 //                 seg-pivot-right, seg-arc), seg-reverse (driving backwards),
 //                 seg-incomplete (some value could not be computed)
 //   footprint     the robot's outline at the start, after each turn and at the end
-//   center        the centre of a pivot or arc turn (a small cross)
+//   footprint-front  the triangle inside a footprint's front edge
+//   turn-label    a turn's signed angle (beside a spin glyph, or beside the middle of an arc)
+//   compass       heading 0 and the positive direction of turns (compass-label: its text)
 //   mark          a `mark` checkpoint (diamond and name)
 //   start, end    where a run starts (with its heading) and ends
 //   marker        a diagnostic, plus marker-error, marker-warning or marker-info,
@@ -49,7 +51,8 @@ export interface RenderOptions {
   width?: number;
 }
 
-const RUN_COLOURS = ['#2563eb', '#db2777', '#0d9488', '#7c3aed', '#ea580c', '#0284c7'];
+/** The editor's chart colours in its light themes, so an exported drawing matches the preview. */
+const RUN_COLOURS = ['#1a85ff', '#652d90', '#388a34', '#d18616', '#e51400', '#bf8803'];
 /** Below this radius (mm) a rotation is a spin: there is no arc to draw. */
 const SPIN_RADIUS = 0.01;
 /** On-screen sizes in CSS pixels (converted with View.px). */
@@ -96,8 +99,10 @@ export function renderSvg(result: CheckResult, options: RenderOptions = {}): str
   const out: string[] = [];
   if (standalone) out.push('<?xml version="1.0" encoding="UTF-8"?>\n');
   const size = standalone ? ` width="${num(targetWidth)}" height="${num(view.height / view.px)}"` : '';
+  // data-frame: field x = user x + a, field y = b − user y (for a pointer read-out).
+  const frame = `${num(-view.x(0))} ${num(view.y(0))}`;
   out.push(
-    `<svg xmlns="http://www.w3.org/2000/svg" class="veer"${size} viewBox="0 0 ${num(view.width)} ${num(view.height)}"`,
+    `<svg xmlns="http://www.w3.org/2000/svg" class="veer"${size} viewBox="0 0 ${num(view.width)} ${num(view.height)}" data-frame="${frame}"`,
     ` font-family="system-ui, -apple-system, 'Segoe UI', sans-serif">\n`,
   );
   if (standalone) {
@@ -113,6 +118,7 @@ export function renderSvg(result: CheckResult, options: RenderOptions = {}): str
   for (const { run, index } of runs) drawAnnotations(out, d, run, index);
   drawMarkers(out, d, diagnostics);
   drawScale(out, d, result);
+  drawCompass(out, d);
   out.push('</g>\n</svg>\n');
   return out.join('');
 }
@@ -281,6 +287,45 @@ class Drawing {
   text(cls: string, at: Point, content: string, fontPx: number, extra = ''): string {
     return `<text class="${cls}" x="${num(this.view.x(at.x))}" y="${num(this.view.y(at.y))}" font-size="${this.px(fontPx)}" fill="currentColor" stroke="none"${extra}>${escapeXml(content)}</text>`;
   }
+
+  /** Boxes (user units) of the labels placed so far, so later labels keep clear of them. */
+  private readonly labelBoxes: { x0: number; y0: number; x1: number; y1: number }[] = [];
+
+  /**
+   * A label placed where it overlaps no label placed before: at `at` if that
+   * is free, else the nearest free spot above or below it (then further out).
+   * Sizes are estimated from the text, on the generous side (0.62 em a
+   * character), so real boxes in a browser do not touch either.
+   */
+  label(cls: string, at: Point, content: string, fontPx: number, anchor: 'start' | 'middle' | 'end', extra = ''): string {
+    const px = this.view.px;
+    const w = content.length * fontPx * 0.62 * px + 2 * px;
+    const h = fontPx * 1.3 * px;
+    const boxAt = (p: Point) => {
+      const x = this.view.x(p.x);
+      const y = this.view.y(p.y); // the text is centred on y (dy 0.35em)
+      const x0 = anchor === 'start' ? x - px : anchor === 'middle' ? x - w / 2 : x - w + px;
+      return { x0, y0: y - h / 2, x1: x0 + w, y1: y + h / 2 };
+    };
+    const free = (b: { x0: number; y0: number; x1: number; y1: number }) =>
+      this.labelBoxes.every((o) => b.x1 <= o.x0 || b.x0 >= o.x1 || b.y1 <= o.y0 || b.y0 >= o.y1);
+    let place = at;
+    let box = boxAt(at);
+    if (!free(box)) {
+      for (let k = 1; k <= 8; k++) {
+        const up = { x: at.x, y: at.y + k * h * 1.05 };
+        const down = { x: at.x, y: at.y - k * h * 1.05 };
+        const found = [up, down].find((p) => free(boxAt(p)));
+        if (found) {
+          place = found;
+          box = boxAt(found);
+          break;
+        }
+      }
+    }
+    this.labelBoxes.push(box);
+    return this.text(cls, place, content, fontPx, `${extra} text-anchor="${anchor}" dy="0.35em"`);
+  }
 }
 
 function segmentAttrs(seg: Segment, runIndex: number, segIndex: number): string {
@@ -423,7 +468,7 @@ function drawZones(out: string[], d: Drawing, result: CheckResult): void {
       `<g class="zone" data-line="${z.line}"><title>${escapeXml(`zone ${z.name}`)}</title>`,
       `<rect x="${num(view.x(z.min.x))}" y="${num(view.y(z.max.y))}" width="${num(z.max.x - z.min.x)}" height="${num(z.max.y - z.min.y)}"`,
       ` fill="currentColor" fill-opacity="0.1" stroke-width="${d.px(1.5)}" stroke-dasharray="${d.px(6)} ${d.px(4)}"/>`,
-      d.text('label', { x: z.min.x + 5 * view.px, y: z.max.y - (SIZE.labelFont + 3) * view.px }, z.name, SIZE.labelFont),
+      d.label('label', { x: z.min.x + 5 * view.px, y: z.max.y - (SIZE.labelFont / 2 + 5) * view.px }, z.name, SIZE.labelFont, 'start'),
       '</g>\n',
     );
   }
@@ -431,7 +476,7 @@ function drawZones(out: string[], d: Drawing, result: CheckResult): void {
 
 function drawObstacles(out: string[], d: Drawing, result: CheckResult): void {
   const view = d.view;
-  const labelAttrs = ` text-anchor="middle" dy="0.35em" font-weight="600"`;
+  const labelAttrs = ' font-weight="600"';
   for (const o of result.setup.obstacles) {
     let shape: string;
     let centre: Point;
@@ -447,7 +492,7 @@ function drawObstacles(out: string[], d: Drawing, result: CheckResult): void {
     out.push(
       `<g class="obstacle obstacle-${o.kind}" data-line="${o.line}"><title>${escapeXml(o.name)}</title>`,
       `${shape} fill="currentColor" fill-opacity="0.3" stroke-width="${d.px(1.5)}"/>`,
-      d.text('label', centre, o.name, SIZE.labelFont, labelAttrs),
+      d.label('label', centre, o.name, SIZE.labelFont, 'middle', labelAttrs),
       '</g>\n',
     );
   }
@@ -490,9 +535,14 @@ function drawFootprints(out: string[], d: Drawing, run: RunResult, runIndex: num
       outline = d.circle(pose, fp.radius);
       frontReach = fp.radius;
     }
-    // A tick from the axle midpoint to the front shows which way the outline faces.
-    const front = { x: pose.x + fwd.x * frontReach, y: pose.y + fwd.y * frontReach };
-    out.push(`<path class="footprint"${segmentAttrs(run.segments[i], runIndex, i)} d="${outline}M${d.xy(pose)}L${d.xy(front)}"/>\n`);
+    // A small triangle inside the front edge shows which way the outline faces.
+    const a = Math.min(8 * d.view.px, frontReach * 0.4);
+    const tip = { x: pose.x + fwd.x * (frontReach - a * 0.2), y: pose.y + fwd.y * (frontReach - a * 0.2) };
+    const base = { x: tip.x - fwd.x * a, y: tip.y - fwd.y * a };
+    const side = { x: -fwd.y * a * 0.6, y: fwd.x * a * 0.6 };
+    const front = `M${d.xy(tip)}L${d.xy({ x: base.x + side.x, y: base.y + side.y })}L${d.xy({ x: base.x - side.x, y: base.y - side.y })}Z`;
+    out.push(`<path class="footprint"${segmentAttrs(run.segments[i], runIndex, i)} d="${outline}"/>`,
+      `<path class="footprint-front"${segmentAttrs(run.segments[i], runIndex, i)} d="${front}" fill="currentColor" fill-opacity="0.6" stroke="none"/>\n`);
   }
   out.push('</g>\n');
 }
@@ -591,12 +641,18 @@ function drawAnnotations(out: string[], d: Drawing, run: RunResult, runIndex: nu
     const attrs = segmentAttrs(seg, runIndex, i);
     for (const piece of seg.path) {
       if (piece.type !== 'rotate' || !finitePiece(piece) || seg.kind === 'square') continue;
+      const angle = Math.round(piece.turned * 10) / 10;
+      const angleText = `${angle > 0 ? '+' : ''}${angle}°`;
       if (distance(piece.center, piece.from) >= SPIN_RADIUS) {
-        const s = 4 * px;
-        const c = piece.center;
-        out.push(
-          `<path class="center"${attrs} d="M${d.xy({ x: c.x - s, y: c.y - s })}L${d.xy({ x: c.x + s, y: c.y + s })}M${d.xy({ x: c.x - s, y: c.y + s })}L${d.xy({ x: c.x + s, y: c.y - s })}"/>\n`,
-        );
+        if (seg.kind !== 'turn') continue;
+        // The angle beside the middle of the arc, on the side away from its centre.
+        const r = distance(piece.center, piece.from);
+        const mid = rotateAbout(piece.from, piece.center, piece.turned / 2, d.turns);
+        const out1 = { x: (mid.x - piece.center.x) / r, y: (mid.y - piece.center.y) / r };
+        const reach = 10 * px;
+        const at = { x: mid.x + out1.x * reach, y: mid.y + out1.y * reach };
+        const anchor = out1.x > 0.4 ? 'start' : out1.x < -0.4 ? 'end' : 'middle';
+        out.push(d.label('label turn-label', at, angleText, SIZE.smallFont, anchor, attrs), '\n');
       } else if (seg.kind === 'turn') {
         // The angle goes on the bisector of the glyph, clear of the paths in and out.
         const f = forwardVector(piece.from.heading, d.turns);
@@ -606,11 +662,7 @@ function drawAnnotations(out: string[], d: Drawing, run: RunResult, runIndex: nu
         // Anchor the text on its side nearest the glyph, so it grows away from it.
         const outwardX = at.x - piece.center.x;
         const anchor = outwardX > 0.4 * reach ? 'start' : outwardX < -0.4 * reach ? 'end' : 'middle';
-        const angle = Math.round(piece.turned * 10) / 10;
-        out.push(
-          d.text('label turn-label', at, `${angle > 0 ? '+' : ''}${angle}°`, SIZE.smallFont, `${attrs} text-anchor="${anchor}" dy="0.35em"`),
-          '\n',
-        );
+        out.push(d.label('label turn-label', at, angleText, SIZE.smallFont, anchor, attrs), '\n');
       }
     }
     if (seg.kind === 'mark' && seg.label !== undefined && finite(seg.end)) {
@@ -619,7 +671,7 @@ function drawAnnotations(out: string[], d: Drawing, run: RunResult, runIndex: nu
       out.push(
         `<g class="mark"${attrs}><title>${escapeXml(`mark ${seg.label}`)}</title>`,
         `<path d="M${d.xy({ x: p.x, y: p.y + s })}L${d.xy({ x: p.x + s, y: p.y })}L${d.xy({ x: p.x, y: p.y - s })}L${d.xy({ x: p.x - s, y: p.y })}Z" fill="currentColor"/>`,
-        d.text('label', { x: p.x + 8 * px, y: p.y }, seg.label, SIZE.labelFont, ' dy="0.35em"'),
+        d.label('label', { x: p.x + 8 * px, y: p.y }, seg.label, SIZE.labelFont, 'start'),
         '</g>\n',
       );
     }
@@ -739,6 +791,34 @@ function drawScale(out: string[], d: Drawing, result: CheckResult): void {
 // Standalone colours
 
 /** Light colours for a drawing opened on its own; sizes in user units, hence `px`. */
+/**
+ * Which way is heading 0 and which way positive turns go: an arrow up the
+ * field marked 0°, and a curved arrow from it marked +, in the top right
+ * corner of the content area.
+ */
+function drawCompass(out: string[], d: Drawing): void {
+  const v = d.view;
+  const px = v.px;
+  const r = 16 * px;
+  // Centre in user units, converted back to field units for the helpers.
+  const ux = v.width - v.margin * 0.5 - r - 6 * px;
+  const uy = v.contentTop + r + 14 * px;
+  const c = { x: ux - v.x(0), y: v.y(0) - uy };
+  const up = { x: 0, y: 1 };
+  const tip = { x: c.x, y: c.y + r };
+  const from = { x: c.x, y: c.y + r * 0.7 };
+  const arcEnd = rotateAbout(from, c, 70, d.turns);
+  const dir = d.tangent(arcEnd, c, 70);
+  out.push(
+    `<g class="compass" stroke-width="${d.px(1.5)}"><title>Heading 0 faces up the field; positive headings and turns go ${d.turns}</title>`,
+    `<path d="M${d.xy(c)}L${d.xy(tip)}${d.chevron(tip, up)}"/>`,
+    `<path d="M${d.xy(from)}${d.arc(from, c, 70)}${d.chevron(arcEnd, dir)}"/>`,
+    d.text('compass-label', { x: c.x, y: c.y + r + 9 * px }, '0°', SIZE.smallFont, ' text-anchor="middle" dy="0.35em"'),
+    d.text('compass-label', { x: arcEnd.x + dir.x * 10 * px + (d.turns === 'clockwise' ? 4 : -4) * px, y: arcEnd.y - 8 * px }, '+', SIZE.labelFont, ' text-anchor="middle" dy="0.35em"'),
+    '</g>\n',
+  );
+}
+
 function standaloneStyle(px: number): string {
   const halo = num(3 * px);
   const runs = RUN_COLOURS.map((c, i) => `.run-${i}{color:${c}}`).join('');
