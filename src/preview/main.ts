@@ -130,6 +130,7 @@ class Preview {
     const targets = tab === 'targets';
     this.stage.hidden = targets;
     this.targets.element.hidden = !targets;
+    if (targets) this.targets.revealed();
     this.drawingTab.setAttribute('aria-selected', String(!targets));
     this.targetsTab.setAttribute('aria-selected', String(targets));
     document.body.dataset.tab = tab;

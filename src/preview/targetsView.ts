@@ -53,7 +53,30 @@ export class TargetsView {
     });
   }
 
+  private pending: readonly TargetTable[] | undefined;
+  private highlighted: number | undefined;
+
+  /**
+   * The tables to show. Built only while the tab is visible (a 1,000-motion
+   * plan makes 12,000 cells, which a render while the drawing is shown must
+   * not pay for); otherwise kept until the tab is opened.
+   */
   show(tables: readonly TargetTable[]): void {
+    if (this.element.hidden) {
+      this.pending = tables;
+      return;
+    }
+    this.pending = undefined;
+    this.build(tables);
+    this.highlight(this.highlighted);
+  }
+
+  /** Called when the tab becomes visible. */
+  revealed(): void {
+    if (this.pending) this.show(this.pending);
+  }
+
+  private build(tables: readonly TargetTable[]): void {
     this.rows = [];
     const parts: HTMLElement[] = [];
     for (const t of tables) {
@@ -95,6 +118,8 @@ export class TargetsView {
   }
 
   highlight(line: number | undefined): void {
+    this.highlighted = line;
+    if (this.element.hidden) return;
     for (const tr of this.rows) tr.classList.toggle('is-current', line !== undefined && tr.dataset.line === String(line));
   }
 }
