@@ -4,8 +4,8 @@ import * as vscode from 'vscode';
 import { registerAnalysis } from './analysis';
 import { registerCodeActions } from './codeActions';
 import { registerCompletion } from './completion';
-import { setExtensionUri } from './convert';
 import { registerDiagnostics } from './diagnostics';
+import { registerHelp } from './help';
 import { registerHover } from './hover';
 import { registerInlayHints } from './inlayHints';
 import { registerNewPlan } from './newPlan';
@@ -13,8 +13,9 @@ import { registerPreview } from './preview';
 import { registerStatusBar } from './statusBar';
 import { registerSymbols } from './symbols';
 
-export function activate(context: vscode.ExtensionContext): void {
-  setExtensionUri(context.extensionUri);
+export async function activate(context: vscode.ExtensionContext): Promise<void> {
+  // The reference's headings first, so the first problems already link to their sections.
+  await registerHelp(context);
   // Subscribers first, so the analyses of already open plans reach them.
   registerDiagnostics(context);
   registerInlayHints(context);

@@ -3,13 +3,8 @@
 import * as vscode from 'vscode';
 import type * as core from '../core';
 import type { CompletionInfo, HoverInfo, InlayHintInfo, PlanSymbol } from '../core/insight';
+import { helpUri } from './help';
 
-/** Set once at activation: diagnostic codes link into the extension's own docs. */
-let docsUri: vscode.Uri | undefined;
-
-export function setExtensionUri(extensionUri: vscode.Uri): void {
-  docsUri = vscode.Uri.joinPath(extensionUri, 'docs', 'diagnostics.md');
-}
 
 export const DIAGNOSTIC_SOURCE = 'veer';
 
@@ -36,15 +31,15 @@ export function toSeverity(severity: core.Severity): vscode.DiagnosticSeverity {
   }
 }
 
-export function explanationUri(code: core.DiagnosticCode): vscode.Uri | undefined {
-  return docsUri?.with({ fragment: code });
+/** Diagnostic codes link into the extension's own reference, read-only, at the code's section. */
+export function explanationUri(code: core.DiagnosticCode): vscode.Uri {
+  return helpUri(code);
 }
 
 export function toDiagnostic(uri: vscode.Uri, diagnostic: core.Diagnostic): vscode.Diagnostic {
   const converted = new vscode.Diagnostic(toRange(diagnostic.range), diagnostic.message, toSeverity(diagnostic.severity));
   converted.source = DIAGNOSTIC_SOURCE;
-  const target = explanationUri(diagnostic.code);
-  converted.code = target ? { value: diagnostic.code, target } : diagnostic.code;
+  converted.code = { value: diagnostic.code, target: explanationUri(diagnostic.code) };
   if (diagnostic.related?.length) {
     converted.relatedInformation = diagnostic.related.map(
       (info) => new vscode.DiagnosticRelatedInformation(new vscode.Location(uri, toRange(info.range)), info.message),

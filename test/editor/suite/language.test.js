@@ -36,8 +36,18 @@ describe('Veer language features', () => {
       [WRAP_LINE, 0, WRAP_LINE, 'turn 90 by gyro'.length],
     );
     assert.equal(wrap.source, 'veer');
-    assert.ok(wrap.code.target.path.endsWith('/docs/diagnostics.md'), wrap.code.target.toString());
-    assert.equal(wrap.code.target.fragment, 'wrap-cross');
+    assert.equal(wrap.code.value, 'wrap-cross');
+  });
+
+  it('the problem code\'s link opens the reference at that code\'s section, read-only', async () => {
+    const [wrap] = await diagnosticsWhere(document.uri, hasWrapCross);
+    // What the editor does when the link is followed (hover or Problems panel).
+    await vscode.commands.executeCommand('vscode.open', wrap.code.target);
+    const editor = vscode.window.activeTextEditor;
+    assert.ok(editor);
+    assert.equal(editor.document.uri.scheme, 'veer-help', 'served by the extension, not the editable file');
+    assert.equal(editor.document.lineAt(editor.selection.active.line).text, '## wrap-cross');
+    await vscode.commands.executeCommand('workbench.action.closeActiveEditor');
   });
 
   it('hovers a motion line with its wheel degrees and yaw target', async () => {
