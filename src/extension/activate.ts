@@ -5,7 +5,7 @@ import { registerAnalysis } from './analysis';
 import { registerCodeActions } from './codeActions';
 import { registerCompletion } from './completion';
 import { registerDiagnostics } from './diagnostics';
-import { registerHelp } from './help';
+import { registerHelp, registerReference } from './help';
 import { registerHover } from './hover';
 import { registerInlayHints } from './inlayHints';
 import { registerNewPlan } from './newPlan';
@@ -26,5 +26,6 @@ export async function activate(context: vscode.ExtensionContext): Promise<void> 
   registerCompletion(context);
   registerCodeActions(context);
   registerNewPlan(context);
+  registerReference(context);
   registerAnalysis(context);
 }

@@ -30,3 +30,17 @@ export async function registerHelp(context: vscode.ExtensionContext): Promise<vo
     if (m) headingLines.set(m[1], i);
   });
 }
+
+export const OPEN_REFERENCE_COMMAND = 'veer.openReference';
+
+/** "Veer: Open the Plan Reference": the language reference shipped with the extension, rendered. */
+export function registerReference(context: vscode.ExtensionContext): void {
+  context.subscriptions.push(vscode.commands.registerCommand(OPEN_REFERENCE_COMMAND, async () => {
+    const uri = vscode.Uri.joinPath(context.extensionUri, 'docs', 'language.md');
+    try {
+      await vscode.commands.executeCommand('markdown.showPreview', uri);
+    } catch {
+      await vscode.window.showTextDocument(uri, { preview: true });
+    }
+  }));
+}

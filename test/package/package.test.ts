@@ -124,6 +124,22 @@ describe('package.json', () => {
     }
   });
 
+  it('ships a page for the Extensions view with no image or link that could break there, and no build commands', () => {
+    // vsce packages the file named by --readme-path as the extension's README.
+    const script: string = pkg.scripts.package;
+    const readmePath = /--readme-path (\S+)/.exec(script)?.[1];
+    assert.ok(readmePath, 'npm run package names the extension page');
+    const page = readFileSync(join(root, readmePath!), 'utf8');
+    // Relative links and images are not resolved on the Extensions view's page (seen in the real editor).
+    assert.doesNotMatch(page, /!\[[^\]]*\]\(/, 'no images');
+    assert.doesNotMatch(page, /\]\((?!https?:)[^)]*\)/, 'no relative links');
+    assert.doesNotMatch(page, /npm (install|test|run)/, 'no build commands for a user who installed the extension');
+    // The commands it names exist.
+    for (const [, title] of page.matchAll(/\*\*Veer: ([^*]+)\*\*/g)) {
+      assert.ok(pkg.contributes.commands.some((c: { title: string }) => c.title === title), `no command "Veer: ${title}"`);
+    }
+  });
+
   it('builds its main entry point and keeps the editor version it promises', () => {
     const build = readFileSync(join(root, 'scripts', 'build.mjs'), 'utf8');
     assert.ok(build.includes(`outfile: '${posix.normalize(pkg.main)}'`), `scripts/build.mjs does not produce ${pkg.main}`);

@@ -188,6 +188,21 @@ describe('Veer language features', () => {
     assert.ok(typingUnit.includes('cm') && !typingUnit.includes('deg'), typingUnit.join(','));
   });
 
+  it('"Veer: Open the Plan Reference" shows the language reference', async () => {
+    const opened = new Promise((resolve) => {
+      const check = () => {
+        const tab = vscode.window.tabGroups.all.flatMap((g) => g.tabs).find((t) => /language\.md/.test(t.label));
+        if (tab) { sub.dispose(); resolve(tab); }
+      };
+      const sub = vscode.window.tabGroups.onDidChangeTabs(check);
+      check();
+    });
+    await vscode.commands.executeCommand('veer.openReference');
+    const tab = await opened;
+    assert.match(tab.label, /language\.md/);
+    await vscode.commands.executeCommand('workbench.action.closeAllEditors');
+  });
+
   it('"Veer: New Plan" opens a template plan that checks cleanly', async () => {
     await vscode.commands.executeCommand('veer.newPlan');
     const editor = vscode.window.activeTextEditor;
