@@ -166,6 +166,8 @@ class Preview {
     }
     svg.removeAttribute('width');
     svg.removeAttribute('height');
+    // At the top of a tall panel, not floating in its middle.
+    svg.setAttribute('preserveAspectRatio', 'xMidYMin meet');
     svg.classList.add('drawing');
     const keepView = sameDocument && message.run === this.state.run ? this.state.view : undefined;
     this.state = { uri: message.uri, version: message.version, run: message.run, ...(keepView ? { view: keepView } : {}), ...(this.state.tab ? { tab: this.state.tab } : {}) };
