@@ -194,6 +194,8 @@ export interface Diagnostic {
   fixes?: Fix[];
   /** Where in the field the problem happens, for markers in the drawing. */
   at?: Point;
+  /** Where the robot is when the problem starts (a collision's first contact), for drawing its footprint there. */
+  pose?: Pose;
 }
 
 // ---------------------------------------------------------------------------

@@ -480,3 +480,18 @@ describe('render: what the preview lets through', () => {
     assert.deepEqual([...seenAttributes].filter((a) => !ALLOWED_ATTRIBUTES.has(a) && !a.startsWith('xmlns')), []);
   });
 });
+
+describe('render: a collision shows where the robot first touches', () => {
+  it('draws the footprint at the first contact, in the error colour', () => {
+    const plan = ['wheel 58 mm', 'track 121 mm', 'body 140 by 170 axle -25', 'field 1600 by 1000',
+      'box "crate" (700, 300) to (900, 500)', 'start (400, 400) heading 90', 'drive 600'].join('\n');
+    const r = checkPlan(plan);
+    const hit = r.diagnostics.find((d) => d.code === 'collision')!;
+    // The front edge is 170/2 + 25 = 110 mm ahead of the axle; it meets x = 700 with the axle at 590 (hand-derived).
+    assert.ok(hit.pose && Math.abs(hit.pose.x - 590) < 1e-6 && Math.abs(hit.pose.y - 400) < 1e-9, JSON.stringify(hit.pose));
+    const doc = parseSvg(renderSvg(r, { standalone: false }));
+    const shapes = withClass(doc, 'collision-footprint');
+    assert.equal(shapes.length, 1);
+    assert.match(shapes[0].getElementsByTagName('title')[0].textContent ?? '', /crate/);
+  });
+});

@@ -21,6 +21,7 @@
 //   compass       heading 0 and the positive direction of turns (compass-label: its text)
 //   mark          a `mark` checkpoint (diamond and name)
 //   start, end    where a run starts (with its heading) and ends
+//   collision-footprint  the footprint where a collision first touches (also a marker-error)
 //   marker        a diagnostic, plus marker-error, marker-warning or marker-info,
 //                 and marker-wrap for a yaw wrap crossing; tag, tag-text: its tag.
 //                 Drawn at the diagnostic's `at`, or failing that at the start of
@@ -722,6 +723,19 @@ function drawMarkers(out: string[], d: Drawing, diagnostics: PlacedDiagnostic[])
   const px = d.view.px;
   const p = (n: number): string => d.px(n);
   out.push(`<g class="markers" stroke-width="${p(2)}">\n`);
+  // A collision shows the robot's footprint where it first touches the obstacle, in the error colour.
+  for (const { diag } of sorted) {
+    if (diag.code !== 'collision' || !diag.pose || !finite(diag.pose) || !Number.isFinite(diag.pose.heading)) continue;
+    const fp = d.footprint;
+    const outline = fp.kind === 'rect'
+      ? (() => { const c = footprintCorners(fp, diag.pose!, d.turns); return `M${d.xy(c[0])}L${d.xy(c[1])}L${d.xy(c[2])}L${d.xy(c[3])}Z`; })()
+      : fp.radius > 0 ? d.circle(diag.pose, fp.radius) : '';
+    if (!outline) continue;
+    out.push(
+      `<path class="marker marker-error collision-footprint" data-line="${diag.range.start.line}" data-code="collision" d="${outline}" fill="currentColor" fill-opacity="0.25" stroke-width="${p(2)}">`,
+      `<title>${escapeXml(`Error [collision]: ${diag.message}`)}</title></path>\n`,
+    );
+  }
   for (const { diag, at } of sorted) {
     const wrap = diag.code === 'wrap-cross';
     const severityClass = diag.severity === 'information' ? 'marker-info' : `marker-${diag.severity}`;

@@ -565,7 +565,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       }
       report(range, 'error', 'collision',
         `the robot's footprint hits the ${o.kind} "${o.name}" during ${what}.${hint || (piece?.type === 'rotate' && seg.kind === 'turn' ? (seg.shape === 'spin' ? ' Turn further from it: change the drives before this line.' : ' A spin turn here hits it too: turn further from it.') : ' Move the path away from it: change the drives before this line.')}`,
-        { at: hit.at, related: [{ range: { start: { line: o.line, character: 0 }, end: { line: o.line, character: 0 } }, message: `"${o.name}" is declared here` }] });
+        { at: hit.at, ...(hit.pose ? { pose: hit.pose } : {}), related: [{ range: { start: { line: o.line, character: 0 }, end: { line: o.line, character: 0 } }, message: `"${o.name}" is declared here` }] });
     }
   }
   return results;

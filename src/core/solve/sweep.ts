@@ -41,7 +41,7 @@
 // Markers: the contact point is placed on the footprint at the fraction of the
 // motion where the contact was found (a point in the overlap of the two shapes).
 import type { Field, Obstacle, PathPiece, Point, Pose, TurnDirection } from '../types';
-import { forwardVector, turnSign, type Footprint } from './frame';
+import { forwardVector, rotateAbout, turnSign, type Footprint } from './frame';
 
 /** sqrt(x² + y²): Math.hypot allocates its arguments on every call, and this runs per corner per obstacle. */
 function len2(x: number, y: number): number {
@@ -54,6 +54,8 @@ export interface SweepHit {
   obstacle?: Obstacle;
   /** A point of the contact / the part outside (field frame, mm), for a marker in the drawing. */
   at: Point;
+  /** Where the robot is at the first contact with an obstacle, for drawing its footprint there. */
+  pose?: Pose;
 }
 
 /** Distances up to this many mm count as touching. */
@@ -100,13 +102,23 @@ export function sweepPiece(piece: PathPiece, footprint: Footprint, turns: TurnDi
     if (distSq(bound.x, bound.y, obstacle.x, obstacle.y) > reach * reach) continue;
     const s = sweptContact(start, motion, obstacle);
     if (s === NO_HIT) continue;
-    hits.push({ kind: 'obstacle', obstacle: o, at: contactPoint(shapeAt(start, motion, s), obstacle) });
+    hits.push({ kind: 'obstacle', obstacle: o, at: contactPoint(shapeAt(start, motion, s), obstacle), pose: poseAt(piece, motion, s, turns) });
   }
   if (field) {
     const outside = farthestOutside(start, motion, field);
     if (outside) hits.push({ kind: 'field', at: outside });
   }
   return hits;
+}
+
+/** The robot's pose a fraction `s` of the way through a piece (of its rotation, at most one full turn). */
+function poseAt(piece: PathPiece, motion: Motion, s: number, turns: TurnDirection): Pose {
+  if (piece.type === 'line' || motion.kind === 'line') {
+    return { x: piece.from.x + (piece.to.x - piece.from.x) * s, y: piece.from.y + (piece.to.y - piece.from.y) * s, heading: piece.from.heading };
+  }
+  const turned = (-motion.alpha / turnSign(turns) / RAD) * s;
+  const p = rotateAbout(piece.from, piece.center, turned, turns);
+  return { x: p.x, y: p.y, heading: piece.from.heading + turned };
 }
 
 /** Same test for a robot standing still at a pose (used at `start`). */
