@@ -464,7 +464,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
           const dx = Math.max(zone.min.x - p.x, 0, p.x - zone.max.x);
           const dy = Math.max(zone.min.y - p.y, 0, p.y - zone.max.y);
           report(s.inZone.range, 'warning', 'miss',
-            `the robot's axle midpoint ends at (${fmt(p.x, 0)}, ${fmt(p.y, 0)}), ${fmt(Math.hypot(dx, dy), 0)} mm outside the zone "${zone.name}": adjust the drives before this mark.`,
+            `The robot ends ${fmt(Math.hypot(dx, dy), 0)} mm outside the zone "${zone.name}": the point midway between its wheels (the axle midpoint) is at (${fmt(p.x, 0)}, ${fmt(p.y, 0)}). Adjust the drives before this mark.`,
             { at: { x: p.x, y: p.y } });
         }
       }
