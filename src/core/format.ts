@@ -1,5 +1,17 @@
-// The one way a run's totals read, on every surface: the status bar, the
-// outline, the preview's legend, the command line's summary and exports.
+// The one way numbers read on every surface a person reads: the status bar,
+// the outline, hovers, hints, the preview's legend, tooltips and targets
+// table, and the command line's summaries and text tables. (JSON and CSV keep
+// three decimals for programs.)
+
+/** Decimals per kind of value a person reads. */
+export const DIGITS = { angle: 1, length: 1, time: 2, speed: 1, power: 1 } as const;
+
+/** Up to `digits` decimals, without trailing zeros, and never "-0". */
+export function formatNumber(value: number, digits = 1): string {
+  if (!Number.isFinite(value)) return String(value);
+  const text = value.toFixed(digits).replace(/\.?0+$/, '');
+  return text === '-0' ? '0' : text;
+}
 
 /** A run's time: one decimal, in seconds ("17.2 s"); "time unknown" when it cannot be computed. */
 export function formatRunTime(seconds: number): string {

@@ -4,6 +4,7 @@
 // `veer targets` and the preview's table both come from here.
 import type { CheckResult, Segment } from './types';
 import { lineStartOffsets } from './text';
+import { DIGITS, formatNumber } from './format';
 
 export interface TargetRow {
   /** 1-based line of the motion. */
@@ -104,10 +105,25 @@ export const TARGET_COLUMNS: readonly { key: keyof TargetRow; header: string }[]
   { key: 'speed_mm_s', header: 'speed mm/s' },
 ];
 
+/** Decimals of each column where a person reads it (text tables; CSV and JSON keep three). */
+export function columnDigits(key: keyof TargetRow): number {
+  if (key === 'start_s' || key === 'duration_s') return DIGITS.time;
+  if (key === 'speed_mm_s') return DIGITS.speed;
+  if (key === 'power_pct' || key === 'min_power_pct') return DIGITS.power;
+  return DIGITS.angle;
+}
+
 function cell(row: TargetRow, key: keyof TargetRow): string {
   const v = row[key];
   if (v === undefined || v === null) return '';
   return typeof v === 'number' ? String(v) : v;
+}
+
+/** A cell as a person reads it: the same rounding as every other surface. */
+export function readableCell(row: TargetRow, key: keyof TargetRow): string {
+  const v = row[key];
+  if (v === undefined || v === null) return key === 'duration_s' ? '?' : '';
+  return typeof v === 'number' ? (key === 'line' ? String(v) : formatNumber(v, columnDigits(key))) : v;
 }
 
 /** RFC 4180 CSV: a header row, then one row per motion; a `run` column first. */
@@ -127,7 +143,7 @@ export function targetsMarkdown(tables: readonly TargetTable[]): string {
     '',
     `| ${TARGET_COLUMNS.map((c) => c.header).join(' | ')} |`,
     `|${TARGET_COLUMNS.map((c) => (c.key === 'motion' ? ' --- ' : ' ---: ')).join('|')}|`,
-    ...t.rows.map((row) => `| ${TARGET_COLUMNS.map((c) => esc(c.key === 'motion' ? `\`${cell(row, c.key)}\`` : cell(row, c.key))).join(' | ')} |`),
+    ...t.rows.map((row) => `| ${TARGET_COLUMNS.map((c) => esc(c.key === 'motion' ? `\`${cell(row, c.key)}\`` : readableCell(row, c.key))).join(' | ')} |`),
   ].join('\n')).join('\n\n') + '\n';
 }
 
@@ -136,7 +152,7 @@ export function targetsText(tables: readonly TargetTable[]): string {
   const out: string[] = [];
   for (const t of tables) {
     out.push(`run "${t.run}"`);
-    const rows = [TARGET_COLUMNS.map((c) => c.header), ...t.rows.map((row) => TARGET_COLUMNS.map((c) => cell(row, c.key)))];
+    const rows = [TARGET_COLUMNS.map((c) => c.header), ...t.rows.map((row) => TARGET_COLUMNS.map((c) => readableCell(row, c.key)))];
     const widths = TARGET_COLUMNS.map((_, i) => Math.max(...rows.map((r) => r[i].length)));
     for (const r of rows) out.push(r.map((v, i) => (TARGET_COLUMNS[i].key === 'motion' ? v.padEnd(widths[i]) : v.padStart(widths[i]))).join('  ').trimEnd());
     out.push('');

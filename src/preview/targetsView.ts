@@ -2,7 +2,7 @@
 // the robot's code needs. A click on a row shows its line in the editor; the
 // cursor's line is highlighted here as in the drawing; both copy buttons ask
 // the host, which writes the table with the core's own CSV and Markdown.
-import type { TargetRow, TargetTable } from '../core/targets';
+import { readableCell, type TargetRow, type TargetTable } from '../core/targets';
 
 /** Columns shown, with headers a student can read; `motion` is the line as written. */
 const COLUMNS: readonly { key: keyof TargetRow; header: string; title: string }[] = [
@@ -20,11 +20,7 @@ const COLUMNS: readonly { key: keyof TargetRow; header: string; title: string }[
   { key: 'speed_mm_s', header: 'Speed (mm/s)', title: 'Wheel speed at the top power' },
 ];
 
-function cell(row: TargetRow, key: keyof TargetRow): string {
-  const v = row[key];
-  if (v === undefined || v === null) return key === 'duration_s' ? '?' : '';
-  return typeof v === 'number' ? (Number.isInteger(v) ? String(v) : v.toFixed(key === 'start_s' || key === 'duration_s' ? 2 : 1)) : v;
-}
+const cell = readableCell;
 
 export class TargetsView {
   readonly element = document.createElement('div');

@@ -102,8 +102,10 @@ describe('path preview webview (Chromium)', function () {
     const text = await tooltip.innerText();
     assert.match(text, new RegExp(`line ${LINE_FIRST_DRIVE + 1}: drive`));
     // Formatting of the core's own numbers, not new values.
-    assert.ok(text.includes(`time ${seg.duration.toFixed(2)} s`), text);
-    assert.ok(text.includes(`(${seg.endX.toFixed(1)}, ${seg.endY.toFixed(1)}) mm`), text);
+    // The same rounding as every other surface: up to two decimals of a second, one of a millimetre, no trailing zeros.
+    const trim = (v: number, digits: number) => String(Number(v.toFixed(digits)));
+    assert.ok(text.includes(`time ${trim(seg.duration, 2)} s`), text);
+    assert.ok(text.includes(`(${trim(seg.endX, 1)}, ${trim(seg.endY, 1)}) mm`), text);
   });
 
   it('zooms with the wheel, pans with a drag (which is not a click), and fits again', async () => {

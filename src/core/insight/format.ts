@@ -4,12 +4,9 @@ import type { LengthUnitName, WheelPair } from '../types';
 import { normaliseHeading } from '../solve/frame';
 import { LENGTH_UNIT_MM } from '../units/evaluate';
 
-/** Up to `digits` decimals, without trailing zeros, and never "-0". */
-export function formatNumber(value: number, digits = 1): string {
-  if (!Number.isFinite(value)) return String(value);
-  const text = value.toFixed(digits).replace(/\.?0+$/, '');
-  return text === '-0' ? '0' : text;
-}
+import { DIGITS, formatNumber } from '../format';
+
+export { formatNumber };
 
 /** Metres and inches need more decimals than millimetres to say the same thing. */
 const LENGTH_DIGITS: Record<LengthUnitName, number> = { mm: 1, cm: 2, m: 4, in: 3 };
@@ -19,11 +16,11 @@ export function formatLength(mm: number, unit: LengthUnitName): string {
 }
 
 export function formatAngle(deg: number): string {
-  return `${formatNumber(deg, 1)}°`;
+  return `${formatNumber(deg, DIGITS.angle)}°`;
 }
 
 export function formatTime(seconds: number): string {
-  return Number.isFinite(seconds) ? `${formatNumber(seconds, 2)} s` : 'unknown time';
+  return Number.isFinite(seconds) ? `${formatNumber(seconds, DIGITS.time)} s` : 'unknown time';
 }
 
 /**

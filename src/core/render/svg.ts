@@ -813,10 +813,10 @@ function drawScale(out: string[], d: Drawing, result: CheckResult): void {
 function drawCompass(out: string[], d: Drawing): void {
   const v = d.view;
   const px = v.px;
-  const r = 16 * px;
-  // Centre in user units, converted back to field units for the helpers.
-  const ux = v.width - v.margin * 0.5 - r - 6 * px;
-  const uy = v.contentTop + r + 14 * px;
+  const r = 22 * px;
+  // Centre in user units, converted back to field units for the helpers: just above the field's top right corner.
+  const ux = v.width - v.margin - r - 14 * px;
+  const uy = Math.max(v.contentTop - r - 4 * px, r + 16 * px);
   const c = { x: ux - v.x(0), y: v.y(0) - uy };
   const up = { x: 0, y: 1 };
   const tip = { x: c.x, y: c.y + r };
@@ -824,11 +824,11 @@ function drawCompass(out: string[], d: Drawing): void {
   const arcEnd = rotateAbout(from, c, 70, d.turns);
   const dir = d.tangent(arcEnd, c, 70);
   out.push(
-    `<g class="compass" stroke-width="${d.px(1.5)}"><title>Heading 0 faces up the field; positive headings and turns go ${d.turns}</title>`,
+    `<g class="compass" stroke-width="${d.px(2)}"><title>Heading 0 faces up the field; positive headings and turns go ${d.turns}</title>`,
     `<path d="M${d.xy(c)}L${d.xy(tip)}${d.chevron(tip, up)}"/>`,
     `<path d="M${d.xy(from)}${d.arc(from, c, 70)}${d.chevron(arcEnd, dir)}"/>`,
-    d.text('compass-label', { x: c.x, y: c.y + r + 9 * px }, '0°', SIZE.smallFont, ' text-anchor="middle" dy="0.35em"'),
-    d.text('compass-label', { x: arcEnd.x + dir.x * 10 * px + (d.turns === 'clockwise' ? 4 : -4) * px, y: arcEnd.y - 8 * px }, '+', SIZE.labelFont, ' text-anchor="middle" dy="0.35em"'),
+    d.text('compass-label', { x: c.x - 6 * px, y: c.y + r + 2 * px }, 'heading 0°', SIZE.smallFont, ' text-anchor="end" dy="0.35em"'),
+    d.text('compass-label', { x: arcEnd.x + (d.turns === 'clockwise' ? 8 : -8) * px, y: arcEnd.y - 10 * px }, '+', SIZE.labelFont + 2, ` text-anchor="${d.turns === 'clockwise' ? 'start' : 'end'}" dy="0.35em" font-weight="700"`),
     '</g>\n',
   );
 }
