@@ -184,6 +184,7 @@ class Preview {
     this.applyView();
     this.segments = new Map(message.segments.map((s) => [s.id, s]));
     this.title.textContent = message.title;
+    this.title.title = message.title; // the whole title, when the toolbar has to shorten it
     this.counts.textContent = [
       message.errorCount ? `${message.errorCount} error${message.errorCount === 1 ? '' : 's'}` : '',
       message.warningCount ? `${message.warningCount} warning${message.warningCount === 1 ? '' : 's'}` : '',
