@@ -120,6 +120,8 @@ export function previewHtml(webview: vscode.Webview, mediaRoot: vscode.Uri): str
 class PathPreview implements vscode.Disposable {
   private document: vscode.TextDocument | undefined;
   private run = -1;
+  /** The drawing area's width in CSS pixels, as the webview last reported it. */
+  private viewWidth = 1000;
   /** What the webview was last sent; its messages about anything else are stale. */
   private posted: DocumentStamp | undefined;
   private renderTimer: ReturnType<typeof setTimeout> | undefined;
@@ -215,8 +217,8 @@ class PathPreview implements vscode.Disposable {
     if (!document || this.disposed) return;
     const { result, version } = getAnalysis(document);
     if (this.run >= result.runs.length) this.run = -1;
-    const svg = renderSvg(result, { standalone: false, ...runOption(this.run) });
-    const message = buildRenderMessage(result, { uri: document.uri.toString(), version }, this.run, svg, targetTables(result, getAnalysis(document).text));
+    const svg = renderSvg(result, { standalone: false, width: this.viewWidth, ...runOption(this.run) });
+    const message = buildRenderMessage(result, { uri: document.uri.toString(), version }, this.run, svg, targetTables(result, getAnalysis(document).text), this.viewWidth);
     this.posted = { uri: message.uri, version: message.version };
     this.post(message);
   }
@@ -243,6 +245,13 @@ class PathPreview implements vscode.Disposable {
       case 'selectRun':
         this.run = message.run;
         this.renderNow();
+        return;
+      case 'viewSize':
+        // Text and strokes are sized for the panel's width: a narrow panel gets the same readable labels.
+        if (message.width !== this.viewWidth) {
+          this.viewWidth = message.width;
+          this.renderNow();
+        }
         return;
       case 'exportSvg': {
         const svg = renderSvg(getAnalysis(document).result, { standalone: true, ...runOption(this.run) });

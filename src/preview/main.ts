@@ -3,6 +3,8 @@
 // and offers zoom, pan, a run selector and export. No geometry here: the
 // drawing comes whole from the core's renderer.
 import {
+  MAX_VIEW_WIDTH,
+  MIN_VIEW_WIDTH,
   parseHostMessage,
   type CursorMessage,
   type PreviewMessage,
@@ -34,8 +36,8 @@ interface VsCodeApi {
 
 declare function acquireVsCodeApi(): VsCodeApi;
 
-/** The renderer sizes strokes and text for a drawing this many CSS pixels wide. */
-const RENDER_WIDTH_PX = 1000;
+/** A change of the drawing area's width by more than this share asks the host for a drawing sized anew. */
+const RESIZE_SHARE = 0.1;
 /** Large background shapes: a click on them is a click on empty field, not on a plan line. */
 const NOT_REVEALED = '.field, .grid';
 /** A press that moves less than this many pixels is a click, not a drag. */
@@ -117,6 +119,12 @@ class Preview {
     this.showTab(this.state.tab ?? 'drawing', false);
 
     window.addEventListener('message', (event) => this.onMessage(event.data));
+    // The host sizes text and strokes for the panel: tell it the width, now and after a resize.
+    let resizeTimer: ReturnType<typeof setTimeout> | undefined;
+    new ResizeObserver(() => {
+      if (resizeTimer) clearTimeout(resizeTimer);
+      resizeTimer = setTimeout(() => this.reportWidth(), 150);
+    }).observe(document.body);
     this.stage.addEventListener('wheel', (event) => this.onWheel(event), { passive: false });
     this.stage.addEventListener('pointerdown', (event) => this.onPointerDown(event));
     this.stage.addEventListener('pointermove', (event) => this.onHover(event));
@@ -135,6 +143,14 @@ class Preview {
     this.targetsTab.setAttribute('aria-selected', String(targets));
     document.body.dataset.tab = tab;
     if (save) this.saveState();
+  }
+
+  private renderedWidth = 0;
+
+  private reportWidth(): void {
+    const width = Math.round(Math.min(MAX_VIEW_WIDTH, Math.max(MIN_VIEW_WIDTH, this.stage.clientWidth || document.body.clientWidth)));
+    if (!this.state.uri || (this.renderedWidth && Math.abs(width - this.renderedWidth) < RESIZE_SHARE * this.renderedWidth)) return;
+    this.post({ type: 'viewSize', ...this.stamp(), width });
   }
 
   private stamp(): { uri: string; version: number } {
@@ -180,7 +196,8 @@ class Preview {
       const box = svg.getBBox();
       this.fit = { x: box.x, y: box.y, width: Math.max(box.width, 1), height: Math.max(box.height, 1) };
     }
-    svg.style.setProperty('--veer-unit', String(this.fit.width / RENDER_WIDTH_PX));
+    svg.style.setProperty('--veer-unit', String(this.fit.width / message.width));
+    this.renderedWidth = message.width;
     this.applyView();
     this.segments = new Map(message.segments.map((s) => [s.id, s]));
     this.title.textContent = message.title;
@@ -196,6 +213,8 @@ class Preview {
     this.applyHighlight();
     this.saveState();
     document.body.dataset.version = String(message.version);
+    // A drawing sized for another width (the first one, or one from before a resize): ask for this panel's.
+    this.reportWidth();
   }
 
   private fillRunSelect(message: RenderMessage): void {

@@ -42,6 +42,8 @@ export interface RenderMessage extends DocumentStamp {
   segments: SegmentSummary[];
   /** The targets table of every run (the table shows the run drawn, or all). */
   targets: TargetTable[];
+  /** The width in CSS pixels the drawing's text and strokes were sized for. */
+  width: number;
   errorCount: number;
   warningCount: number;
 }
@@ -85,13 +87,23 @@ export interface ExportPngMessage extends DocumentStamp {
   base64: string;
 }
 
+/** The drawing area's width in CSS pixels, so the host sizes text and strokes for it. */
+export interface ViewSizeMessage extends DocumentStamp {
+  type: 'viewSize';
+  width: number;
+}
+
 /** Copy the targets table of the run shown (or of every run) to the clipboard. */
 export interface CopyTargetsMessage extends DocumentStamp {
   type: 'copyTargets';
   format: 'csv' | 'markdown';
 }
 
-export type PreviewMessage = ReadyMessage | RevealMessage | SelectRunMessage | ExportSvgMessage | ExportPngMessage | CopyTargetsMessage;
+export type PreviewMessage = ReadyMessage | RevealMessage | SelectRunMessage | ExportSvgMessage | ExportPngMessage | CopyTargetsMessage | ViewSizeMessage;
+
+/** Drawing widths the host accepts (CSS pixels). */
+export const MIN_VIEW_WIDTH = 200;
+export const MAX_VIEW_WIDTH = 4000;
 
 /** Largest PNG the host accepts from the webview (base64 characters), so a runaway canvas cannot fill memory. */
 export const MAX_PNG_BASE64 = 64 * 1024 * 1024;
@@ -127,6 +139,10 @@ export function parsePreviewMessage(value: unknown): PreviewMessage | undefined 
       return isIndex(value.run, -1) ? { type: 'selectRun', ...stamp, run: value.run } : undefined;
     case 'exportSvg':
       return { type: 'exportSvg', ...stamp };
+    case 'viewSize':
+      return typeof value.width === 'number' && Number.isInteger(value.width) && value.width >= MIN_VIEW_WIDTH && value.width <= MAX_VIEW_WIDTH
+        ? { type: 'viewSize', ...stamp, width: value.width }
+        : undefined;
     case 'copyTargets':
       return value.format === 'csv' || value.format === 'markdown' ? { type: 'copyTargets', ...stamp, format: value.format } : undefined;
     case 'exportPng':
@@ -146,6 +162,7 @@ export function parseHostMessage(value: unknown): HostMessage | undefined {
   if (value.type === 'render') {
     return typeof value.svg === 'string' && typeof value.title === 'string' && Array.isArray(value.runNames)
       && Array.isArray(value.segments) && Array.isArray(value.targets) && isIndex(value.run, -1)
+      && typeof value.width === 'number' && value.width > 0
       ? (value as unknown as RenderMessage)
       : undefined;
   }
@@ -178,7 +195,7 @@ export function summariseSegments(runs: readonly RunResult[]): SegmentSummary[] 
  * The render message for `result`, whose drawing `svg` the caller made with the
  * core's renderer (kept out of here so the webview bundle never pulls in the core).
  */
-export function buildRenderMessage(result: CheckResult, stamp: DocumentStamp, run: number, svg: string, targets: TargetTable[]): RenderMessage {
+export function buildRenderMessage(result: CheckResult, stamp: DocumentStamp, run: number, svg: string, targets: TargetTable[], width = 1000): RenderMessage {
   const severities = result.diagnostics.map((d) => d.severity);
   return {
     type: 'render',
@@ -189,6 +206,7 @@ export function buildRenderMessage(result: CheckResult, stamp: DocumentStamp, ru
     run,
     segments: summariseSegments(result.runs),
     targets,
+    width,
     errorCount: severities.filter((s) => s === 'error').length,
     warningCount: severities.filter((s) => s === 'warning').length,
   };

@@ -337,6 +337,19 @@ describe('path preview webview (Chromium)', function () {
     }
   });
 
+  it('asks the host for a drawing sized for its panel, once', async () => {
+    await rendered(renderFor(PLAN, URI, 1));
+    const asked = await host.waitForPosted('viewSize');
+    const width = await host.page.evaluate(() => document.querySelector('.stage')!.clientWidth);
+    assert.strictEqual(asked.width, Math.round(width));
+    // A drawing made for that width asks nothing more.
+    await host.page.evaluate(() => { (window as unknown as Win).__posted.length = 0; });
+    await host.send({ ...renderFor(PLAN, URI, 2), width: asked.width });
+    await host.page.waitForFunction(() => document.body.dataset.version === '2');
+    const posted = await host.page.evaluate(() => (window as unknown as Win).__posted as { type: string }[]);
+    assert.deepStrictEqual(posted.filter((m) => m.type === 'viewSize'), []);
+  });
+
   it('exports the same PNG with or without the cursor highlight', async () => {
     await rendered(renderFor(PLAN, URI, 1));
     const page = host.page;
