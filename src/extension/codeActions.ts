@@ -6,7 +6,7 @@ import * as vscode from 'vscode';
 import type * as core from '../core';
 import { fewestResets, proveFix } from '../core/fix';
 import { getAnalysis, LANGUAGE_ID, type Analysis } from './analysis';
-import { codeOf, DIAGNOSTIC_SOURCE, toCodeAction, toRange } from './convert';
+import { codeOf, DIAGNOSTIC_SOURCE, toCodeAction, toDiagnostic, toRange } from './convert';
 
 export const FEWEST_RESETS_KIND = vscode.CodeActionKind.Source.append('veer').append('fewestResets');
 
@@ -46,19 +46,23 @@ function fewestResetsOf(analysis: Analysis): core.Fix | undefined {
 class PlanCodeActions implements vscode.CodeActionProvider {
   provideCodeActions(
     document: vscode.TextDocument,
-    _range: vscode.Range,
+    range: vscode.Range,
     context: vscode.CodeActionContext,
   ): vscode.CodeAction[] {
     const analysis = getAnalysis(document);
     const result = analysis.result;
     const actions: vscode.CodeAction[] = [];
     if (!context.only || context.only.contains(vscode.CodeActionKind.QuickFix)) {
-      for (const shown of context.diagnostics) {
-        if (shown.source !== DIAGNOSTIC_SOURCE) continue;
-        const found = result.diagnostics.find((d) => sameDiagnostic(d, shown));
-        for (const fix of found?.fixes ?? []) {
-          if (!proven(analysis, fix, found)) continue;
-          actions.push(toCodeAction(document.uri, fix, vscode.CodeActionKind.QuickFix, [shown]));
+      // The problems the editor passes, and ours in the range asked about: the editor's copy of
+      // the problems can lag a moment behind the ones just published.
+      const shownFor = (d: core.Diagnostic) => context.diagnostics.find((shown) => shown.source === DIAGNOSTIC_SOURCE && sameDiagnostic(d, shown));
+      for (const d of result.diagnostics) {
+        if (!d.fixes?.length) continue;
+        const shown = shownFor(d);
+        if (!shown && !toRange(d.range).intersection(range)) continue;
+        for (const fix of d.fixes) {
+          if (!proven(analysis, fix, d)) continue;
+          actions.push(toCodeAction(document.uri, fix, vscode.CodeActionKind.QuickFix, [shown ?? toDiagnostic(document.uri, d)]));
         }
       }
     }
