@@ -1,6 +1,7 @@
 import { strict as assert } from 'node:assert';
 import { applyEdits, checkPlan, fewestResets, lineMapper, proveFix } from '../../src/core';
 import type { CheckResult, Diagnostic, Fix, Pose } from '../../src/core/types';
+import { generator } from '../support/random';
 
 // The fix engine's promise: every fix offered on any line, applied and
 // checked again, leaves every motion ending where it did (0.01 mm, 0.001°)
@@ -9,20 +10,6 @@ import type { CheckResult, Diagnostic, Fix, Pose } from '../../src/core/types';
 // and sign convention the language allows), then on hand-made cases whose
 // expected text is worked out by hand from the language reference.
 
-/** mulberry32: a small, well-known seeded generator, so runs repeat exactly. */
-function generator(seed: number) {
-  let a = seed >>> 0;
-  const next = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const int = (lo: number, hi: number) => lo + Math.floor(next() * (hi - lo + 1));
-  const pick = <T>(xs: readonly T[]): T => xs[Math.floor(next() * xs.length)];
-  return { next, int, pick };
-}
 type Rng = ReturnType<typeof generator>;
 
 const PLANS = Math.max(5000, Number(process.env.VEER_FIX_PLANS) || 0);

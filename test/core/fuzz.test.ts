@@ -1,5 +1,6 @@
 import { strict as assert } from 'node:assert';
 import { checkPlan, INTERNAL_FAILURE, MAX_PLAN_CHARS, renderSvg } from '../../src/core';
+import { generator } from '../support/random';
 
 // Generated and mutated plans: the checker never throws, every diagnostic
 // range lies inside the document, and no input takes long (a hang guard, not
@@ -10,21 +11,6 @@ const RUNS = Math.max(20_000, Number(process.env.VEER_FUZZ_RUNS) || 0);
 const SEED = Number(process.env.VEER_FUZZ_SEED) || 0x5eed;
 /** Per input; generous on purpose: a slow machine must not fail, a hang must. */
 const MAX_MS_PER_INPUT = 2000;
-
-/** mulberry32: a small, well-known seeded generator, so runs repeat exactly. */
-function generator(seed: number) {
-  let a = seed >>> 0;
-  const next = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const int = (lo: number, hi: number) => lo + Math.floor(next() * (hi - lo + 1));
-  const pick = <T>(xs: readonly T[]): T => xs[Math.floor(next() * xs.length)];
-  return { next, int, pick };
-}
 
 type Rng = ReturnType<typeof generator>;
 

@@ -3,6 +3,7 @@ import Flatten from '@flatten-js/core';
 import { checkPlan, renderSvg, toJsonDocument } from '../../src/core';
 import type { CheckResult, Diagnostic, Point, Pose, Segment } from '../../src/core/types';
 import { footprintCorners, forwardVector } from '../../src/core/solve/frame';
+import { mulberry32 } from '../support/random';
 
 // `square`: the robot drives straight along its heading until its footprint
 // first touches a wall (a field edge or a box side), then turns square there.
@@ -190,21 +191,9 @@ describe('square: first contact against an independent computation', () => {
 });
 
 describe('square: properties on random squares', () => {
-  /** mulberry32, seeded so a failure repeats. */
-  function generator(seed: number) {
-    let a = seed >>> 0;
-    return () => {
-      a = (a + 0x6d2b79f5) >>> 0;
-      let t = a;
-      t = Math.imul(t ^ (t >>> 15), t | 1);
-      t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-      return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-    };
-  }
-
   it('first contact matches the independent one, nothing crosses the wall met, and every obstacle on the way is reported', function () {
     this.timeout(120_000);
-    const rnd = generator(0x5a11);
+    const rnd = mulberry32(0x5a11);
     const body: Body = { width: 150, length: 190, axle: -30 };
     let squared = 0;
     for (let i = 0; i < 400; i++) {

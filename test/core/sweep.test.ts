@@ -3,6 +3,7 @@ import Flatten from '@flatten-js/core';
 import type { Field, Obstacle, PathPiece, Point, Pose, TurnDirection } from '../../src/core/types';
 import { footprintCorners, rotatePose, type Footprint } from '../../src/core/solve/frame';
 import { overlapsAt, sweepPiece, type SweepHit } from '../../src/core/solve/sweep';
+import { mulberry32 } from '../support/random';
 
 // Expected values below come from plain geometry (Pythagoras, circle extremes),
 // worked out in the comments; the randomized part compares against a
@@ -288,17 +289,7 @@ describe('sweep: edge cases', () => {
 // steps, each sampled footprint intersected with each obstacle by
 // @flatten-js/core (polygon/point distances and containment).
 
-/** Mulberry32 PRNG: common practice, no published source; a fixed seed makes the run repeatable. */
-function prng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+const prng = mulberry32;
 
 const STEPS = 2000;
 
