@@ -95,3 +95,12 @@ describe('simulation: gyro turns', () => {
     assert.ok(r.atStop.pose.heading > 80 && r.atStop.pose.heading < 90 - 1, `${r.atStop.pose.heading}`);
   });
 });
+
+describe('simulation: the speed profile a ramped drive follows', () => {
+  it('trapezoidal and triangular profile times (constant-acceleration kinematics: t = d/v + v/a, or 2√(d/a) when too short)', async () => {
+    const { profileTime } = await import('../../src/core/solve/timing');
+    // d = 1 m, v = 0.5 m/s, a = 1 m/s²: 2.5 s; d = 0.2 m: 0.894427 s (the issue's check values).
+    assert.ok(Math.abs(profileTime(1000, 500, 1000) - 2.5) < 1e-12);
+    assert.ok(Math.abs(profileTime(200, 500, 1000) - 0.894427191) < 1e-9);
+  });
+});
