@@ -1,6 +1,7 @@
 import { strict as assert } from 'node:assert';
 import { plantStep, wheelStep, type PlantParams, type PlantState } from '../../src/core/sim/plant';
 import { simulateGyroSpin } from '../../src/core/sim/gyroTurn';
+import { profileTime } from '../../src/core/solve/timing';
 
 // The controller simulation's first pieces (issue 9), against results that
 // need no code of ours: the second-order step response of a proportional
@@ -97,8 +98,7 @@ describe('simulation: gyro turns', () => {
 });
 
 describe('simulation: the speed profile a ramped drive follows', () => {
-  it('trapezoidal and triangular profile times (constant-acceleration kinematics: t = d/v + v/a, or 2√(d/a) when too short)', async () => {
-    const { profileTime } = await import('../../src/core/solve/timing');
+  it('trapezoidal and triangular profile times (constant-acceleration kinematics: t = d/v + v/a, or 2√(d/a) when too short)', () => {
     // d = 1 m, v = 0.5 m/s, a = 1 m/s²: 2.5 s; d = 0.2 m: 0.894427 s (the issue's check values).
     assert.ok(Math.abs(profileTime(1000, 500, 1000) - 2.5) < 1e-12);
     assert.ok(Math.abs(profileTime(200, 500, 1000) - 0.894427191) < 1e-9);
