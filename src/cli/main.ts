@@ -1,9 +1,8 @@
 // The `veer` command: the core's checker and renderer for terminals and CI.
-import { closeSync, openSync, readSync, realpathSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
+import { closeSync, existsSync, openSync, readSync, realpathSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import { parseArgs } from 'node:util';
 import { checkPlan, fixPlan, proveFix, renderSvg, targetsCsv, targetsDocument, targetsText, toSarif, ExpressionCache, MAX_PLAN_CHARS, type CheckResult, type Diagnostic, type Fix } from '../core';
-import { existsSync } from 'node:fs';
 import { pathToFileURL } from 'node:url';
 import { diagnosticLine, runSummaryLine, toJsonDocument } from '../core/report';
 import { version } from '../../package.json';

@@ -31,3 +31,9 @@ export function formatProblemCount(errors: number, warnings: number): string {
   if (warnings) return plural(warnings, 'warning');
   return 'no problems';
 }
+
+/** Three decimals, for programs (JSON, CSV): enough for motor degrees and millimetres, and stable in files. */
+export function round3(v: number): number {
+  const r = Math.round(v * 1000) / 1000;
+  return Object.is(r, -0) ? 0 : r;
+}

@@ -2,7 +2,7 @@
 // built from a CheckResult. Pure, so the editor and tests can use it too.
 import type { CheckResult, Diagnostic, Pose, RunResult, Segment, WheelPair } from './types';
 import { normaliseHeading } from './solve/frame';
-import { formatRunDistance, formatRunTime } from './format';
+import { formatRunDistance, formatRunTime, round3 } from './format';
 
 export interface JsonPose { x_mm: number; y_mm: number; heading_deg: number }
 
@@ -53,15 +53,9 @@ export interface JsonDocument {
   runs: JsonRun[];
 }
 
-/** Rounds to 3 decimals: enough for motor degrees and millimetres, and stable in files. */
-const r3 = (v: number) => {
-  const r = Math.round(v * 1000) / 1000;
-  return Object.is(r, -0) ? 0 : r;
-};
-
 // Rounded first, then normalised, so a heading a hair under 360 reads 0, never 360.
-const pose = (p: Pose): JsonPose => ({ x_mm: r3(p.x), y_mm: r3(p.y), heading_deg: r3(normaliseHeading(r3(p.heading))) });
-const pair = (w: WheelPair): WheelPair => ({ left: r3(w.left), right: r3(w.right) });
+const pose = (p: Pose): JsonPose => ({ x_mm: round3(p.x), y_mm: round3(p.y), heading_deg: round3(normaliseHeading(round3(p.heading))) });
+const pair = (w: WheelPair): WheelPair => ({ left: round3(w.left), right: round3(w.right) });
 
 export function jsonSegment(s: Segment): JsonSegment {
   const out: JsonSegment = {
@@ -69,17 +63,17 @@ export function jsonSegment(s: Segment): JsonSegment {
     kind: s.kind,
     start: pose(s.start),
     end: pose(s.end),
-    turned_deg: r3(s.turned),
-    yaw_start_deg: r3(s.yawStart),
-    yaw_end_deg: r3(s.yawEnd),
-    duration_s: r3(s.duration),
-    distance_mm: r3(s.distance),
+    turned_deg: round3(s.turned),
+    yaw_start_deg: round3(s.yawStart),
+    yaw_end_deg: round3(s.yawEnd),
+    duration_s: round3(s.duration),
+    distance_mm: round3(s.distance),
     complete: s.complete,
   };
   if (s.shape) out.shape = s.shape;
   if (s.sensing) out.sensing = s.sensing;
-  if (s.yawTarget !== undefined) out.yaw_target_deg = r3(s.yawTarget);
-  if (s.radius !== undefined) out.radius_mm = r3(s.radius);
+  if (s.yawTarget !== undefined) out.yaw_target_deg = round3(s.yawTarget);
+  if (s.radius !== undefined) out.radius_mm = round3(s.radius);
   if (s.wheelDeg) out.wheel_deg = pair(s.wheelDeg);
   if (s.motorDeg) out.motor_deg = pair(s.motorDeg);
   if (s.label !== undefined) out.label = s.label;
@@ -102,8 +96,8 @@ export function jsonRun(r: RunResult): JsonRun {
   return {
     name: r.name,
     line: r.line + 1,
-    duration_s: r3(r.duration),
-    distance_mm: r3(r.distance),
+    duration_s: round3(r.duration),
+    distance_mm: round3(r.distance),
     turns: r.turns,
     wrap_crossings: r.wrapCrossings,
     segments: r.segments.map(jsonSegment),

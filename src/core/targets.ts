@@ -4,7 +4,7 @@
 // `veer targets` and the preview's table both come from here.
 import type { CheckResult, Segment } from './types';
 import { lineStartOffsets } from './text';
-import { DIGITS, formatNumber } from './format';
+import { DIGITS, formatNumber, round3 } from './format';
 
 export interface TargetRow {
   /** 1-based line of the motion. */
@@ -35,11 +35,6 @@ export interface TargetsDocument {
   runs: TargetTable[];
 }
 
-const r3 = (v: number) => {
-  const r = Math.round(v * 1000) / 1000;
-  return Object.is(r, -0) ? 0 : r;
-};
-
 /** Segments that are something the robot's code does (the start and marks are places, not motions). */
 const IN_TABLE: ReadonlySet<Segment['kind']> = new Set(['drive', 'turn', 'square', 'wait', 'reset']);
 
@@ -64,21 +59,21 @@ export function targetTables(result: CheckResult, text: string, run?: number): T
         line: seg.line + 1,
         motion: statementText(seg.line),
         kind: seg.kind,
-        start_s: r3(startAt),
-        duration_s: Number.isFinite(seg.duration) ? r3(seg.duration) : null,
+        start_s: round3(startAt),
+        duration_s: Number.isFinite(seg.duration) ? round3(seg.duration) : null,
       };
       if (seg.wheelDeg) {
-        row.left_wheel_deg = r3(seg.wheelDeg.left);
-        row.right_wheel_deg = r3(seg.wheelDeg.right);
+        row.left_wheel_deg = round3(seg.wheelDeg.left);
+        row.right_wheel_deg = round3(seg.wheelDeg.right);
       }
       if (seg.motorDeg) {
-        row.left_motor_deg = r3(seg.motorDeg.left);
-        row.right_motor_deg = r3(seg.motorDeg.right);
+        row.left_motor_deg = round3(seg.motorDeg.left);
+        row.right_motor_deg = round3(seg.motorDeg.right);
       }
-      if (seg.yawTarget !== undefined) row.yaw_target_deg = r3(seg.yawTarget);
-      if (seg.power !== undefined) row.power_pct = r3(seg.power * 100);
-      if (seg.minPower !== undefined) row.min_power_pct = r3(seg.minPower * 100);
-      if (seg.wheelSpeed !== undefined) row.speed_mm_s = r3(seg.wheelSpeed);
+      if (seg.yawTarget !== undefined) row.yaw_target_deg = round3(seg.yawTarget);
+      if (seg.power !== undefined) row.power_pct = round3(seg.power * 100);
+      if (seg.minPower !== undefined) row.min_power_pct = round3(seg.minPower * 100);
+      if (seg.wheelSpeed !== undefined) row.speed_mm_s = round3(seg.wheelSpeed);
       rows.push(row);
     }
     return { run: r.name, rows };
@@ -89,24 +84,24 @@ export function targetsDocument(file: string, result: CheckResult, text: string,
   return { file, title: result.setup.title, runs: targetTables(result, text, run) };
 }
 
-/** Column keys and headers, in order, shared by every text form. */
-export const TARGET_COLUMNS: readonly { key: keyof TargetRow; header: string }[] = [
-  { key: 'line', header: 'line' },
-  { key: 'motion', header: 'motion' },
-  { key: 'start_s', header: 'start s' },
-  { key: 'duration_s', header: 'time s' },
-  { key: 'left_wheel_deg', header: 'wheel L°' },
-  { key: 'right_wheel_deg', header: 'wheel R°' },
-  { key: 'left_motor_deg', header: 'motor L°' },
-  { key: 'right_motor_deg', header: 'motor R°' },
-  { key: 'yaw_target_deg', header: 'yaw target°' },
-  { key: 'power_pct', header: 'power %' },
-  { key: 'min_power_pct', header: 'min %' },
-  { key: 'speed_mm_s', header: 'speed mm/s' },
+/** The columns, in order, with the headers and explanations every surface shows (text, Markdown, the preview). */
+export const TARGET_COLUMNS: readonly { key: keyof TargetRow; header: string; title: string }[] = [
+  { key: 'line', header: 'Line', title: 'The plan line' },
+  { key: 'motion', header: 'Motion', title: 'The line as written' },
+  { key: 'start_s', header: 'Start (s)', title: 'When the motion starts, from the start of the run' },
+  { key: 'duration_s', header: 'Time (s)', title: 'How long the motion takes' },
+  { key: 'left_wheel_deg', header: 'Wheel L (°)', title: 'Left wheel rotation, degrees' },
+  { key: 'right_wheel_deg', header: 'Wheel R (°)', title: 'Right wheel rotation, degrees' },
+  { key: 'left_motor_deg', header: 'Motor L (°)', title: 'Left motor target, degrees: with the gear and, for encoder turns, the effective track' },
+  { key: 'right_motor_deg', header: 'Motor R (°)', title: 'Right motor target, degrees: with the gear and, for encoder turns, the effective track' },
+  { key: 'yaw_target_deg', header: 'Yaw target (°)', title: 'The reading the robot\'s code steers to' },
+  { key: 'power_pct', header: 'Power (%)', title: 'Top power' },
+  { key: 'min_power_pct', header: 'Min (%)', title: 'Lowest power of a gyro or ramped turn' },
+  { key: 'speed_mm_s', header: 'Speed (mm/s)', title: 'Wheel speed at the top power' },
 ];
 
 /** Decimals of each column where a person reads it (text tables; CSV and JSON keep three). */
-export function columnDigits(key: keyof TargetRow): number {
+function columnDigits(key: keyof TargetRow): number {
   if (key === 'start_s' || key === 'duration_s') return DIGITS.time;
   if (key === 'speed_mm_s') return DIGITS.speed;
   if (key === 'power_pct' || key === 'min_power_pct') return DIGITS.power;

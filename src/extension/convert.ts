@@ -31,15 +31,13 @@ export function toSeverity(severity: core.Severity): vscode.DiagnosticSeverity {
   }
 }
 
-/** Diagnostic codes link into the extension's own reference, read-only, at the code's section. */
-export function explanationUri(code: core.DiagnosticCode): vscode.Uri {
-  return helpUri(code);
-}
+
 
 export function toDiagnostic(uri: vscode.Uri, diagnostic: core.Diagnostic): vscode.Diagnostic {
   const converted = new vscode.Diagnostic(toRange(diagnostic.range), diagnostic.message, toSeverity(diagnostic.severity));
   converted.source = DIAGNOSTIC_SOURCE;
-  converted.code = { value: diagnostic.code, target: explanationUri(diagnostic.code) };
+  // The code links into the extension's own reference, read-only, at the code's section.
+  converted.code = { value: diagnostic.code, target: helpUri(diagnostic.code) };
   if (diagnostic.related?.length) {
     converted.relatedInformation = diagnostic.related.map(
       (info) => new vscode.DiagnosticRelatedInformation(new vscode.Location(uri, toRange(info.range)), info.message),

@@ -215,10 +215,10 @@ class PathPreview implements vscode.Disposable {
     this.renderTimer = undefined;
     const document = this.document;
     if (!document || this.disposed) return;
-    const { result, version } = getAnalysis(document);
+    const { result, version, text } = getAnalysis(document);
     if (this.run >= result.runs.length) this.run = -1;
     const svg = renderSvg(result, { standalone: false, width: this.viewWidth, ...runOption(this.run) });
-    const message = buildRenderMessage(result, { uri: document.uri.toString(), version }, this.run, svg, targetTables(result, getAnalysis(document).text), this.viewWidth);
+    const message = buildRenderMessage(result, { uri: document.uri.toString(), version }, this.run, svg, targetTables(result, text), this.viewWidth);
     this.posted = { uri: message.uri, version: message.version };
     this.post(message);
   }

@@ -314,14 +314,28 @@ class Preview {
    * few pixels: a thin path is hard to hit exactly.
    */
   private hitAt(clientX: number, clientY: number, selector: string): Element | undefined {
+    return this.hitsAt(clientX, clientY, [selector])[0];
+  }
+
+  /** The first hit for each selector, from one scan of the points around the pointer. */
+  private hitsAt(clientX: number, clientY: number, selectors: readonly string[]): (Element | undefined)[] {
+    const found: (Element | undefined)[] = selectors.map(() => undefined);
+    let missing = selectors.length;
     for (const [dx, dy] of HIT_OFFSETS) {
       for (const el of document.elementsFromPoint(clientX + dx, clientY + dy)) {
         if (!this.svg?.contains(el)) continue;
-        const hit = el.closest(selector);
-        if (hit && !hit.matches(NOT_REVEALED)) return hit;
+        selectors.forEach((selector, i) => {
+          if (found[i]) return;
+          const hit = el.closest(selector);
+          if (hit && !hit.matches(NOT_REVEALED)) {
+            found[i] = hit;
+            missing--;
+          }
+        });
+        if (missing === 0) return found;
       }
     }
-    return undefined;
+    return found;
   }
 
   /** Field coordinates (mm) of a client point, from the drawing's frame. */
@@ -337,8 +351,8 @@ class Preview {
     const at = this.fieldAt(event.clientX, event.clientY);
     this.readout.textContent = at ? `x ${Math.round(at.x)} mm, y ${Math.round(at.y)} mm` : '';
     // A problem marker says what the problem is.
-    const marker = this.hitAt(event.clientX, event.clientY, '.marker');
-    const id = this.hitAt(event.clientX, event.clientY, '[data-segment]')?.getAttribute('data-segment');
+    const [marker, segment] = this.hitsAt(event.clientX, event.clientY, ['.marker', '[data-segment]']);
+    const id = segment?.getAttribute('data-segment');
     const seg = id ? this.segments.get(id) : undefined;
     const lines = marker ? [marker.querySelector('title')?.textContent ?? ''].filter(Boolean) : seg ? tooltipLines(seg) : [];
     if (lines.length === 0) {

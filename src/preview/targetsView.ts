@@ -2,25 +2,7 @@
 // the robot's code needs. A click on a row shows its line in the editor; the
 // cursor's line is highlighted here as in the drawing; both copy buttons ask
 // the host, which writes the table with the core's own CSV and Markdown.
-import { readableCell, type TargetRow, type TargetTable } from '../core/targets';
-
-/** Columns shown, with headers a student can read; `motion` is the line as written. */
-const COLUMNS: readonly { key: keyof TargetRow; header: string; title: string }[] = [
-  { key: 'line', header: 'Line', title: 'The plan line' },
-  { key: 'motion', header: 'Motion', title: 'The line as written' },
-  { key: 'start_s', header: 'Start (s)', title: 'When the motion starts, from the start of the run' },
-  { key: 'duration_s', header: 'Time (s)', title: 'How long the motion takes' },
-  { key: 'left_wheel_deg', header: 'Wheel L (°)', title: 'Left wheel rotation, degrees' },
-  { key: 'right_wheel_deg', header: 'Wheel R (°)', title: 'Right wheel rotation, degrees' },
-  { key: 'left_motor_deg', header: 'Motor L (°)', title: 'Left motor target, degrees: with the gear and, for encoder turns, the effective track' },
-  { key: 'right_motor_deg', header: 'Motor R (°)', title: 'Right motor target, degrees: with the gear and, for encoder turns, the effective track' },
-  { key: 'yaw_target_deg', header: 'Yaw target (°)', title: 'The reading the robot\'s code steers to' },
-  { key: 'power_pct', header: 'Power (%)', title: 'Top power' },
-  { key: 'min_power_pct', header: 'Min (%)', title: 'Lowest power of a gyro or ramped turn' },
-  { key: 'speed_mm_s', header: 'Speed (mm/s)', title: 'Wheel speed at the top power' },
-];
-
-const cell = readableCell;
+import { readableCell, TARGET_COLUMNS as COLUMNS, type TargetTable } from '../core/targets';
 
 export class TargetsView {
   readonly element = document.createElement('div');
@@ -96,7 +78,7 @@ export class TargetsView {
         tr.title = 'Show this line in the plan';
         for (const c of COLUMNS) {
           const td = tr.insertCell();
-          td.textContent = cell(row, c.key);
+          td.textContent = readableCell(row, c.key);
           if (c.key !== 'motion') td.className = 'num';
           else td.classList.add('motion');
         }

@@ -154,7 +154,6 @@ describe('security: values that would give wrong results without a word', () => 
   });
 
   it('an infinite time is an error and the run total is unknown, not dropped', () => {
-    // 1 deg/s motors: the magnitude limits allow it; the drive then takes 3000 / (0.5 · π · 56 / 360) ≈ 12,278 s: finite.
     // A drive at 0 % power has no finite time, and says so.
     const r = expectProblem([...ROBOT, 'limit 10 s', start, 'drive 3000 speed 0%'], 4, 'setup', /would not move the robot/);
     assert.equal(r.runs[0].duration, Infinity);

@@ -4,9 +4,9 @@
 // absolute targets (`turn to`, `hold`) up to the next zero, as the whole-file
 // fix does. `proveFix` re-checks any of them.
 import type { CheckResult, Diagnostic, DriveStmt, Fix, MotionStmt, RunResult, TextEdit, TurnStmt } from '../types';
-import { MOTION_DEFAULTS, shortWay } from '../solve/runs';
-import { YawReadings } from '../solve/readings';
-import { readingItems, replay, replayKeepsPath, stretchAround, type ReadingItem, type ReplayChanges } from './replay';
+import { MOTION_DEFAULTS } from '../solve/runs';
+import { shortWay, YawReadings } from '../solve/readings';
+import { motionStatements, readingItems, replay, replayKeepsPath, stretchAround, type ReadingItem, type ReplayChanges } from './replay';
 import { insertLinesBefore, lineEndOf, writeNumber } from './text';
 
 interface Located {
@@ -27,7 +27,6 @@ export function attachFixes(result: CheckResult, text: string): void {
 }
 
 class FixContext {
-  private readonly stmts = new Map<number, MotionStmt>();
   private readonly where = new Map<number, Located>();
   private readonly itemsByRun = new Map<RunResult, ReadingItem[]>();
   private readonly lines: string[];
@@ -35,12 +34,10 @@ class FixContext {
   private readonly yaw: YawReadings;
   /** Lines with a crossing of their own (not one that follows from another). */
   private readonly reported: Set<number>;
-  readonly stmtAt = (line: number) => this.stmts.get(line);
+  readonly stmtAt: (line: number) => MotionStmt | undefined;
 
   constructor(private readonly result: CheckResult, text: string) {
-    for (const s of result.ast.statements) {
-      if (s.kind === 'start' || s.kind === 'drive' || s.kind === 'turn' || s.kind === 'resetYaw' || s.kind === 'square' || s.kind === 'wait' || s.kind === 'mark') this.stmts.set(s.line, s);
-    }
+    this.stmtAt = motionStatements(result);
     for (const run of result.runs) run.segments.forEach((seg, index) => { if (!this.where.has(seg.line)) this.where.set(seg.line, { run, index }); });
     this.lines = text.split(/\r\n|\r|\n/);
     this.eol = lineEndOf(text);
@@ -144,8 +141,7 @@ class FixContext {
   }
 
   private nearEdge(target: number): boolean {
-    const { lo, hi } = this.result.setup.yawRange;
-    return target - lo <= MOTION_DEFAULTS.wrapEdge || hi - target <= MOTION_DEFAULTS.wrapEdge;
+    return this.yaw.nearWrapPoint(target, MOTION_DEFAULTS.wrapEdge);
   }
 
   /** Edits that make a turn an encoder turn of `change` degrees. */

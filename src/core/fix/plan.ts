@@ -43,7 +43,8 @@ export function fixPlan(text: string, options: CheckOptions = {}): PlanFixResult
     if (proof.ok) {
       const inserted = resets.edits.filter((e) => /^\s*reset yaw(\r\n|\r|\n)$/.test(e.newText)).length;
       const rewritten = resets.edits.length - inserted;
-      changes.push(`inserted ${inserted} \`reset yaw\` line${inserted === 1 ? '' : 's'}${rewritten ? ` and rewrote ${rewritten} later target${rewritten === 1 ? '' : 's'}` : ''}, removing ${countCrossings(result) - countCrossings(proof.after)} wrap crossing${countCrossings(result) - countCrossings(proof.after) === 1 ? '' : 's'}; every motion ends where it did`);
+      const removed = countCrossings(result) - countCrossings(proof.after);
+      changes.push(`inserted ${inserted} \`reset yaw\` line${inserted === 1 ? '' : 's'}${rewritten ? ` and rewrote ${rewritten} later target${rewritten === 1 ? '' : 's'}` : ''}, removing ${removed} wrap crossing${removed === 1 ? '' : 's'}; every motion ends where it did`);
       current = proof.text;
       result = proof.after;
     } else {

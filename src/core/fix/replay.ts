@@ -1,7 +1,7 @@
 // Replays the yaw readings of a solved run with other zero points, keeping
 // every motion's change of heading: the readings a fixed plan will have, and
 // so the `turn to` and `hold` targets that make it drive the same path.
-import type { DriveStmt, MotionStmt, RunResult, TurnStmt } from '../types';
+import type { CheckResult, DriveStmt, MotionStmt, RunResult, TurnStmt } from '../types';
 import { YawReadings } from '../solve/readings';
 
 /** A motion whose target is a yaw reading (gyro turns and holds, and `turn to` by encoders). */
@@ -41,6 +41,15 @@ export interface ReplayedItem extends ReadingItem {
  */
 export function replayKeepsPath(items: readonly ReplayedItem[], run: RunResult, reportedLines: ReadonlySet<number>, except?: number): boolean {
   return items.every((it) => it.index === except || (it.representable && (!it.crossing || reportedLines.has(run.segments[it.index].line))));
+}
+
+const MOTION_KINDS: ReadonlySet<string> = new Set(['start', 'drive', 'turn', 'resetYaw', 'square', 'wait', 'mark']);
+
+/** The motion statement on each line, as a lookup for the fix engine. */
+export function motionStatements(result: CheckResult): (line: number) => MotionStmt | undefined {
+  const byLine = new Map<number, MotionStmt>();
+  for (const s of result.ast.statements) if (MOTION_KINDS.has(s.kind)) byLine.set(s.line, s as MotionStmt);
+  return (line) => byLine.get(line);
 }
 
 /** The motions of a run that aim at a yaw reading, with their statements. */

@@ -1,9 +1,9 @@
 // The whole-file fix: the fewest `reset yaw` lines that remove the wrap
 // crossings, with later `turn to` and `hold` targets rewritten so the robot
 // drives the path the plan means.
-import type { CheckResult, Fix, MotionStmt, Segment, TextEdit } from '../types';
+import type { CheckResult, Fix, Segment, TextEdit } from '../types';
 import { wrapReading } from '../solve/frame';
-import { readingItems, replay, replayKeepsPath } from './replay';
+import { motionStatements, readingItems, replay, replayKeepsPath } from './replay';
 import { insertLinesBefore, lineEndOf, writeNumber } from './text';
 
 /** The title the editor's source action and the docs use. */
@@ -21,13 +21,8 @@ export function fewestResets(result: CheckResult, text?: string): Fix | undefine
   if (!result.diagnostics.some((d) => d.code === 'wrap-cross')) return undefined;
   const { lo, hi } = result.setup.yawRange;
   const inRange = (t: number) => t >= lo && t < hi;
-  const lo0 = lo;
   const zeroReading = wrapReading(0, lo);
-  const stmts = new Map<number, MotionStmt>();
-  for (const s of result.ast.statements) {
-    if (s.kind === 'start' || s.kind === 'drive' || s.kind === 'turn' || s.kind === 'resetYaw' || s.kind === 'square' || s.kind === 'wait' || s.kind === 'mark') stmts.set(s.line, s);
-  }
-  const stmtAt = (line: number) => stmts.get(line);
+  const stmtAt = motionStatements(result);
   const eol = text === undefined ? '\n' : lineEndOf(text);
   const edits: TextEdit[] = [];
   let inserted = 0;
@@ -53,15 +48,15 @@ export function fewestResets(result: CheckResult, text?: string): Fix | undefine
       // (an existing zero ends a stretch): scanning the targets after p, not every segment.
       const reachOf = (p: number): number => {
         const limit = nextMandatory[p];
-        let lo = 0;
-        let hi = sorted.length;
-        while (lo < hi) {
-          const mid = (lo + hi) >> 1;
-          if (sorted[mid].index < p) lo = mid + 1; else hi = mid;
+        let first = 0;
+        let last = sorted.length;
+        while (first < last) {
+          const mid = (first + last) >> 1;
+          if (sorted[mid].index < p) first = mid + 1; else last = mid;
         }
-        for (let k = lo; k < sorted.length && sorted[k].index < limit; k++) {
+        for (let k = first; k < sorted.length && sorted[k].index < limit; k++) {
           const it = sorted[k];
-          if (!inRange(wrapReading(segs[it.index].start.heading - refHeading(p), lo0) + it.change)) return it.index;
+          if (!inRange(wrapReading(segs[it.index].start.heading - refHeading(p), lo) + it.change)) return it.index;
         }
         return limit;
       };

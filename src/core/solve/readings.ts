@@ -33,6 +33,11 @@ export class YawReadings {
     return target >= this.lo && target < this.hi;
   }
 
+  /** Within `edge` degrees of either end of the range, where sensor noise flips the reading. */
+  nearWrapPoint(target: number, edge: number): boolean {
+    return target - this.lo <= edge || this.hi - target <= edge;
+  }
+
   /** `start`, `reset yaw`, or a turn's `reset`: the sensor reads zero at this heading. */
   zero(heading: number): void {
     this.ref = heading;
@@ -46,11 +51,6 @@ export class YawReadings {
    */
   settle(heading: number): void {
     if (this.tainted && this.inRange(this.reading(heading))) this.tainted = false;
-  }
-
-  /** Whether the plan is being read unwrapped after a crossing (until the reading is back in range or zeroed). */
-  get afterCrossing(): boolean {
-    return this.tainted;
   }
 
   /** The reading the plan means at a heading: the sensor's, or unwrapped after a crossing. */
@@ -76,12 +76,7 @@ export class YawReadings {
    */
   absoluteChange(target: number, heading: number): number {
     const raw = target - this.reading(heading);
-    if (!this.nearestChange(heading)) return raw;
-    const c = wrapReading(raw, -180);
-    // A half turn either way: keep the sign of the raw error (within the
-    // rounding of targets written with six decimals).
-    if (180 - Math.abs(c) < 1e-6) return raw > 0 ? 180 : -180;
-    return c;
+    return this.nearestChange(heading) ? shortWay(raw) : raw;
   }
 
   /**
@@ -102,4 +97,15 @@ export class YawReadings {
     }
     return true;
   }
+}
+
+/**
+ * The same change of heading the short way round, in [-180, 180]. A half
+ * turn either way keeps the sign of the change (within the rounding of
+ * targets written with six decimals).
+ */
+export function shortWay(change: number): number {
+  const c = wrapReading(change, -180);
+  if (180 - Math.abs(c) < 1e-6) return change > 0 ? 180 : -180;
+  return c;
 }

@@ -6,7 +6,7 @@ import type {
   ResetYawStmt, RunResult, Segment, Severity, SquareStmt, StartStmt, TurnDirection, TurnShape, TurnStmt, WaitStmt,
 } from '../types';
 import { footprintOf, forwardVector, rightVector, rotatePose, wrapReading, type Footprint } from './frame';
-import { YawReadings } from './readings';
+import { shortWay, YawReadings } from './readings';
 import { encoderTurnTime, gyroTurnTime, profileTime } from './timing';
 import { squareUp, wallsOf } from './square';
 import { sweepPiece, overlapsAt, type SweepHit } from './sweep';
@@ -158,7 +158,6 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
           break;
       }
       yaw.settle(pose.heading);
-      fixedYaw.settle(pose.heading);
     }
 
     // A motion whose time cannot be computed has an error of its own; the run's total is then unknown (Infinity), never short.
@@ -238,7 +237,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       if (s.gain && dm.gain !== undefined && dm.gain <= 0) report(s.optionRanges.gain ?? s.range, 'error', 'setup', 'the gain must be greater than zero.');
       segments.push(seg);
       // A drive whose length could not be read has no path to check.
-      if (dm.distance !== undefined) sweep(seg, s.range, 'drive');
+      if (dm.distance !== undefined) sweep(seg, s.range, everything('drive'));
       return end;
     }
 
@@ -363,7 +362,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         seg.complete = false;
       }
       segments.push(seg);
-      if (s.to !== undefined ? tm.to !== undefined : tm.angle !== undefined) sweep(seg, s.range, shape);
+      if (s.to !== undefined ? tm.to !== undefined : tm.angle !== undefined) sweep(seg, s.range, everything(shape));
       return end;
     }
 
@@ -414,20 +413,9 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       // everything but that wall (it presses against it).
       const wallBox = out.wall.obstacle;
       const others = wallBox ? setup.obstacles.filter((o) => o !== wallBox) : setup.obstacles;
-      const leaving = squaredAgainst;
-      squaredAgainst = undefined;
-      const seen = new Set<string>();
-      seg.path.forEach((piece, i) => {
-        const field = i > 0 && !wallBox ? undefined : setup.field;
-        for (const hit of sweepPiece(piece, footprint, turns, others, field)) {
-          if (leaving?.obstacle && hit.obstacle === leaving.obstacle && i === 0 &&
-            sweepPiece(shiftPiece(piece, leaving.away, CONTACT_CLEARANCE), footprint, turns, [hit.obstacle], undefined).length === 0) continue;
-          const key = hit.kind === 'field' ? 'field' : `o:${hit.obstacle?.name}`;
-          if (seen.has(key)) continue;
-          seen.add(key);
-          reportHit(hit, s.range, i === 0 ? 'the drive to the wall' : 'the turn onto the wall', seg, piece);
-        }
-      });
+      sweep(seg, s.range, (i) => i === 0
+        ? { name: 'the drive to the wall', obstacles: others, field: setup.field }
+        : { name: 'the turn onto the wall', obstacles: others, field: wallBox ? setup.field : undefined });
       if (out.outcome !== 'side') {
         const away = out.wall.normal;
         squaredAgainst = { obstacle: out.wall.obstacle, away: out.wall.axis === 'x' ? { x: away, y: 0 } : { x: 0, y: away } };
@@ -505,17 +493,12 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         return true;
       }
       yaw.gyroMotion(target, h);
-      if (nearWrapPoint(target)) {
+      if (yaw.nearWrapPoint(target, MOTION_DEFAULTS.wrapEdge)) {
         report(range, 'warning', 'wrap-edge',
           `The yaw target ${fmt(target)}° is within ${MOTION_DEFAULTS.wrapEdge}° of the sensor's wrap point (${fmt(target - lo <= MOTION_DEFAULTS.wrapEdge ? lo : hi)}°): sensor noise can flip the reading between ${fmt(lo)}° and ${fmt(hi)}° and the robot can spin or swerve. Reset the yaw before this line so the target sits mid-range.`,
           { at });
       }
       return false;
-    }
-
-    /** Within the noise band of either end of the range: the same distance counts at both ends. */
-    function nearWrapPoint(target: number): boolean {
-      return target - lo <= MOTION_DEFAULTS.wrapEdge || hi - target <= MOTION_DEFAULTS.wrapEdge;
     }
 
     function sideOf(change: number): string {
@@ -529,24 +512,32 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       else if (p <= 0) report(range, 'error', 'setup', `a ${what} of ${fmt(p * 100)} % would not move the robot; use a power above 0 %.`);
     }
 
-    function sweep(seg: Segment, range: Range, shapeName: string, ignore?: Obstacle | 'field') {
+    /**
+     * Sweeps each piece of a segment's path against what `checkOf(i)` names,
+     * reporting each obstacle (and the field) once. A move that leaves the
+     * wall just squared against only touches it at the start: lifted off by a
+     * hair, does it still hit?
+     */
+    function sweep(seg: Segment, range: Range, checkOf: (piece: number) => PieceCheck) {
       const seen = new Set<string>();
       const leaving = squaredAgainst;
       squaredAgainst = undefined;
-      for (const piece of seg.path) {
-        const hits = sweepPiece(piece, footprint, turns, setup.obstacles, ignore === 'field' ? undefined : setup.field);
-        for (const hit of hits) {
-          if (hit.obstacle && hit.obstacle === ignore) continue;
-          // Flush against the box just squared against: a move that leaves it
-          // only touches it at the start. Lifted off by a hair, does it still hit?
+      seg.path.forEach((piece, i) => {
+        const check = checkOf(i);
+        for (const hit of sweepPiece(piece, footprint, turns, check.obstacles, check.field)) {
           if (leaving?.obstacle && hit.obstacle === leaving.obstacle &&
             sweepPiece(shiftPiece(piece, leaving.away, CONTACT_CLEARANCE), footprint, turns, [hit.obstacle], undefined).length === 0) continue;
           const key = hit.kind === 'field' ? 'field' : `o:${hit.obstacle?.name}`;
           if (seen.has(key)) continue;
           seen.add(key);
-          reportHit(hit, range, shapeName, seg, piece);
+          reportHit(hit, range, check.name, seg, piece);
         }
-      }
+      });
+    }
+
+    /** Every obstacle and the field edge, for a drive or a turn. */
+    function everything(name: string): () => PieceCheck {
+      return () => ({ name, obstacles: setup.obstacles, field: setup.field });
     }
 
     function reportHit(hit: SweepHit, range: Range, shapeName: string, seg: Segment, piece?: PathPiece) {
@@ -572,6 +563,13 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
 }
 
 type Obstacle = PlanSetup['obstacles'][number];
+
+/** What one piece of a path is checked against, and how a hit during it is described. */
+interface PieceCheck {
+  name: string;
+  obstacles: readonly Obstacle[];
+  field?: PlanSetup['field'];
+}
 
 /** How far (mm) a robot flush against a wall is lifted off it to tell touching from pressing in. */
 const CONTACT_CLEARANCE = 0.01;
@@ -614,12 +612,6 @@ function describeShape(shape: string): string {
     case 'drive': return 'this drive';
     default: return shape;
   }
-}
-
-/** The same change of heading the short way round, in [-180, 180]. */
-export function shortWay(change: number): number {
-  const c = wrapReading(change, -180);
-  return c === -180 && change > 0 ? 180 : c;
 }
 
 function describeTarget(stmt: TurnStmt | DriveStmt, target: number): string {
