@@ -60,6 +60,10 @@ const SPIN_RADIUS = 0.01;
 /** Bounds on the drawing's work, whatever the plan: grid lines per side, pieces per arc. */
 const MAX_GRID_LINES = 400;
 const MAX_ARC_PIECES = 48;
+/** Side of the grid cells labels are filed by, CSS pixels. */
+const LABEL_CELL_PX = 64;
+
+interface LabelBox { x0: number; y0: number; x1: number; y1: number }
 
 const SIZE = {
   pathStroke: 2.5,
@@ -289,8 +293,20 @@ class Drawing {
     return `<text class="${cls}" x="${num(this.view.x(at.x))}" y="${num(this.view.y(at.y))}" font-size="${this.px(fontPx)}" fill="currentColor" stroke="none"${extra}>${escapeXml(content)}</text>`;
   }
 
-  /** Boxes (user units) of the labels placed so far, so later labels keep clear of them. */
-  private readonly labelBoxes: { x0: number; y0: number; x1: number; y1: number }[] = [];
+  /**
+   * Boxes (user units) of the labels placed so far, so later labels keep
+   * clear of them: filed by grid cell, so a drawing with thousands of labels
+   * compares each new one with its neighbours only.
+   */
+  private readonly labelCells = new Map<string, LabelBox[]>();
+
+  private cellsOf(b: LabelBox, visit: (key: string) => boolean | void): boolean {
+    const size = LABEL_CELL_PX * this.view.px;
+    for (let i = Math.floor(b.x0 / size); i <= Math.floor(b.x1 / size); i++) {
+      for (let j = Math.floor(b.y0 / size); j <= Math.floor(b.y1 / size); j++) if (visit(`${i},${j}`) === false) return false;
+    }
+    return true;
+  }
 
   /**
    * A label placed where it overlaps no label placed before: at `at` if that
@@ -308,8 +324,8 @@ class Drawing {
       const x0 = anchor === 'start' ? x - px : anchor === 'middle' ? x - w / 2 : x - w + px;
       return { x0, y0: y - h / 2, x1: x0 + w, y1: y + h / 2 };
     };
-    const free = (b: { x0: number; y0: number; x1: number; y1: number }) =>
-      this.labelBoxes.every((o) => b.x1 <= o.x0 || b.x0 >= o.x1 || b.y1 <= o.y0 || b.y0 >= o.y1);
+    const free = (b: LabelBox) => this.cellsOf(b, (key) =>
+      (this.labelCells.get(key) ?? []).every((o) => b.x1 <= o.x0 || b.x0 >= o.x1 || b.y1 <= o.y0 || b.y0 >= o.y1));
     let place = at;
     let box = boxAt(at);
     if (!free(box)) {
@@ -324,7 +340,11 @@ class Drawing {
         }
       }
     }
-    this.labelBoxes.push(box);
+    this.cellsOf(box, (key) => {
+      const list = this.labelCells.get(key);
+      if (list) list.push(box);
+      else this.labelCells.set(key, [box]);
+    });
     return this.text(cls, place, content, fontPx, `${extra} text-anchor="${anchor}" dy="0.35em"`);
   }
 }
