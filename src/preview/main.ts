@@ -213,8 +213,9 @@ class Preview {
     this.applyHighlight();
     this.saveState();
     document.body.dataset.version = String(message.version);
-    // A drawing sized for another width (the first one, or one from before a resize): ask for this panel's.
-    this.reportWidth();
+    // A drawing sized for another width (the first one, or one from before a resize): ask for this
+    // panel's, once the frame is laid out (reading a width here would force a layout of the new drawing).
+    requestAnimationFrame(() => this.reportWidth());
   }
 
   private fillRunSelect(message: RenderMessage): void {
