@@ -55,6 +55,9 @@ export const DEFAULTS = {
   gear: 1,
   motorSpeed: 900,
   motorLag: 0.08,
+  stall: 0.05,
+  mismatch: 1,
+  gyro: { sample: 0.01, delay: 0, scale: 1 },
   noise: { drive: 0.01, turn: 0.015, gyro: 1, drift: 0.5 / 60 },
   grid: 100,
 } as const;
@@ -100,8 +103,9 @@ function checkPlanUnguarded(text: string, options: CheckOptions): CheckResult {
     lengthUnit,
     turns,
     yawRange: { ...DEFAULTS.yawRange },
-    robot: { gear: DEFAULTS.gear, motorSpeed: DEFAULTS.motorSpeed, motorLag: DEFAULTS.motorLag },
+    robot: { gear: DEFAULTS.gear, motorSpeed: DEFAULTS.motorSpeed, motorLag: DEFAULTS.motorLag, stall: DEFAULTS.stall, mismatch: DEFAULTS.mismatch },
     noise: { ...DEFAULTS.noise },
+    gyro: { ...DEFAULTS.gyro },
     obstacles: [],
     zones: [],
   };
@@ -365,7 +369,7 @@ function emptyResult(message: string): CheckResult {
     ast: { statements: [], lineCount: 0 },
     setup: {
       title: 'plan', lengthUnit: 'mm', turns: 'clockwise', yawRange: { ...DEFAULTS.yawRange }, robot: {},
-      noise: { ...DEFAULTS.noise }, obstacles: [], zones: [],
+      noise: { ...DEFAULTS.noise }, gyro: { ...DEFAULTS.gyro }, obstacles: [], zones: [],
     },
     runs: [],
     diagnostics: [{ range, severity: 'error', code: 'syntax', message }],

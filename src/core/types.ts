@@ -218,6 +218,10 @@ export interface Robot {
   motorSpeed: number;
   /** First-order time constant of the motor, seconds. */
   motorLag: number;
+  /** Below this power (fraction) the wheels do not move: static friction (`motor ... stall P`). */
+  stall: number;
+  /** Right wheel diameter over left wheel diameter (`wheel D mismatch E`). */
+  mismatch: number;
   /** Footprint rectangle; absent when the plan has no `body` (a circle of diameter = track is used). */
   body?: { width: number; length: number; axle: number };
 }
@@ -255,6 +259,16 @@ export interface Field {
   grid: number;
 }
 
+/** The yaw sensor as the robot's control loop sees it (`gyro sample T delay T scale F`). */
+export interface GyroModel {
+  /** The control loop's sample period, seconds. */
+  sample: number;
+  /** How late the reading is, seconds. */
+  delay: number;
+  /** Reading = scale × true angle turned. */
+  scale: number;
+}
+
 export interface PlanSetup {
   title: string;
   lengthUnit: LengthUnitName;
@@ -262,6 +276,7 @@ export interface PlanSetup {
   yawRange: { lo: number; hi: number };
   robot: Partial<Robot>;
   noise: NoiseModel;
+  gyro: GyroModel;
   field?: Field;
   obstacles: Obstacle[];
   zones: Zone[];
@@ -304,13 +319,28 @@ export interface WheelPair {
   right: number;
 }
 
-/** A time series from the controller simulation (a later issue fills it). */
-export interface Trace {
-  t: number[];
-  yaw: number[];
-  target: number[];
-  error: number[];
-  power: number[];
+/** What the controller simulation predicts for one motion (the robot model, section 2). */
+export interface Prediction {
+  /** Predicted start time from the run's start, s. */
+  start: number;
+  /** Time until the robot's code moves on to the next line, s (Infinity: never). */
+  duration: number;
+  /** Where the robot really is when the code moves on (the next motion starts here). */
+  end: Pose;
+  /** The yaw reading then, wrapped as the sensor reports it. */
+  reading: number;
+  /** Gyro turns: signed degrees past the target once the wheels have coasted to rest (positive: beyond it). */
+  overshoot?: number;
+  /** Gyro turns: time until the reading entered the stop band, s. */
+  settle?: number;
+  /** Largest turning rate, deg/s. */
+  peakRate: number;
+  /** The motion stopped before its end because a wheel's power was below the stall power. */
+  stalled?: boolean;
+  /** The motion hit the 20 s cap of simulated time. */
+  capped?: boolean;
+  /** Where the predicted path differs from the planned one by more than 2 mm or 0.5°: the predicted pieces. */
+  path?: PathPiece[];
 }
 
 export interface Segment {
@@ -349,8 +379,8 @@ export interface Segment {
   complete: boolean;
   /** Name of a `mark`, for the drawing and the outline. */
   label?: string;
-  /** Simulated controller traces, when available. */
-  trace?: Trace;
+  /** The controller simulation's prediction; absent when the motion could not be simulated (an earlier motion never ends, or a value is missing). */
+  predicted?: Prediction;
 }
 
 export interface RunResult {
@@ -364,6 +394,8 @@ export interface RunResult {
   distance: number;
   turns: number;
   wrapCrossings: number;
+  /** Predicted seconds for the whole run (Infinity when a motion never ends); undefined when not simulated. */
+  predictedDuration?: number;
 }
 
 export interface CheckResult {

@@ -1,9 +1,9 @@
 // The messages between the preview's host (extension side) and its webview.
 // Every message names the document (URI string) and the document version it
 // belongs to, so either side can drop what arrives late for an older text.
-import type { CheckResult, RunResult, SegmentKind, TurnShape, WheelPair } from '../core/types';
+import type { CheckResult, RunResult, SegmentKind, TurnDirection, TurnShape, WheelPair } from '../core/types';
 import type { TargetTable } from '../core/targets';
-import { normaliseHeading } from '../core/solve/frame';
+import { footprintOf, normaliseHeading } from '../core/solve/frame';
 
 export interface DocumentStamp {
   uri: string;
@@ -46,6 +46,78 @@ export interface RenderMessage extends DocumentStamp {
   width: number;
   errorCount: number;
   warningCount: number;
+  /** Per run drawn (same order as the drawn runs): the predicted timeline, for the timeline strip and the scrubber. */
+  timeline: TimelineRun[];
+  /** The robot's footprint in its own frame, and the file's turn direction, for drawing it at a scrubbed pose. */
+  footprint: FootprintShape;
+  turns: TurnDirection;
+}
+
+/** The robot's outline: a rectangle (`axle` mm ahead of its centre sits the axle midpoint) or a circle about the axle midpoint. */
+export type FootprintShape =
+  | { kind: 'rect'; width: number; length: number; axle: number }
+  | { kind: 'circle'; radius: number };
+
+/** One motion on the timeline, at its predicted time. */
+export interface TimelineBlock {
+  /** 0-based plan line. */
+  line: number;
+  kind: SegmentKind;
+  /** Seconds from the run's start (predicted). */
+  start: number;
+  duration: number;
+  /** Short text, e.g. "turn 90° gyro". */
+  label: string;
+  /** The worst problem on this motion's line, if any. */
+  problem?: 'error' | 'warning';
+}
+
+/** A run's predicted timeline and the predicted path sampled in time (at most MAX_TIMELINE_POSES samples). */
+export interface TimelineRun {
+  /** Index into the render message's `runNames`. */
+  runIndex: number;
+  name: string;
+  /** Predicted seconds for the whole run (Infinity is sent as -1: a motion never ends). */
+  total: number;
+  /** The plan's `limit`, seconds. */
+  limit?: number;
+  blocks: TimelineBlock[];
+  /** Predicted axle-midpoint poses in the field frame (mm, heading degrees unwrapped), by time. */
+  poses: { t: number[]; x: number[]; y: number[]; heading: number[] };
+}
+
+export const MAX_TIMELINE_POSES = 2000;
+
+/** The controller simulation's samples of one motion, one column per quantity, all of one length. */
+export interface TraceColumns {
+  /** Seconds from the run's start. */
+  t: number[];
+  /** The yaw reading the robot's code sees, degrees (NaN-free; the reading even for encoder motions). */
+  reading: number[];
+  /** The yaw target, degrees; null where the motion steers to none (encoder motions). */
+  target: (number | null)[];
+  /** target − reading, degrees; null where there is no target. */
+  error: (number | null)[];
+  /** Commanded power, percent (-100..100). */
+  powerLeft: number[];
+  powerRight: number[];
+  /** Wheel surface speeds, mm/s. */
+  speedLeft: number[];
+  speedRight: number[];
+}
+
+/** The trace of the motion on the cursor's line (sent after each cursor move and each render). */
+export interface TraceMessage extends DocumentStamp {
+  type: 'trace';
+  /** 0-based line of the motion traced, or the cursor's line when there is none. */
+  line: number;
+  /** A heading for the chart, e.g. "Line 12: turn by gyro, predicted 1.32 s, overshoot +0.8°". */
+  title: string;
+  /** Absent when the line has no simulated motion; `note` says why. */
+  columns?: TraceColumns;
+  /** The stop band of a gyro turn, degrees (drawn about the target). */
+  stop?: number;
+  note?: string;
 }
 
 /** The 0-based line of the editor's cursor in the previewed document. */
@@ -54,7 +126,7 @@ export interface CursorMessage extends DocumentStamp {
   line: number;
 }
 
-export type HostMessage = RenderMessage | CursorMessage;
+export type HostMessage = RenderMessage | CursorMessage | TraceMessage;
 
 // ---------------------------------------------------------------------------
 // Webview -> host
@@ -99,7 +171,13 @@ export interface CopyTargetsMessage extends DocumentStamp {
   format: 'csv' | 'markdown';
 }
 
-export type PreviewMessage = ReadyMessage | RevealMessage | SelectRunMessage | ExportSvgMessage | ExportPngMessage | CopyTargetsMessage | ViewSizeMessage;
+/** The scrubber or the play button reached this line (or -1 when stopped): the host marks it in the editor. */
+export interface ScrubMessage extends DocumentStamp {
+  type: 'scrub';
+  line: number;
+}
+
+export type PreviewMessage = ScrubMessage | ReadyMessage | RevealMessage | SelectRunMessage | ExportSvgMessage | ExportPngMessage | CopyTargetsMessage | ViewSizeMessage;
 
 /** Drawing widths the host accepts (CSS pixels). */
 export const MIN_VIEW_WIDTH = 200;
@@ -133,6 +211,8 @@ export function parsePreviewMessage(value: unknown): PreviewMessage | undefined 
   switch (value.type) {
     case 'ready':
       return { type: 'ready', ...stamp };
+    case 'scrub':
+      return isIndex(value.line, -1) ? { type: 'scrub', ...stamp, line: value.line } : undefined;
     case 'reveal':
       return isIndex(value.line, 0) ? { type: 'reveal', ...stamp, line: value.line } : undefined;
     case 'selectRun':
@@ -159,10 +239,16 @@ export function parsePreviewMessage(value: unknown): PreviewMessage | undefined 
 export function parseHostMessage(value: unknown): HostMessage | undefined {
   if (!isRecord(value) || !hasStamp(value)) return undefined;
   if (value.type === 'cursor') return isIndex(value.line, 0) ? (value as unknown as CursorMessage) : undefined;
+  if (value.type === 'trace') {
+    return isIndex(value.line, -1) && typeof value.title === 'string'
+      && (value.columns === undefined || (isRecord(value.columns) && Array.isArray(value.columns.t)))
+      ? (value as unknown as TraceMessage)
+      : undefined;
+  }
   if (value.type === 'render') {
     return typeof value.svg === 'string' && typeof value.title === 'string' && Array.isArray(value.runNames)
       && Array.isArray(value.segments) && Array.isArray(value.targets) && isIndex(value.run, -1)
-      && typeof value.width === 'number' && value.width > 0
+      && typeof value.width === 'number' && value.width > 0 && Array.isArray(value.timeline)
       ? (value as unknown as RenderMessage)
       : undefined;
   }
@@ -195,7 +281,8 @@ export function summariseSegments(runs: readonly RunResult[]): SegmentSummary[] 
  * The render message for `result`, whose drawing `svg` the caller made with the
  * core's renderer (kept out of here so the webview bundle never pulls in the core).
  */
-export function buildRenderMessage(result: CheckResult, stamp: DocumentStamp, run: number, svg: string, targets: TargetTable[], width = 1000): RenderMessage {
+export function buildRenderMessage(result: CheckResult, stamp: DocumentStamp, run: number, svg: string, targets: TargetTable[], width = 1000,
+  timeline: TimelineRun[] = []): RenderMessage {
   const severities = result.diagnostics.map((d) => d.severity);
   return {
     type: 'render',
@@ -209,5 +296,8 @@ export function buildRenderMessage(result: CheckResult, stamp: DocumentStamp, ru
     width,
     errorCount: severities.filter((s) => s === 'error').length,
     warningCount: severities.filter((s) => s === 'warning').length,
+    timeline,
+    footprint: footprintOf(result.setup.robot),
+    turns: result.setup.turns,
   };
 }

@@ -36,7 +36,7 @@ function result(
     ast: { statements, lineCount: lines.length },
     setup: {
       title: 't', lengthUnit: 'mm', turns: 'clockwise', yawRange: { lo: -180, hi: 180 }, robot: {},
-      noise: { drive: 0.01, turn: 0.015, gyro: 1, drift: 0.5 / 60 }, obstacles: [], zones: [],
+      noise: { drive: 0.01, turn: 0.015, gyro: 1, drift: 0.5 / 60 }, gyro: { sample: 0.01, delay: 0, scale: 1 }, obstacles: [], zones: [],
     },
     runs, diagnostics: [], names: {}, values: [], ...extra,
   };
