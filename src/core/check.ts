@@ -62,6 +62,17 @@ export const DEFAULTS = {
   grid: 100,
 } as const;
 
+/** Right wheel diameter over left: outside this, not two wheels of one size. */
+const MISMATCH_RANGE = { lo: 0.8, hi: 1.25 } as const;
+
+/** The largest sample period and delay (seconds) of a working control loop, and the scale factors of a working yaw sensor. */
+const GYRO_LIMITS = { sample: 0.5, delay: 1, scale: { lo: 0.5, hi: 2 } } as const;
+
+/** A short time as people write it: `10 ms`, `0.5 s`. */
+function showSeconds(t: number): string {
+  return Math.abs(t) < 1 ? `${fmt(t * 1000, 3)} ms` : `${fmt(t, 3)} s`;
+}
+
 /** The start of the one diagnostic a check gives when Veer itself fails (never on the fuzz corpus: a test says so). */
 export const INTERNAL_FAILURE = 'Veer could not check this plan: an internal error';
 
@@ -152,6 +163,16 @@ function checkPlanUnguarded(text: string, options: CheckOptions): CheckResult {
     return x === undefined || y === undefined ? undefined : { x, y };
   };
 
+  /** Shows a setup value in its hover with the digits it needs (`1.004`, `5 ms`), not the two decimals of other values. */
+  const showPrecisely = (expr: ExprNode, display: string): void => {
+    for (let i = values.length - 1; i >= 0; i--) {
+      if (values[i].range === expr.range) {
+        values[i].display = display;
+        return;
+      }
+    }
+  };
+
   // Setup values set twice: the second is an error pointing at the first.
   const seen = new Map<string, Statement>();
   const once = (key: string, s: Statement, what: string): boolean => {
@@ -206,6 +227,15 @@ function checkPlanUnguarded(text: string, options: CheckOptions): CheckResult {
           if (d < 1 || d > 2000) report(s.diameter.range, 'error', 'setup', `a wheel of ${fmt(d, 3)} mm across is not a small robot's wheel: wheel and motor degrees and times would be meaningless. Measure the wheel (a ruler across it, in mm), e.g. \`wheel 56 mm\`.`);
           else robot.wheelDiameter = d;
         }
+        const e = ev(s.mismatch, 'number');
+        if (e !== undefined && s.mismatch) {
+          showPrecisely(s.mismatch, fmt(e, 6));
+          if (e <= 0) {
+            report(s.mismatch.range, 'error', 'setup', `the wheel mismatch must be greater than zero (it is ${fmt(e, 6)}): it is the right wheel's diameter over the left wheel's, 1 for two equal wheels, e.g. \`wheel 56 mm mismatch 1.004\`.`);
+          } else if (e < MISMATCH_RANGE.lo || e > MISMATCH_RANGE.hi) {
+            report(s.mismatch.range, 'error', 'setup', `a mismatch of ${fmt(e, 6)} makes the right wheel ${fmt(Math.abs(e - 1) * 100, 1)} % ${e > 1 ? 'larger' : 'smaller'} than the left: not two wheels of one size, and the robot would curve hard to one side on every drive. It is the right wheel's diameter over the left wheel's, between ${MISMATCH_RANGE.lo} and ${MISMATCH_RANGE.hi} and usually within a few thousandths of 1 (measure both wheels, or drive 2 m and see which way the robot drifts), e.g. \`wheel 56 mm mismatch 1.004\`.`);
+          } else robot.mismatch = e;
+        }
         setupLines.wheelDiameter = s.line;
         break;
       }
@@ -232,6 +262,45 @@ function checkPlanUnguarded(text: string, options: CheckOptions): CheckResult {
         if (lag !== undefined && s.lag) {
           if (lag < 0) report(s.lag.range, 'error', 'setup', 'the motor lag cannot be negative; it is the time the motor takes to reach about 63 % of a new speed, e.g. `lag 80 ms`.');
           else robot.motorLag = lag;
+        }
+        const stall = ev(s.stall, 'fraction');
+        if (stall !== undefined && s.stall) {
+          if (stall < 0) {
+            report(s.stall.range, 'error', 'setup', `the stall power cannot be negative (it is ${fmt(stall * 100, 2)} %): it is the power below which static friction holds the wheels still. Measure it by raising the power until the robot just creeps, e.g. \`motor 900 deg/s stall 6%\`.`);
+          } else if (stall >= 1) {
+            report(s.stall.range, 'error', 'setup', `a stall power of ${fmt(stall * 100, 2)} % means the wheels would never move, not even at full power: it is the power below which static friction holds them still, and must be below 100 %. Measure it by raising the power until the robot just creeps, e.g. \`motor 900 deg/s stall 6%\`.`);
+          } else robot.stall = stall;
+        }
+        break;
+      }
+      case 'gyro': {
+        if (!once('gyro', s, 'The gyro')) break;
+        const sample = ev(s.sample, 'time');
+        const delay = ev(s.delay, 'time');
+        const scale = ev(s.scale, 'number');
+        if (sample !== undefined && s.sample) {
+          showPrecisely(s.sample, showSeconds(sample));
+          if (sample <= 0) {
+            report(s.sample.range, 'error', 'setup', `the gyro sample period must be greater than zero (it is ${showSeconds(sample)}): it is how often the robot's control loop reads the gyro and sets the motors, usually every 5 to 20 ms, e.g. \`gyro sample 10 ms\`.`);
+          } else if (sample > GYRO_LIMITS.sample) {
+            report(s.sample.range, 'error', 'setup', `a sample period of ${showSeconds(sample)} is too slow for a control loop: the robot would read the gyro and set its motors only every ${showSeconds(sample)} and swing far past its targets. It is how often the control loop runs, at most ${showSeconds(GYRO_LIMITS.sample)} and usually 5 to 20 ms, e.g. \`gyro sample 10 ms\`.`);
+          } else setup.gyro.sample = sample;
+        }
+        if (delay !== undefined && s.delay) {
+          showPrecisely(s.delay, showSeconds(delay));
+          if (delay < 0) {
+            report(s.delay.range, 'error', 'setup', `the gyro delay cannot be negative (it is ${showSeconds(delay)}): a reading cannot arrive before the robot turns. It is how old a reading is when the code uses it, 0 for a fresh one, e.g. \`gyro delay 5 ms\`.`);
+          } else if (delay > GYRO_LIMITS.delay) {
+            report(s.delay.range, 'error', 'setup', `a gyro delay of ${showSeconds(delay)} is not a working sensor: the robot would act on readings more than ${showSeconds(GYRO_LIMITS.delay)} old and swing far past every target. It is how old a reading is when the code uses it, usually a few milliseconds, e.g. \`gyro delay 5 ms\`.`);
+          } else setup.gyro.delay = delay;
+        }
+        if (scale !== undefined && s.scale) {
+          showPrecisely(s.scale, fmt(scale, 6));
+          if (scale <= 0) {
+            report(s.scale.range, 'error', 'setup', `the gyro scale must be greater than zero (it is ${fmt(scale, 6)}): a sensor that reads no turn, or the opposite turn, would never let a gyro turn reach its target, so the robot would spin on. It is the reading over the true angle turned, 1 for a perfect sensor, e.g. \`gyro scale 1.01\`.`);
+          } else if (scale < GYRO_LIMITS.scale.lo || scale > GYRO_LIMITS.scale.hi) {
+            report(s.scale.range, 'error', 'setup', `a gyro scale of ${fmt(scale, 6)} means the sensor reads ${fmt(scale, 6)} times the angle turned, so a 90° gyro turn would really turn ${fmt(90 / scale, 1)}°: no working sensor is that far off. It is the reading over the true angle turned, between ${GYRO_LIMITS.scale.lo} and ${GYRO_LIMITS.scale.hi} and usually within a percent or two of 1 (turn the robot ten full turns by hand and compare the reading), e.g. \`gyro scale 1.01\`.`);
+          } else setup.gyro.scale = scale;
         }
         break;
       }

@@ -66,10 +66,10 @@ export interface PlanStmt extends StatementBase { kind: 'plan'; title: StringNod
 export interface UnitsStmt extends StatementBase { kind: 'units'; unit: WordNode<LengthUnitName> }
 export interface TurnsStmt extends StatementBase { kind: 'turns'; direction: WordNode<'clockwise' | 'counterclockwise'> }
 export interface YawRangeStmt extends StatementBase { kind: 'yawRange'; lo: ExprNode; hi: ExprNode }
-export interface WheelStmt extends StatementBase { kind: 'wheel'; diameter: ExprNode }
+export interface WheelStmt extends StatementBase { kind: 'wheel'; diameter: ExprNode; mismatch?: ExprNode }
 export interface TrackStmt extends StatementBase { kind: 'track'; width: ExprNode; effective?: ExprNode }
 export interface GearStmt extends StatementBase { kind: 'gear'; ratio: ExprNode }
-export interface MotorStmt extends StatementBase { kind: 'motor'; speed: ExprNode; lag?: ExprNode }
+export interface MotorStmt extends StatementBase { kind: 'motor'; speed: ExprNode; lag?: ExprNode; stall?: ExprNode }
 export interface BodyStmt extends StatementBase { kind: 'body'; width: ExprNode; length: ExprNode; axle?: ExprNode }
 export interface FieldStmt extends StatementBase { kind: 'field'; width: ExprNode; height: ExprNode; grid?: ExprNode }
 export interface BoxStmt extends StatementBase { kind: 'box'; name: StringNode; a: PointNode; b: PointNode }
@@ -82,6 +82,8 @@ export interface NoiseStmt extends StatementBase {
   gyro?: ExprNode;
   drift?: ExprNode;
 }
+/** `gyro [sample T] [delay T] [scale F]`: the yaw sensor as the robot's control loop reads it (at least one option). */
+export interface GyroStmt extends StatementBase { kind: 'gyro'; sample?: ExprNode; delay?: ExprNode; scale?: ExprNode }
 export interface LimitStmt extends StatementBase { kind: 'limit'; time: ExprNode }
 export interface LetStmt extends StatementBase { kind: 'let'; name: string; nameRange: Range; value: ExprNode }
 
@@ -136,7 +138,7 @@ export interface MarkStmt extends StatementBase {
 export type SetupStmt =
   | PlanStmt | UnitsStmt | TurnsStmt | YawRangeStmt | WheelStmt | TrackStmt | GearStmt
   | MotorStmt | BodyStmt | FieldStmt | BoxStmt | CircleStmt | ZoneStmt | NoiseStmt
-  | LimitStmt | LetStmt;
+  | GyroStmt | LimitStmt | LetStmt;
 
 export type MotionStmt =
   | StartStmt | DriveStmt | TurnStmt | ResetYawStmt | SquareStmt | WaitStmt | MarkStmt;
@@ -159,6 +161,8 @@ export type DiagnosticCode =
   | 'syntax' | 'unit' | 'name' | 'setup'
   | 'wrap-cross' | 'wrap-edge' | 'long-way' | 'heading-jump'
   | 'off-field' | 'collision' | 'no-wall' | 'over-time' | 'miss'
+  /** From the controller simulation: past the stop band, stopped short for want of power, or never ending. */
+  | 'overshoot' | 'stall' | 'endless'
   /** Information only: something drawn or timed approximately (e.g. `hold ... step`). */
   | 'approximate';
 

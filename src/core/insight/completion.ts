@@ -30,14 +30,17 @@ const VALUE_UNITS: Record<string, readonly string[]> = {
   wheel: ['length'], track: ['length'], effective: ['length'], body: ['length'], by: ['length'], axle: ['length'],
   field: ['length'], grid: ['length'], radius: ['length'], drive: ['length'], arc: ['length'], within: ['length'],
   turn: ['angle'], to: ['angle', 'length'], hold: ['angle'], stop: ['angle'], heading: ['angle'], range: ['angle'],
-  wait: ['time'], limit: ['time'], lag: ['time'],
-  speed: ['fraction', 'speed'], min: ['fraction'], ratio: ['fraction'],
+  wait: ['time'], limit: ['time'], lag: ['time'], sample: ['time'], delay: ['time'],
+  speed: ['fraction', 'speed'], min: ['fraction'], ratio: ['fraction'], stall: ['fraction'],
+  // Plain numbers: no unit fits (and the statement's own unit must not be offered).
+  mismatch: [], scale: [],
+  gyro: ['angle'], drift: ['angular speed'],
   ramp: ['acceleration'], motor: ['angular speed'],
   let: ['length', 'angle', 'time', 'fraction', 'speed', 'angular speed', 'acceleration'],
 };
 
 /** Setup first while a plan has none yet, in the order a plan is written; motions first inside a run. */
-const SETUP_ORDER = ['plan', 'units', 'wheel', 'track', 'body', 'gear', 'motor', 'field', 'box', 'circle', 'zone', 'limit', 'let', 'turns', 'yaw range', 'noise'];
+const SETUP_ORDER = ['plan', 'units', 'wheel', 'track', 'body', 'gear', 'motor', 'gyro', 'field', 'box', 'circle', 'zone', 'limit', 'let', 'turns', 'yaw range', 'noise'];
 const MOTION_ORDER = ['drive', 'turn', 'mark', 'wait', 'square', 'reset yaw', 'start'];
 
 export function completionsAt(text: string, pos: Pos, result?: CheckResult): CompletionInfo[] {
@@ -89,7 +92,7 @@ function candidates(text: string, pos: Pos, result: CheckResult | undefined, wor
   if (statement.keyword === 'turn' && argumentWords.length === 0) {
     items.push({ label: 'to', kind: 'keyword', detail: 'turn until the yaw reading is this value', sortGroup: 1 });
   }
-  if (argumentWords.length > 0 && afterValue(previous)) items.push(...optionItems(statement, argumentWords));
+  if ((argumentWords.length > 0 || statement.optionsOnly) && afterValue(previous)) items.push(...optionItems(statement, argumentWords));
   if (!afterNumber || !partial) items.push(...letNames(pos, result));
   return items;
 }

@@ -29,7 +29,7 @@ function wordHover(result: CheckResult, text: string, pos: Pos): HoverInfo | und
   const statement = result.ast.statements.find((s) => s.line === pos.line);
   if (!statement || !rangeContains(statement.range, pos)) return undefined;
   const explain = Object.prototype.hasOwnProperty.call(WORD_EXPLANATIONS, word.word) ? WORD_EXPLANATIONS[word.word] : undefined;
-  return explain ? { markdown: explain(result), range: word.range } : undefined;
+  return explain ? { markdown: explain(result, statement), range: word.range } : undefined;
 }
 
 function nameHover(result: CheckResult, text: string, pos: Pos): HoverInfo | undefined {

@@ -11,6 +11,8 @@ export interface StatementWords {
   options: string[];
   /** Words that must come right after the keyword (a closed set). */
   firstWords?: string[];
+  /** The statement has no value of its own: options follow the keyword at once (`noise`, `gyro`). */
+  optionsOnly?: boolean;
   /** Words that must follow one of the options (a closed set), keyed by option. */
   optionWords?: Record<string, string[]>;
 }
@@ -20,16 +22,17 @@ export const STATEMENTS: StatementWords[] = [
   { keyword: 'units', group: 'setup', summary: 'unit of bare lengths', options: [], firstWords: ['mm', 'cm', 'm', 'in'] },
   { keyword: 'turns', group: 'setup', summary: 'positive direction of headings and turns', options: [], firstWords: ['clockwise', 'counterclockwise'] },
   { keyword: 'yaw range', group: 'setup', summary: "the yaw sensor's output interval (360 wide)", options: ['to'] },
-  { keyword: 'wheel', group: 'setup', summary: 'wheel diameter', options: [] },
+  { keyword: 'wheel', group: 'setup', summary: 'wheel diameter; `mismatch` for right over left', options: ['mismatch'] },
   { keyword: 'track', group: 'setup', summary: 'distance between the wheels; `effective` for calibrated turns', options: ['effective'] },
   { keyword: 'gear', group: 'setup', summary: 'motor degrees per wheel degree', options: [] },
-  { keyword: 'motor', group: 'setup', summary: 'motor speed at 100 % power, and its lag', options: ['lag'] },
+  { keyword: 'motor', group: 'setup', summary: 'motor speed at 100 % power, its lag, and the power below which the wheels stall', options: ['lag', 'stall'] },
+  { keyword: 'gyro', group: 'setup', summary: "the yaw sensor as the control loop reads it: sample period, delay, scale", options: ['sample', 'delay', 'scale'], optionsOnly: true },
   { keyword: 'body', group: 'setup', summary: 'robot footprint: width by length', options: ['by', 'axle'] },
   { keyword: 'field', group: 'setup', summary: 'field size and grid spacing', options: ['by', 'grid'] },
   { keyword: 'box', group: 'setup', summary: 'a rectangular obstacle', options: ['to'] },
   { keyword: 'circle', group: 'setup', summary: 'a round obstacle', options: ['radius'] },
   { keyword: 'zone', group: 'setup', summary: 'a named area (not an obstacle)', options: ['to'] },
-  { keyword: 'noise', group: 'setup', summary: 'error model', options: ['drive', 'turn', 'gyro', 'drift'] },
+  { keyword: 'noise', group: 'setup', summary: 'error model', options: ['drive', 'turn', 'gyro', 'drift'], optionsOnly: true },
   { keyword: 'limit', group: 'setup', summary: 'time allowed for each run', options: [] },
   { keyword: 'let', group: 'setup', summary: 'bind a name to a value', options: [] },
   { keyword: 'run', group: 'run', summary: 'begin a run', options: [] },

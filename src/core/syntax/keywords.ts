@@ -9,7 +9,7 @@ import type { Statement } from '../types';
  */
 export const STATEMENT_KEYWORDS: readonly string[] = [
   'drive', 'turn', 'start', 'run', 'mark', 'wait', 'reset', 'square',
-  'let', 'plan', 'units', 'turns', 'yaw', 'wheel', 'track', 'gear', 'motor',
+  'let', 'plan', 'units', 'turns', 'yaw', 'wheel', 'track', 'gear', 'motor', 'gyro',
   'body', 'field', 'box', 'circle', 'zone', 'noise', 'limit',
 ];
 
@@ -26,16 +26,17 @@ export const OPTIONS: Record<Statement['kind'], readonly string[]> = {
   units: [],
   turns: [],
   yawRange: ['to'],
-  wheel: [],
+  wheel: ['mismatch'],
   track: ['effective'],
   gear: [],
-  motor: ['lag'],
+  motor: ['lag', 'stall'],
   body: ['by', 'axle'],
   field: ['by', 'grid'],
   box: ['to'],
   circle: ['radius'],
   zone: ['to'],
   noise: ['drive', 'turn', 'gyro', 'drift'],
+  gyro: ['sample', 'delay', 'scale'],
   limit: [],
   let: [],
   run: [],

@@ -4,7 +4,7 @@
 // user types. Expressions stay source text: math.js evaluates them later.
 import { isMathName } from '../units/evaluate';
 import type {
-  BodyStmt, BoxStmt, CircleStmt, Diagnostic, DriveStmt, ExprNode, FieldStmt, Fix, GearStmt, LengthUnitName,
+  BodyStmt, BoxStmt, CircleStmt, Diagnostic, DriveStmt, ExprNode, FieldStmt, Fix, GearStmt, GyroStmt, LengthUnitName,
   LetStmt, LimitStmt, MarkStmt, MotorStmt, NoiseStmt, PlanAst, PlanStmt, PointNode, Range, RelatedInfo,
   ResetYawStmt, RunStmt, SquareStmt, StartStmt, Statement, StringNode, TrackStmt, TurnShapeNode, TurnStmt,
   TurnsStmt, UnitsStmt, WaitStmt, WheelStmt, WordNode, YawRangeStmt, ZoneStmt,
@@ -152,7 +152,16 @@ const NOISE_OPTIONS: OptionSpecs = {
 
 const SQUARE_OPTIONS: OptionSpecs = { speed: { value: EXPR, example: 'speed 30%' } };
 const TRACK_OPTIONS: OptionSpecs = { effective: { value: EXPR, example: 'effective 130 mm' } };
-const MOTOR_OPTIONS: OptionSpecs = { lag: { value: EXPR, example: 'lag 80 ms' } };
+const MOTOR_OPTIONS: OptionSpecs = {
+  lag: { value: EXPR, example: 'lag 80 ms' },
+  stall: { value: EXPR, example: 'stall 6%' },
+};
+const WHEEL_OPTIONS: OptionSpecs = { mismatch: { value: EXPR, example: 'mismatch 1.004' } };
+const GYRO_OPTIONS: OptionSpecs = {
+  sample: { value: EXPR, example: 'sample 10 ms' },
+  delay: { value: EXPR, example: 'delay 5 ms' },
+  scale: { value: EXPR, example: 'scale 1.01' },
+};
 const BODY_OPTIONS: OptionSpecs = { axle: { value: EXPR, example: 'axle -30' } };
 const FIELD_OPTIONS: OptionSpecs = { grid: { value: EXPR, example: 'grid 100' } };
 
@@ -165,6 +174,7 @@ const NEEDS = {
   track: '`track` needs a width, e.g. `track 128 mm`',
   gear: '`gear` needs a ratio (motor degrees per wheel degree), e.g. `gear 1`',
   motor: '`motor` needs its speed at full power, e.g. `motor 900 deg/s`',
+  gyro: '`gyro` needs at least one of `sample`, `delay` or `scale`, e.g. `gyro sample 10 ms delay 5 ms`',
   body: '`body` needs a width and a length, e.g. `body 150 by 190`',
   field: '`field` needs a width and a height, e.g. `field 2000 by 1200`',
   box: '`box` needs a name and two corners, e.g. `box "shelf" (900, 500) to (1100, 800)`',
@@ -263,6 +273,7 @@ class LineReader {
       case 'zone': return this.twoCorners(keyword, 'zone');
       case 'circle': return this.circle(keyword);
       case 'noise': return this.noise(keyword);
+      case 'gyro': return this.gyro(keyword);
       case 'let': return this.let(keyword);
       case 'run': return this.run(keyword);
       case 'start': return this.start(keyword);
@@ -308,8 +319,12 @@ class LineReader {
   }
 
   private wheel(keyword: Token): WheelStmt {
-    const diameter = this.expr(NEEDS.wheel, NO_STOPS);
-    return this.finish<WheelStmt>(keyword, keyword, { kind: 'wheel', diameter });
+    this.optionWords = OPTIONS.wheel;
+    const diameter = this.expr(NEEDS.wheel, stopsOf(WHEEL_OPTIONS));
+    const options = this.options(WHEEL_OPTIONS);
+    const fields: StatementFields<WheelStmt> = { kind: 'wheel', diameter };
+    copyExprs(fields, options, ['mismatch']);
+    return this.finish<WheelStmt>(keyword, keyword, fields);
   }
 
   private gear(keyword: Token): GearStmt {
@@ -341,7 +356,7 @@ class LineReader {
     const speed = this.expr(NEEDS.motor, stopsOf(MOTOR_OPTIONS));
     const options = this.options(MOTOR_OPTIONS);
     const fields: StatementFields<MotorStmt> = { kind: 'motor', speed };
-    copyExprs(fields, options, ['lag']);
+    copyExprs(fields, options, ['lag', 'stall']);
     return this.finish<MotorStmt>(keyword, keyword, fields);
   }
 
@@ -389,6 +404,18 @@ class LineReader {
     const fields: StatementFields<NoiseStmt> = { kind: 'noise' };
     copyExprs(fields, options, ['drive', 'turn', 'gyro', 'drift']);
     return this.finish<NoiseStmt>(keyword, keyword, fields);
+  }
+
+  private gyro(keyword: Token): GyroStmt {
+    this.optionWords = OPTIONS.gyro;
+    // Only options follow the keyword, and at least one: a bare value (`gyro 10 ms`) says what is needed.
+    const first = this.peek();
+    if (!first) return this.fail(keyword, NEEDS.gyro);
+    if (first.kind !== 'ident') return this.fail(first, NEEDS.gyro);
+    const options = this.options(GYRO_OPTIONS);
+    const fields: StatementFields<GyroStmt> = { kind: 'gyro' };
+    copyExprs(fields, options, ['sample', 'delay', 'scale']);
+    return this.finish<GyroStmt>(keyword, keyword, fields);
   }
 
   private let(keyword: Token): LetStmt {
