@@ -20,12 +20,15 @@ export const CODE_SUMMARIES: Record<DiagnosticCode, string> = {
   'over-time': 'A run takes longer than the time limit.',
   miss: 'A mark is missed.',
   approximate: 'A path or time that is an estimate.',
+  overshoot: 'The simulated robot turns past the stop band.',
+  stall: 'The simulated robot stops for want of power and waits for ever.',
+  endless: 'The simulated motion has not ended after 20 seconds.',
 };
 
 const DEFAULT_LEVEL: Record<DiagnosticCode, SarifLevel> = {
   syntax: 'error', unit: 'error', name: 'error', setup: 'error', 'wrap-cross': 'error', 'wrap-edge': 'warning',
   'long-way': 'warning', 'heading-jump': 'warning', 'off-field': 'error', collision: 'error', 'no-wall': 'error',
-  'over-time': 'warning', miss: 'warning', approximate: 'note',
+  'over-time': 'warning', miss: 'warning', approximate: 'note', overshoot: 'warning', stall: 'error', endless: 'error',
 };
 
 type SarifLevel = 'error' | 'warning' | 'note';

@@ -8,9 +8,12 @@ import type {
 import { footprintOf, forwardVector, rightVector, rotatePose, wrapReading, type Footprint } from './frame';
 import { shortWay, YawReadings } from './readings';
 import { encoderTurnTime, gyroTurnTime, profileTime } from './timing';
+import { MOTION_CAP_S } from '../sim/motion';
 import { squareUp, wallsOf } from './square';
 import { sweepPiece, overlapsAt, type SweepHit } from './sweep';
 import { fmt } from '../units/evaluate';
+import { predictRun, type RunPrediction } from '../sim/run';
+import { describeTuning, tuneGyroTurn, tuningFix, unstallGyroTurn } from '../sim/tune';
 
 export type EvaluatedMotion =
   | { stmt: StartStmt; at?: Point; heading?: number }
@@ -101,14 +104,27 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
     /** Set by a `square` against a box until the next move is checked. */
     let squaredAgainst: { obstacle?: Obstacle; away: Point } | undefined;
     const reading = (p: Pose) => yaw.sensor(p.heading);
+    const motionOf = new Map<Segment, EvaluatedMotion>();
+    /** The box a square presses against: the moves on and off it touch it. */
+    const squareWall = new Map<Segment, Obstacle>();
 
     for (const m of input.motions) {
+      const pushedBefore = segments.length;
+      solveMotion(m);
+      for (let i = pushedBefore; i < segments.length; i++) motionOf.set(segments[i], m);
+    }
+
+    // What the real robot does: every motion simulated in order.
+    const prediction = predictRun(segments, (seg) => motionOf.get(seg), setup, footprint, walls);
+    reportPrediction(prediction);
+
+    function solveMotion(m: EvaluatedMotion): void {
       const s = m.stmt;
       if (s.kind === 'start') {
         const sm = m as Extract<EvaluatedMotion, { stmt: StartStmt }>;
         if (pose) {
           report(s.range, 'error', 'setup', 'a run has one `start`; this one would teleport the robot. Begin a new `run "NAME"` before it, or remove it.');
-          continue;
+          return;
         }
         pose = { x: sm.at?.x ?? 0, y: sm.at?.y ?? 0, heading: sm.heading ?? 0 };
         zero(pose.heading);
@@ -116,7 +132,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         seg.complete = sm.at !== undefined && sm.heading !== undefined;
         segments.push(seg);
         for (const hit of overlapsAt(pose, footprint, turns, setup.obstacles, setup.field)) reportHit(hit, s.range, 'the start pose', seg);
-        continue;
+        return;
       }
       if (!pose) {
         report(s.range, 'error', 'setup', `the run "${input.name}" has no \`start\` before its first motion: add a line such as \`start (200, 200) heading 0\` to place the robot.`);
@@ -162,10 +178,12 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
 
     // A motion whose time cannot be computed has an error of its own; the run's total is then unknown (Infinity), never short.
     const duration = segments.reduce((t, sg) => t + sg.duration, 0);
+
     const distance = segments.reduce((t, sg) => t + sg.distance, 0);
     const result: RunResult = {
       name: input.name, line: input.line, range: input.range, segments, duration, distance,
       turns: segments.filter((sg) => sg.kind === 'turn').length, wrapCrossings,
+      ...(prediction.duration !== undefined ? { predictedDuration: prediction.duration } : {}),
     };
     if (setup.limit !== undefined && Number.isFinite(duration) && duration > setup.limit) {
       report(input.range, 'warning', 'over-time',
@@ -174,6 +192,99 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
     results.push(result);
 
     // -- per-segment solvers (closures over the run's state) ----------------
+
+    /**
+     * The simulation's findings: gyro-turn times, overshoot, stall and the
+     * cap, and collisions of the predicted path where it leaves the planned one.
+     */
+    function reportPrediction(pr: RunPrediction): void {
+      const crossed = new Set(diagnostics.filter((d) => d.code === 'wrap-cross').map((d) => d.range.start.line));
+      for (const seg of segments) {
+        // The simulation gives a gyro turn's time (spec section 8); the closed form stays where it cannot.
+        const p = seg.predicted;
+        if (seg.kind === 'turn' && seg.sensing === 'gyro' && p && Number.isFinite(p.duration) && !p.capped && !p.stalled) seg.duration = p.duration;
+      }
+      for (const ev of pr.events) {
+        const seg = ev.seg;
+        const p = seg.predicted!;
+        const stmt = stmtOf(seg);
+        if (!stmt) continue;
+        const at = { x: p.end.x, y: p.end.y };
+        if (ev.kind === 'capped') {
+          if (crossed.has(seg.line)) continue; // reported once, at the crossing
+          report(stmt.range, 'error', 'endless',
+            `This motion never ends on the robot: after ${MOTION_CAP_S} s of simulated time its code is still waiting${seg.sensing === 'gyro' ? ' for the yaw reading to come within the stop band (the robot rocks about the target, or creeps too slowly to reach it)' : ' for the wheels to reach their targets'}. ${seg.kind === 'turn' && seg.sensing === 'gyro' ? 'Widen the stop band a little, or lower `min` and `gain`.' : 'Check the speed, the motor and the wheel.'}`,
+            { at });
+          continue;
+        }
+        if (ev.kind === 'stall') {
+          const stall = robot.stall ?? 0;
+          if (stmt.kind === 'turn' && seg.sensing === 'gyro') {
+            const short = Math.abs(p.overshoot ?? 0);
+            const fix = unstallGyroTurn(seg);
+            const current = currentTurnSettings(seg, stmt);
+            report(stmt.range, 'error', 'stall',
+              `The robot stops ${fmt(short, 1)}° short of the target and waits for ever: near the target the controller gives ${fmt(current.min * 100)} % power (\`min\`), below the ${fmt(stall * 100)} % the wheels need to move (the stall power). ${fix ? `Raise \`min\` to ${fmt(fix.value! * 100)} % (predicted: ${fmt(fix.duration, 2)} s, ${fmt(Math.abs(fix.overshoot), 1)}° ${fix.overshoot >= 0 ? 'past' : 'short of'} the target).` : 'Raise `min` above the stall power.'}`,
+              { at, ...(fix ? { fixes: [tuningFix(fix, stmt, current, true)] } : {}) });
+          } else {
+            report(stmt.range, 'error', 'stall',
+              `The robot does not move: the wheels get ${fmt((seg.power ?? 0) * 100)} % power or less, below the ${fmt(stall * 100)} % they need to move (the stall power), so the code waits for ever. Raise \`speed\` above ${fmt(stall * 100)} %.`,
+              { at });
+          }
+          continue;
+        }
+        // Overshoot past the stop band.
+        if (stmt.kind !== 'turn') continue;
+        const stop = p.overshoot !== undefined ? (simStop(seg) ?? MOTION_DEFAULTS.turnStop) : MOTION_DEFAULTS.turnStop;
+        const current = currentTurnSettings(seg, stmt);
+        const options = tuneGyroTurn(seg);
+        const best = options[0];
+        report(stmt.range, 'warning', 'overshoot',
+          `The robot overshoots: it is predicted to end ${fmt(p.overshoot!, 1)}° past the target once the wheels run down, more than the ${fmt(stop)}° stop band (it arrives at ${fmt(p.peakRate, 0)}°/s at most and the motors take time to stop). ${best ? `What helps most: ${describeTuning(best, current)} (predicted: ${fmt(Math.abs(best.overshoot), 1)}° ${best.overshoot >= 0 ? 'past' : 'short of'} the target, ${fmt(best.duration, 2)} s).` : 'Lower `min`, `speed` or `gain`.'}`,
+          { at, ...(options.length ? { fixes: options.map((t, i) => tuningFix(t, stmt, current, i === 0)) } : {}) });
+      }
+      // The predicted path, where it leaves the planned one, checked like it.
+      for (let i = 0; i < segments.length; i++) {
+        const seg = segments[i];
+        const path = seg.predicted?.path;
+        if (!path || seg.kind === 'square') continue;
+        const stmt = stmtOf(seg);
+        if (!stmt) continue;
+        const pressedAgainst = new Set([squareWall.get(seg), i > 0 ? squareWall.get(segments[i - 1]) : undefined]);
+        const already = new Set(diagnostics.filter((d) => (d.code === 'collision' || d.code === 'off-field') && d.range.start.line === seg.line).map((d) => d.code === 'off-field' ? 'field' : d.message));
+        const seen = new Set<string>();
+        for (const piece of path) {
+          for (const hit of sweepPiece(piece, footprint, turns, setup.obstacles.filter((o) => !pressedAgainst.has(o)), setup.field)) {
+            const key = hit.kind === 'field' ? 'field' : `o:${hit.obstacle?.name}`;
+            if (seen.has(key)) continue;
+            seen.add(key);
+            if (hit.kind === 'field' ? already.has('field') : [...already].some((m) => m.includes(`"${hit.obstacle!.name}"`))) continue;
+            const off = seg.predicted!.end;
+            const drift = Math.hypot(off.x - seg.end.x, off.y - seg.end.y);
+            const what = hit.kind === 'field' ? 'leaves the field' : `hits the ${hit.obstacle!.kind} "${hit.obstacle!.name}"`;
+            report(stmt.range, 'warning', hit.kind === 'field' ? 'off-field' : 'collision',
+              `The predicted path ${what} here, though the planned path clears it: the real robot is ${fmt(drift, 0)} mm off the plan at the end of this motion (the motors' lag, coasting${(robot.mismatch ?? 1) !== 1 ? ', the wheel mismatch' : ''} and the controller's overshoot). Leave more room, or use ramps so the robot stops where planned.`,
+              { at: hit.at, ...(hit.pose ? { pose: hit.pose } : {}) });
+          }
+        }
+      }
+    }
+
+    function stmtOf(seg: Segment): TurnStmt | DriveStmt | SquareStmt | WaitStmt | undefined {
+      const s = motionOf.get(seg)?.stmt;
+      return s && (s.kind === 'turn' || s.kind === 'drive' || s.kind === 'square' || s.kind === 'wait') ? s : undefined;
+    }
+
+    function simStop(seg: Segment): number | undefined {
+      const m = motionOf.get(seg) as Extract<EvaluatedMotion, { stmt: TurnStmt }> | undefined;
+      return m?.stop;
+    }
+
+    function currentTurnSettings(seg: Segment, stmt: TurnStmt): { min: number; gain: number; power: number } {
+      const m = motionOf.get(seg) as Extract<EvaluatedMotion, { stmt: TurnStmt }>;
+      void stmt;
+      return { min: m.min ?? MOTION_DEFAULTS.turnMin, gain: m.gain ?? MOTION_DEFAULTS.turnGain, power: m.speed ?? MOTION_DEFAULTS.turnPower };
+    }
 
     function solveDrive(dm: Extract<EvaluatedMotion, { stmt: DriveStmt }>, from: Pose): Pose {
       const s = dm.stmt;
@@ -416,6 +527,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       sweep(seg, s.range, (i) => i === 0
         ? { name: 'the drive to the wall', obstacles: others, field: setup.field }
         : { name: 'the turn onto the wall', obstacles: others, field: wallBox ? setup.field : undefined });
+      if (out.wall.obstacle) squareWall.set(seg, out.wall.obstacle);
       if (out.outcome !== 'side') {
         const away = out.wall.normal;
         squaredAgainst = { obstacle: out.wall.obstacle, away: out.wall.axis === 'x' ? { x: away, y: 0 } : { x: 0, y: away } };

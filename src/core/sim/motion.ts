@@ -1,0 +1,398 @@
+// One motion as the robot's code runs it, in discrete time (the robot model,
+// section 2). The state is carried from motion to motion; each controller
+// recomputes its powers once per sample on the (delayed, scaled, wrapped)
+// yaw reading, and the wheels follow through their lag (exact zero-order-hold
+// steps, see plant.ts).
+import type { TurnDirection } from '../types';
+import { wrapReading } from '../solve/frame';
+
+/** Simulated time after which a motion is cut off and reported (the robot model's 20 s). */
+export const MOTION_CAP_S = 20;
+/** A wheel slower than this (mm/s) with no power has come to rest. */
+const REST_SPEED = 1e-3;
+const RAD = Math.PI / 180;
+
+/** The robot and its sensor, in canonical units. */
+export interface SimRobot {
+  /** Left wheel surface speed at full power, mm/s (the right wheel's is `mismatch` times it). */
+  fullSpeed: number;
+  lag: number;
+  stall: number;
+  mismatch: number;
+  /** The track the robot really turns on (the effective track), mm. */
+  track: number;
+  sample: number;
+  delay: number;
+  scale: number;
+  turns: TurnDirection;
+  yawLo: number;
+  /** Nominal (left) wheel circumference, mm, and motor degrees per wheel degree: to turn motor targets into travel. */
+  circumference: number;
+  gear: number;
+}
+
+/** Everything that carries from one motion into the next. */
+export interface SimState {
+  x: number;
+  y: number;
+  /** Field heading, degrees, unwrapped. */
+  h: number;
+  vL: number;
+  vR: number;
+  t: number;
+  /** Field heading at which the reading was zeroed. */
+  zero: number;
+  /** Headings at past sample times, for a delayed reading (kept only with a delay). */
+  histT: number[];
+  histH: number[];
+}
+
+export function restState(x: number, y: number, heading: number, t = 0): SimState {
+  return { x, y, h: heading, vL: 0, vR: 0, t, zero: heading, histT: [], histH: [] };
+}
+
+export function copyState(s: SimState): SimState {
+  return { ...s, histT: s.histT.slice(), histH: s.histH.slice() };
+}
+
+/** One row of a trace. */
+export interface TraceSink {
+  row(s: SimState, reading: number, target: number | null, uL: number, uR: number): void;
+}
+
+/** Where a motion's poses go, one per step (for the predicted path and the scrubber). */
+export interface PoseSink {
+  pose(t: number, x: number, y: number, h: number): void;
+}
+
+export interface MotionOutcome {
+  /** The code moved on; false when the motion stalled or hit the cap. */
+  finished: boolean;
+  stalled: boolean;
+  capped: boolean;
+  peakRate: number;
+  /** Gyro turns: the error when the motion ended or stalled, degrees. */
+  finalError?: number;
+}
+
+/** What a wheel does in an encoder motion: its commanded share of the outer wheel's power and its target travel (mm as its encoder counts it). */
+export interface EncoderMotion {
+  kind: 'encoders';
+  /** Target travel per wheel as its encoder counts it (nominal wheel), mm, signed. */
+  left: number;
+  right: number;
+  /** Top power of the wheel that travels most (fraction). */
+  power: number;
+  /** `ramp A` of a drive: accelerate and decelerate at A mm/s² (commanded speed of the outer wheel). */
+  accel?: number;
+  /** `ramp` of a turn: power min → power → min with progress. */
+  rampMin?: number;
+}
+
+export interface GyroTurnMotion {
+  kind: 'gyro-turn';
+  target: number;
+  /** Fraction of power per degree of error. */
+  gain: number;
+  min: number;
+  power: number;
+  stop: number;
+  ramp: boolean;
+  /** Each wheel's share of the turning power for a turn in the positive direction (outer wheel ±1; an arc's shares both reverse to turn back). */
+  shareL: number;
+  shareR: number;
+}
+
+export interface HoldDriveMotion {
+  kind: 'hold';
+  target: number;
+  gain: number;
+  /** Signed distance the encoders must count (their mean), mm. */
+  distance: number;
+  power: number;
+  accel?: number;
+}
+
+export interface WaitMotion {
+  kind: 'wait';
+  time: number;
+}
+
+export type SimMotion = EncoderMotion | GyroTurnMotion | HoldDriveMotion | WaitMotion;
+
+/** The lowest power a ramped drive commands (or its top power when lower), so that it never creeps. */
+export const RAMP_FLOOR = 0.1;
+
+/** The yaw reading as the robot's code sees it now (delayed, scaled, wrapped into the range). */
+export function readingOf(s: SimState, r: SimRobot): number {
+  return wrapReading(r.scale * (headingAt(s, s.t - r.delay) - s.zero), r.yawLo);
+}
+
+/** The heading at time `t` (≤ now), interpolated between the samples kept. */
+function headingAt(s: SimState, t: number): number {
+  if (t >= s.t || s.histT.length === 0) return s.h;
+  const T = s.histT;
+  if (t <= T[0]) return s.histH[0];
+  let i = T.length - 1;
+  while (i > 0 && T[i - 1] > t) i--;
+  // T[i-1] <= t < T[i] (or t beyond the last kept: between it and now)
+  const t1 = i < T.length ? T[i] : s.t;
+  const h1 = i < T.length ? s.histH[i] : s.h;
+  const t0 = T[i - 1];
+  const h0 = s.histH[i - 1];
+  return t1 > t0 ? h0 + ((h1 - h0) * (t - t0)) / (t1 - t0) : h1;
+}
+
+function remember(s: SimState, r: SimRobot): void {
+  if (r.delay <= 0) return;
+  s.histT.push(s.t);
+  s.histH.push(s.h);
+  // Keep what a delayed reading can still ask for.
+  const keepFrom = s.t - r.delay - 2 * r.sample;
+  let drop = 0;
+  while (drop < s.histT.length - 2 && s.histT[drop + 1] < keepFrom) drop++;
+  if (drop > 64) {
+    s.histT.splice(0, drop);
+    s.histH.splice(0, drop);
+  }
+}
+
+function effective(u: number, stall: number): number {
+  return Math.abs(u) < stall ? 0 : u;
+}
+
+/**
+ * Advances the plant by `dt` with wheel powers uL, uR held: each wheel's
+ * exact first-order response, then the exact arc of the two travels.
+ * Returns the two travels in `out`.
+ */
+function advance(s: SimState, r: SimRobot, uL: number, uR: number, dt: number, out: { sL: number; sR: number }): void {
+  const cL = effective(uL, r.stall) * r.fullSpeed;
+  const cR = effective(uR, r.stall) * r.fullSpeed * r.mismatch;
+  const a = r.lag > 0 ? Math.exp(-dt / r.lag) : 0;
+  const g = r.lag * (1 - a);
+  const sL = g * s.vL + cL * (dt - g);
+  const sR = g * s.vR + cR * (dt - g);
+  s.vL = a * s.vL + (1 - a) * cL;
+  s.vR = a * s.vR + (1 - a) * cR;
+  const sign = r.turns === 'clockwise' ? 1 : -1;
+  const dTheta = (sign * (sL - sR)) / r.track;
+  const ds = (sL + sR) / 2;
+  const half = dTheta / 2;
+  const chord = Math.abs(half) < 1e-9 ? ds : (ds * Math.sin(half)) / half;
+  const mid = s.h * RAD + half;
+  s.x += sign * Math.sin(mid) * chord;
+  s.y += Math.cos(mid) * chord;
+  s.h += dTheta / RAD;
+  s.t += dt;
+  out.sL = sL;
+  out.sR = sR;
+}
+
+/** Travel of one wheel over `dt` from speed v under command c (mm/s), exact. */
+function wheelTravel(v: number, c: number, lag: number, dt: number): number {
+  const g = lag > 0 ? lag * (1 - Math.exp(-dt / lag)) : 0;
+  return g * v + c * (dt - g);
+}
+
+/** The time within (0, dt] at which a wheel's travel reaches `need` (travel rising monotonically through it). */
+function crossingTime(v: number, c: number, lag: number, dt: number, need: number): number {
+  let lo = 0;
+  let hi = dt;
+  const dir = Math.sign(wheelTravel(v, c, lag, dt)) || 1;
+  for (let k = 0; k < 50; k++) {
+    const mid = (lo + hi) / 2;
+    if (dir * wheelTravel(v, c, lag, mid) >= dir * need) hi = mid;
+    else lo = mid;
+  }
+  return hi;
+}
+
+/** The turning rate, deg/s. */
+function rate(s: SimState, r: SimRobot): number {
+  return Math.abs((s.vL - s.vR) / r.track) / RAD;
+}
+
+/** Runs one motion from `s` (mutated to where the code moves on). */
+export function simulateMotion(s: SimState, r: SimRobot, m: SimMotion, trace?: TraceSink, poses?: PoseSink): MotionOutcome {
+  switch (m.kind) {
+    case 'wait': return runWait(s, r, m, trace, poses);
+    case 'encoders': return runEncoders(s, r, m, trace, poses);
+    case 'gyro-turn': return runGyroTurn(s, r, m, trace, poses);
+    case 'hold': return runHold(s, r, m, trace, poses);
+  }
+}
+
+function runWait(s: SimState, r: SimRobot, m: WaitMotion, trace?: TraceSink, poses?: PoseSink): MotionOutcome {
+  const end = s.t + m.time;
+  const out = { sL: 0, sR: 0 };
+  let peak = 0;
+  while (s.t < end - 1e-12) {
+    trace?.row(s, readingOf(s, r), null, 0, 0);
+    remember(s, r);
+    advance(s, r, 0, 0, Math.min(r.sample, end - s.t), out);
+    peak = Math.max(peak, rate(s, r));
+    poses?.pose(s.t, s.x, s.y, s.h);
+    // Once the wheels are at rest nothing changes: jump to the end.
+    if (Math.abs(s.vL) < REST_SPEED && Math.abs(s.vR) < REST_SPEED && r.delay <= 0) {
+      s.vL = 0;
+      s.vR = 0;
+      s.t = end;
+      poses?.pose(s.t, s.x, s.y, s.h);
+    }
+  }
+  s.t = end;
+  return { finished: true, stalled: false, capped: false, peakRate: peak };
+}
+
+function runEncoders(s: SimState, r: SimRobot, m: EncoderMotion, trace?: TraceSink, poses?: PoseSink): MotionOutcome {
+  const outer = Math.max(Math.abs(m.left), Math.abs(m.right));
+  const start = s.t;
+  if (outer === 0) return { finished: true, stalled: false, capped: false, peakRate: 0 };
+  const shareL = m.left / outer;
+  const shareR = m.right / outer;
+  let encL = 0;
+  let encR = 0;
+  let doneL = m.left === 0;
+  let doneR = m.right === 0;
+  const out = { sL: 0, sR: 0 };
+  let peak = 0;
+  const floor = Math.min(RAMP_FLOOR, m.power);
+  while (!(doneL && doneR)) {
+    if (s.t - start >= MOTION_CAP_S) return { finished: false, stalled: false, capped: true, peakRate: peak };
+    // The outer wheel's power now.
+    const progress = Math.max(Math.abs(encL) / (Math.abs(m.left) || Infinity), Math.abs(encR) / (Math.abs(m.right) || Infinity));
+    let p = m.power;
+    if (m.accel !== undefined && m.accel > 0) {
+      const remaining = Math.max(0, outer * (1 - progress));
+      const v = Math.min(m.power * r.fullSpeed, m.accel * (s.t - start) + floor * r.fullSpeed, Math.sqrt(2 * m.accel * remaining) + floor * r.fullSpeed);
+      p = v / r.fullSpeed;
+    } else if (m.rampMin !== undefined) {
+      p = m.rampMin + (m.power - m.rampMin) * Math.min(1, 2 * progress, 2 * (1 - progress));
+      p = Math.max(m.rampMin, Math.min(m.power, p));
+    }
+    const uL = doneL ? 0 : shareL * p;
+    const uR = doneR ? 0 : shareR * p;
+    if (trace) trace.row(s, readingOf(s, r), null, uL, uR);
+    if (effective(uL, r.stall) === 0 && effective(uR, r.stall) === 0 && Math.abs(s.vL) < REST_SPEED && Math.abs(s.vR) < REST_SPEED) {
+      return { finished: false, stalled: true, capped: false, peakRate: peak };
+    }
+    // Does a wheel reach its target within this sample?
+    const cL = effective(uL, r.stall) * r.fullSpeed;
+    const cR = effective(uR, r.stall) * r.fullSpeed * r.mismatch;
+    let dt = r.sample;
+    let finishing: 'L' | 'R' | undefined;
+    if (!doneL) {
+      const need = m.left - encL;
+      const d = wheelTravel(s.vL, cL, r.lag, dt);
+      if (Math.sign(need) * d >= Math.abs(need)) { dt = crossingTime(s.vL, cL, r.lag, dt, need); finishing = 'L'; }
+    }
+    if (!doneR) {
+      const need = (m.right - encR) * r.mismatch; // real travel the right wheel still needs
+      const d = wheelTravel(s.vR, cR, r.lag, dt);
+      if (Math.sign(need) * d >= Math.abs(need)) { dt = crossingTime(s.vR, cR, r.lag, dt, need); finishing = 'R'; }
+    }
+    remember(s, r);
+    advance(s, r, uL, uR, dt, out);
+    encL += out.sL;
+    encR += out.sR / r.mismatch;
+    peak = Math.max(peak, rate(s, r));
+    poses?.pose(s.t, s.x, s.y, s.h);
+    if (finishing === 'L' || (!doneL && Math.sign(m.left) * (encL - m.left) >= -1e-9)) { doneL = true; encL = m.left; }
+    if (finishing === 'R' || (!doneR && Math.sign(m.right) * (encR - m.right) >= -1e-9)) { doneR = true; encR = m.right; }
+  }
+  return { finished: true, stalled: false, capped: false, peakRate: peak };
+}
+
+function runGyroTurn(s: SimState, r: SimRobot, m: GyroTurnMotion, trace?: TraceSink, poses?: PoseSink): MotionOutcome {
+  const start = s.t;
+  const out = { sL: 0, sR: 0 };
+  let peak = 0;
+  const first = readingOf(s, r);
+  const span = m.target - first;
+  for (;;) {
+    const reading = readingOf(s, r);
+    const e = m.target - reading;
+    if (Math.abs(e) < m.stop) return { finished: true, stalled: false, capped: false, peakRate: peak, finalError: e };
+    if (s.t - start >= MOTION_CAP_S) return { finished: false, stalled: false, capped: true, peakRate: peak, finalError: e };
+    let u: number;
+    if (m.ramp) {
+      const progress = span === 0 ? 1 : (reading - first) / span;
+      u = m.min + (m.power - m.min) * Math.max(0, Math.min(1, 2 * progress, 2 * (1 - progress)));
+    } else u = Math.min(m.power, Math.max(m.min, m.gain * Math.abs(e)));
+    const dir = Math.sign(e); // +1: turn in the positive direction
+    const uL = dir * u * m.shareL;
+    const uR = dir * u * m.shareR;
+    if (trace) trace.row(s, reading, m.target, uL, uR);
+    if (effective(uL, r.stall) === 0 && effective(uR, r.stall) === 0 && Math.abs(s.vL) < REST_SPEED && Math.abs(s.vR) < REST_SPEED) {
+      return { finished: false, stalled: true, capped: false, peakRate: peak, finalError: e };
+    }
+    remember(s, r);
+    advance(s, r, uL, uR, r.sample, out);
+    peak = Math.max(peak, rate(s, r));
+    poses?.pose(s.t, s.x, s.y, s.h);
+  }
+}
+
+function runHold(s: SimState, r: SimRobot, m: HoldDriveMotion, trace?: TraceSink, poses?: PoseSink): MotionOutcome {
+  const start = s.t;
+  const out = { sL: 0, sR: 0 };
+  let peak = 0;
+  const sign = r.turns === 'clockwise' ? 1 : -1;
+  const goal = Math.abs(m.distance);
+  const back = m.distance < 0 ? -1 : 1;
+  const floor = Math.min(RAMP_FLOOR, m.power);
+  let counted = 0; // mean of the two encoders, along the drive's direction
+  while (counted < goal - 1e-9) {
+    if (s.t - start >= MOTION_CAP_S) return { finished: false, stalled: false, capped: true, peakRate: peak };
+    const reading = readingOf(s, r);
+    const e = m.target - reading;
+    let p = m.power;
+    if (m.accel !== undefined && m.accel > 0) {
+      const v = Math.min(m.power * r.fullSpeed, m.accel * (s.t - start) + floor * r.fullSpeed, Math.sqrt(2 * m.accel * Math.max(0, goal - counted)) + floor * r.fullSpeed);
+      p = v / r.fullSpeed;
+    }
+    const steer = sign * m.gain * e;
+    const uL = clamp1(back * p + steer);
+    const uR = clamp1(back * p - steer);
+    if (trace) trace.row(s, reading, m.target, uL, uR);
+    if (effective(uL, r.stall) === 0 && effective(uR, r.stall) === 0 && Math.abs(s.vL) < REST_SPEED && Math.abs(s.vR) < REST_SPEED) {
+      return { finished: false, stalled: true, capped: false, peakRate: peak };
+    }
+    // Would the encoders' mean pass the distance within this sample? Find when.
+    const cL = effective(uL, r.stall) * r.fullSpeed;
+    const cR = effective(uR, r.stall) * r.fullSpeed * r.mismatch;
+    const meanTravel = (dt: number) => back * (wheelTravel(s.vL, cL, r.lag, dt) + wheelTravel(s.vR, cR, r.lag, dt) / r.mismatch) / 2;
+    let dt = r.sample;
+    const need = goal - counted;
+    if (meanTravel(dt) >= need) {
+      let lo = 0;
+      let hi = dt;
+      for (let k = 0; k < 50; k++) {
+        const mid = (lo + hi) / 2;
+        if (meanTravel(mid) >= need) hi = mid;
+        else lo = mid;
+      }
+      dt = hi;
+    }
+    remember(s, r);
+    advance(s, r, uL, uR, dt, out);
+    counted += back * (out.sL + out.sR / r.mismatch) / 2;
+    peak = Math.max(peak, rate(s, r));
+    poses?.pose(s.t, s.x, s.y, s.h);
+  }
+  return { finished: true, stalled: false, capped: false, peakRate: peak };
+}
+
+function clamp1(u: number): number {
+  return u > 1 ? 1 : u < -1 ? -1 : u;
+}
+
+/**
+ * Where the robot comes to rest if no more power is given: each wheel coasts
+ * v·τ further (the integral of a first-order lag's decay), along one arc.
+ */
+export function coastedHeading(s: SimState, r: SimRobot): number {
+  const sign = r.turns === 'clockwise' ? 1 : -1;
+  return s.h + ((sign * (s.vL - s.vR) * r.lag) / r.track) / RAD;
+}

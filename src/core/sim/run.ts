@@ -1,0 +1,272 @@
+// Every motion of a run simulated in order, the state carried from one into
+// the next (the robot model, section 2): what the real robot does with the
+// plan, next to what the plan says.
+import type { DriveStmt, Pose, PlanSetup, Prediction, Segment, SquareStmt, TurnStmt } from '../types';
+import type { EvaluatedMotion } from '../solve/runs';
+import type { Wall } from '../solve/square';
+import type { Footprint } from '../solve/frame';
+import { squareUp } from '../solve/square';
+import {
+  coastedHeading, copyState, readingOf, restState, simulateMotion, MOTION_CAP_S,
+  type MotionOutcome, type SimMotion, type SimRobot, type SimState, type TraceSink,
+} from './motion';
+import { PoseBuffer, poseDifference, rigidPiece, simplify } from './path';
+
+/** The predicted path is drawn and checked where it leaves the planned one by more than this. */
+export const DIFFERS_MM = 2;
+export const DIFFERS_DEG = 0.5;
+
+/** What the simulation needs to run one motion again (for its trace, or with other settings for a fix). */
+export interface SimRecord {
+  state: SimState;
+  motion: SimMotion;
+  robot: SimRobot;
+}
+
+const records = new WeakMap<Segment, SimRecord>();
+
+/** How a motion was simulated, for its trace and for fixes. */
+export function simRecordOf(seg: Segment): SimRecord | undefined {
+  return records.get(seg);
+}
+
+/** The robot as the simulation sees it; undefined while the wheel (or, for turns, the track) is unknown. */
+export function simRobotOf(setup: PlanSetup): SimRobot | undefined {
+  const r = setup.robot;
+  if (r.wheelDiameter === undefined || r.motorSpeed === undefined || r.gear === undefined) return undefined;
+  const fullSpeed = ((r.motorSpeed / r.gear) * Math.PI * r.wheelDiameter) / 360;
+  return {
+    fullSpeed,
+    lag: r.motorLag ?? 0,
+    stall: r.stall ?? 0,
+    mismatch: r.mismatch ?? 1,
+    track: r.effectiveTrack ?? r.track ?? NaN,
+    sample: setup.gyro.sample,
+    delay: setup.gyro.delay,
+    scale: setup.gyro.scale,
+    turns: setup.turns,
+    yawLo: setup.yawRange.lo,
+    circumference: Math.PI * r.wheelDiameter,
+    gear: r.gear,
+  };
+}
+
+/** A motion's settings the fixes may change. */
+export interface GyroSettings {
+  stop: number;
+  min: number;
+  gain: number;
+  power: number;
+  ramp: boolean;
+}
+
+export interface MotionEvent {
+  seg: Segment;
+  kind: 'overshoot' | 'stall' | 'capped';
+}
+
+export interface RunPrediction {
+  /** Predicted seconds (Infinity when a motion never ends); undefined when nothing could be simulated. */
+  duration?: number;
+  events: MotionEvent[];
+}
+
+/**
+ * Simulates the run's motions in order. `motionOf` gives each segment's
+ * evaluated statement. Fills each segment's `predicted`; stops at a motion
+ * that never ends (what follows cannot be predicted).
+ */
+export function predictRun(
+  segments: readonly Segment[], motionOf: (seg: Segment) => EvaluatedMotion | undefined, setup: PlanSetup,
+  footprint: Footprint, walls: readonly Wall[],
+): RunPrediction {
+  const robot = simRobotOf(setup);
+  const events: MotionEvent[] = [];
+  if (!robot) return { events };
+  let state: SimState | undefined;
+  const poses = new PoseBuffer();
+  for (const seg of segments) {
+    const m = motionOf(seg);
+    if (!m) continue;
+    if (seg.kind === 'start') {
+      state = restState(seg.start.x, seg.start.y, seg.start.heading);
+      seg.predicted = { start: 0, duration: 0, end: { ...seg.start }, reading: readingOf(state, robot), peakRate: 0 };
+      continue;
+    }
+    if (!state) return { events };
+    if (!seg.complete && seg.kind !== 'mark' && seg.kind !== 'reset') return { events, duration: undefined };
+    const before: Pose = { x: state.x, y: state.y, heading: state.h };
+    const startT = state.t;
+    poses.clear();
+    poses.pose(state.t, state.x, state.y, state.h);
+    let outcome: MotionOutcome = { finished: true, stalled: false, capped: false, peakRate: 0 };
+    let motion: SimMotion | undefined;
+    let pathEnd: Pose | undefined;
+    if (seg.kind === 'reset') state.zero = state.h;
+    else if (seg.kind === 'mark') { /* no time, no motion */ } else if (seg.kind === 'square') {
+      const squared = squareFrom(state, seg, m.stmt as SquareStmt, setup, footprint, walls);
+      if (!squared) return { events };
+      motion = squared.motion;
+      records.set(seg, { state: copyState(state), motion, robot });
+      outcome = simulateMotion(state, robot, motion, undefined, poses);
+      if (outcome.finished) {
+        // Pressed against the wall, the robot turns square to it and stops.
+        state.x = squared.end.x;
+        state.y = squared.end.y;
+        state.h = squared.end.heading;
+        state.vL = 0;
+        state.vR = 0;
+        pathEnd = squared.end;
+      }
+    } else {
+      if (seg.kind === 'turn' && (m.stmt as TurnStmt).reset) state.zero = state.h;
+      motion = motionFor(seg, m, state, robot);
+      if (!motion) return { events };
+      records.set(seg, { state: copyState(state), motion, robot });
+      outcome = simulateMotion(state, robot, motion, undefined, poses);
+    }
+    const end: Pose = { x: state.x, y: state.y, heading: state.h };
+    const p: Prediction = {
+      start: startT,
+      duration: outcome.finished ? state.t - startT : outcome.capped ? MOTION_CAP_S : Infinity,
+      end,
+      reading: readingOf(state, robot),
+      peakRate: outcome.peakRate,
+    };
+    if (outcome.stalled) p.stalled = true;
+    if (outcome.capped) p.capped = true;
+    if (motion?.kind === 'gyro-turn') {
+      const gm = motion;
+      p.settle = outcome.finished ? p.duration : undefined;
+      // Degrees past the target once the wheels have run down, on the reading's own scale.
+      const first = readingOf(records.get(seg)!.state, robot);
+      const rest = first + robot.scale * (coastedHeading(state, robot) - records.get(seg)!.state.h);
+      const way = Math.sign(gm.target - first) || 1;
+      p.overshoot = way * (rest - gm.target);
+      if (outcome.finished && p.overshoot > gm.stop) events.push({ seg, kind: 'overshoot' });
+    }
+    if (outcome.stalled) events.push({ seg, kind: 'stall' });
+    if (outcome.capped) events.push({ seg, kind: 'capped' });
+    const diffStart = poseDifference(before, seg.start);
+    const diffEnd = poseDifference(end, seg.end);
+    if (diffStart.mm > DIFFERS_MM || diffStart.deg > DIFFERS_DEG || diffEnd.mm > DIFFERS_MM || diffEnd.deg > DIFFERS_DEG) {
+      const pieces = poses.length > 1 ? simplify(poses, 0, poses.length - 1, robot.turns) : [];
+      if (pathEnd) pieces.push(rigidPiece(poses.at(poses.length - 1), pathEnd, robot.turns));
+      p.path = pieces;
+    }
+    seg.predicted = p;
+    if (!outcome.finished) return { events, duration: Infinity };
+  }
+  const last = [...segments].reverse().find((s) => s.predicted);
+  return { events, duration: last?.predicted ? last.predicted.start + last.predicted.duration : undefined };
+}
+
+/** The simulated motion a segment's statement commands, from the state it really starts in. */
+export function motionFor(seg: Segment, m: EvaluatedMotion, state: SimState, robot: SimRobot, patch: Partial<GyroSettings> = {}): SimMotion | undefined {
+  const s = m.stmt;
+  if (s.kind === 'wait') return { kind: 'wait', time: Math.max(0, seg.duration) };
+  if (s.kind === 'drive') {
+    const dm = m as Extract<EvaluatedMotion, { stmt: DriveStmt }>;
+    if (dm.distance === undefined || seg.power === undefined) return undefined;
+    const accel = dm.ramp !== undefined && dm.ramp > 0 ? dm.ramp : undefined;
+    if (s.hold && dm.hold !== undefined) {
+      return { kind: 'hold', target: dm.hold, gain: (dm.gain ?? 2) / 100, distance: dm.distance, power: seg.power, accel };
+    }
+    return { kind: 'encoders', left: dm.distance, right: dm.distance, power: seg.power, accel };
+  }
+  if (s.kind === 'turn') {
+    const tm = m as Extract<EvaluatedMotion, { stmt: TurnStmt }>;
+    if (!seg.wheelDeg || !seg.motorDeg || seg.power === undefined || !Number.isFinite(robot.track)) return undefined;
+    if (seg.sensing === 'gyro') {
+      const outer = Math.max(Math.abs(seg.wheelDeg.left), Math.abs(seg.wheelDeg.right));
+      if (!(outer > 0)) return undefined;
+      const way = Math.sign(seg.turned) || 1;
+      const reading = readingOf(state, robot);
+      const target = s.to !== undefined ? tm.to : tm.angle !== undefined ? (s.reset ? 0 : reading) + tm.angle : undefined;
+      if (target === undefined) return undefined;
+      return {
+        kind: 'gyro-turn', target,
+        gain: patch.gain ?? (tm.gain ?? 1) / 100,
+        min: patch.min ?? seg.minPower ?? 0.1,
+        power: patch.power ?? seg.power,
+        stop: tm.stop ?? 1,
+        ramp: patch.ramp ?? s.ramp,
+        shareL: (way * seg.wheelDeg.left) / outer,
+        shareR: (way * seg.wheelDeg.right) / outer,
+      };
+    }
+    // Encoder turn: each wheel to its commanded degrees (the calibrated track), as its encoder counts them.
+    const left = (seg.motorDeg.left / robot.gear / 360) * robot.circumference;
+    const right = (seg.motorDeg.right / robot.gear / 360) * robot.circumference;
+    return { kind: 'encoders', left, right, power: seg.power, ...(s.ramp ? { rampMin: seg.minPower ?? 0.1 } : {}) };
+  }
+  return undefined;
+}
+
+/** The square's drive to the wall from where the robot really is, and where it ends up squared. */
+function squareFrom(state: SimState, seg: Segment, s: SquareStmt, setup: PlanSetup, footprint: Footprint, walls: readonly Wall[]):
+  { motion: SimMotion; end: Pose } | undefined {
+  const out = squareUp({ x: state.x, y: state.y, heading: state.h }, s.side, footprint, setup.turns, walls);
+  if (!out || seg.power === undefined) return undefined;
+  const d = out.travel * (s.side === 'front' ? 1 : -1);
+  return { motion: { kind: 'encoders', left: d, right: d, power: seg.power }, end: out.outcome === 'side' ? out.atContact : out.end };
+}
+
+/** The rows of one motion's trace (the robot model's outputs), simulated again from its recorded start. */
+export interface TraceRows {
+  t: number[];
+  reading: number[];
+  target: (number | null)[];
+  error: (number | null)[];
+  powerLeft: number[];
+  powerRight: number[];
+  speedLeft: number[];
+  speedRight: number[];
+  x: number[];
+  y: number[];
+  heading: number[];
+}
+
+export function traceOf(seg: Segment): TraceRows | undefined {
+  const rec = records.get(seg);
+  if (!rec) return undefined;
+  const rows: TraceRows = { t: [], reading: [], target: [], error: [], powerLeft: [], powerRight: [], speedLeft: [], speedRight: [], x: [], y: [], heading: [] };
+  const sink: TraceSink = {
+    row(s, reading, target, uL, uR) {
+      rows.t.push(s.t);
+      rows.reading.push(reading);
+      rows.target.push(target);
+      rows.error.push(target === null ? null : target - reading);
+      rows.powerLeft.push(uL);
+      rows.powerRight.push(uR);
+      rows.speedLeft.push(s.vL);
+      rows.speedRight.push(s.vR);
+      rows.x.push(s.x);
+      rows.y.push(s.y);
+      rows.heading.push(s.h);
+    },
+  };
+  const state = copyState(rec.state);
+  simulateMotion(state, rec.robot, rec.motion, sink);
+  // The last row: where the code moves on.
+  const reading = readingOf(state, rec.robot);
+  const target = rec.motion.kind === 'gyro-turn' || rec.motion.kind === 'hold' ? rec.motion.target : null;
+  sink.row(state, reading, target, 0, 0);
+  return rows;
+}
+
+/** The motion simulated again from its recorded start with other gyro-turn settings (for fixes). */
+export function retryGyroTurn(seg: Segment, patch: Partial<GyroSettings>): { outcome: MotionOutcome; duration: number; overshoot: number } | undefined {
+  const rec = records.get(seg);
+  if (!rec || rec.motion.kind !== 'gyro-turn') return undefined;
+  const motion = { ...rec.motion, ...(patch.min !== undefined ? { min: patch.min } : {}), ...(patch.gain !== undefined ? { gain: patch.gain } : {}),
+    ...(patch.power !== undefined ? { power: patch.power } : {}), ...(patch.ramp !== undefined ? { ramp: patch.ramp } : {}),
+    ...(patch.stop !== undefined ? { stop: patch.stop } : {}) };
+  const state = copyState(rec.state);
+  const outcome = simulateMotion(state, rec.robot, motion);
+  const first = readingOf(rec.state, rec.robot);
+  const rest = first + rec.robot.scale * (coastedHeading(state, rec.robot) - rec.state.h);
+  const way = Math.sign(motion.target - first) || 1;
+  return { outcome, duration: state.t - rec.state.t, overshoot: way * (rest - motion.target) };
+}
+
