@@ -256,6 +256,22 @@ describe('insight: completion', () => {
   it('offers nothing inside a comment', () => {
     assert.deepEqual(labels('drive 40 # turn '), []);
   });
+  it('offers the simulation options: `stall`, `mismatch`, and the gyro\'s own options right after `gyro`', () => {
+    assert.deepEqual(labels('gyro '), ['sample', 'delay', 'scale']);
+    assert.deepEqual(labels('gyro sample 10 ms '), ['delay', 'scale']);
+    assert.deepEqual(labels('noise '), ['drive', 'turn', 'gyro', 'drift']);
+    assert.deepEqual(labels('motor 900 deg/s '), ['lag', 'stall']);
+    assert.deepEqual(labels('wheel 56 mm '), ['mismatch']);
+    assert.ok(labels('g').includes('gyro'));
+  });
+  it('offers the units that fit the new values, and none for plain numbers', () => {
+    const units = (line: string) => labels(line).filter((l) => ['mm', 'cm', 'm', 's', 'ms', 'min', '%', 'deg'].includes(l));
+    assert.deepEqual(units('gyro sample 10 m'), ['s', 'ms', 'min']);
+    assert.deepEqual(units('gyro delay 5 m'), ['s', 'ms', 'min']);
+    assert.deepEqual(units('motor 900 stall 5 m'), ['%']);
+    assert.deepEqual(units('wheel 56 mm mismatch 1 m'), [], 'not the wheel\'s length units');
+    assert.deepEqual(units('gyro scale 1 m'), []);
+  });
 });
 
 describe('insight: status summary', () => {
@@ -303,6 +319,24 @@ describe('insight: hovers on the words of the language', () => {
 
   it('explains `axle` in plain words first', () => {
     assert.match(at(2, 17), /point midway between the wheels \(the axle midpoint\)/);
+  });
+
+  it('explains `gyro` by where it stands: the statement, `noise gyro`, `by gyro`', () => {
+    const plan = 'wheel 56 mm mismatch 1.004\nmotor 900 deg/s stall 6%\ngyro sample 5 ms delay 20 ms scale 1.02\nnoise gyro 2 deg\ntrack 112\nstart (0, 0) heading 0\nturn 90 by gyro';
+    const r = checkPlan(plan);
+    const hover = (line: number, character: number) => hoverAt(r, plan, { line, character })?.markdown ?? '';
+    // The values shown are this plan's, as written above.
+    assert.equal(hover(2, 2), '**gyro**: the yaw sensor as the robot\'s control loop reads it: `sample` (how often the loop runs), `delay` (how old each reading is) and `scale` (reading over the true angle). Here sample 5 ms, delay 20 ms, scale 1.02.');
+    assert.match(hover(3, 8), /^\*\*noise gyro\*\*: the spread/);
+    assert.match(hover(6, 13), /\*\*by gyro\*\*: turn until the yaw sensor reads the target/);
+    assert.match(hover(0, 14), /^\*\*mismatch\*\*: the right wheel's diameter over the left wheel's.* Here 1\.004: the right wheel is 0\.4 % larger\.$/);
+    assert.match(hover(1, 18), /^\*\*stall\*\*: the lowest power that moves the wheels.* Here 6 % \(default 5 %\)\.$/);
+    assert.match(hover(2, 7), /^\*\*sample\*\*: .* Here 5 ms \(default 10 ms\)\.$/);
+    assert.match(hover(2, 19), /^\*\*delay\*\*: .* Here 20 ms \(default 0 ms\)\.$/);
+    assert.match(hover(2, 31), /^\*\*scale\*\*: .* Here 1\.02 \(default 1\)\.$/);
+    // On the values themselves: the value, with the digits it needs.
+    assert.equal(hover(0, 23), '**1.004** (number)');
+    assert.equal(hover(2, 13), '**5 ms** (time)');
   });
 
   it('on a motion line, the numbers come first and the word\'s meaning after', () => {

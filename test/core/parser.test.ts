@@ -166,6 +166,50 @@ describe('parsePlan', () => {
       assert.equal(parseOne('noise').kind, 'noise');
     });
 
+    it('reads `stall` on motor, before or after `lag`', () => {
+      const both = parseOne('motor 900 deg/s lag 60 ms stall 6%') as unknown as Record<string, unknown>;
+      assert.deepEqual(texts(both, 'speed', 'lag', 'stall'), ['900 deg/s', '60 ms', '6%']);
+      const swapped = parseOne('motor 150 rpm stall 4 lag 0.1 s') as unknown as Record<string, unknown>;
+      assert.deepEqual(texts(swapped, 'speed', 'lag', 'stall'), ['150 rpm', '0.1 s', '4']);
+      const stallOnly = parseOne('motor 900 stall 2 * 3%');
+      assert.ok(stallOnly.kind === 'motor');
+      assert.deepEqual(stallOnly.optionRanges.stall, span(0, 10, 22)); // `stall 2 * 3%` is columns 10..22
+      assert.equal(stallOnly.lag, undefined);
+    });
+
+    it('reads `mismatch` on wheel, and none when absent', () => {
+      const wheel = parseOne('wheel 56 mm mismatch 1.004');
+      assert.ok(wheel.kind === 'wheel');
+      assert.deepEqual(texts(wheel as unknown as Record<string, unknown>, 'diameter', 'mismatch'), ['56 mm', '1.004']);
+      assert.deepEqual(wheel.mismatch?.range, span(0, 21, 26)); // `1.004` is columns 21..26
+      const plain = parseOne('wheel 56 mm');
+      assert.equal(plain.kind === 'wheel' && plain.mismatch, undefined);
+    });
+
+    it('reads the gyro statement with any of its options, in any order', () => {
+      const full = parseOne('gyro sample 10 ms delay 5 ms scale 1.02');
+      assert.ok(full.kind === 'gyro');
+      assert.deepEqual(texts(full as unknown as Record<string, unknown>, 'sample', 'delay', 'scale'), ['10 ms', '5 ms', '1.02']);
+      assert.deepEqual(full.keywordRange, span(0, 0, 4)); // `gyro` is columns 0..4
+      assert.deepEqual(full.optionRanges.delay, span(0, 18, 28)); // `delay 5 ms` is columns 18..28
+      const swapped = parseOne('gyro scale 0.98 sample 0.02');
+      assert.deepEqual(texts(swapped as unknown as Record<string, unknown>, 'sample', 'delay', 'scale'), ['0.02', undefined, '0.98']);
+      assert.deepEqual(texts(parseOne('gyro delay 3 ms') as unknown as Record<string, unknown>, 'sample', 'delay', 'scale'), [undefined, '3 ms', undefined]);
+    });
+
+    it('keeps `by gyro` and `noise gyro` as they were: `gyro` is the statement only at the start of a line', () => {
+      const turn = parseOne('turn 90 by gyro') as TurnStmt;
+      assert.equal(turn.sensing, 'gyro');
+      const held = parseOne('turn to 45 by gyro min 12% gain 1.2') as TurnStmt;
+      assert.deepEqual([held.sensing, held.min?.text, held.gain?.text], ['gyro', '12%', '1.2']);
+      const noise = parseOne('noise gyro 2 deg drift 1 deg/min');
+      assert.equal(noise.kind, 'noise');
+      assert.deepEqual(texts(noise as unknown as Record<string, unknown>, 'gyro', 'drift'), ['2 deg', '1 deg/min']);
+      const { ast, diagnostics } = parsePlan('noise gyro 1 deg\ngyro sample 10 ms\nturn 90 by gyro');
+      assert.deepEqual(diagnostics, []);
+      assert.deepEqual(ast.statements.map((st) => st.kind), ['noise', 'gyro', 'turn']);
+    });
+
     it('reads let with the name and its range', () => {
       const statement = parseOne('let approach_gap = 2 * 40 cm');
       assert.ok(statement.kind === 'let');
@@ -383,6 +427,14 @@ describe('parsePlan', () => {
       ['reset yaww', 'yaww', 'yaw', 6, 10],
       ['square frnt', 'frnt', 'front', 7, 11],
       ['units Mm', 'Mm', 'mm', 6, 8],
+      ['gyr sample 10 ms', 'gyr', 'gyro', 0, 3],
+      ['Gyro scale 1', 'Gyro', 'gyro', 0, 4],
+      ['gyro sampel 10 ms', 'sampel', 'sample', 5, 11],
+      ['gyro sample 10 ms dealy 5 ms', 'dealy', 'delay', 18, 23],
+      ['gyro sacle 1.01', 'sacle', 'scale', 5, 10],
+      ['motor 900 stal 5%', 'stal', 'stall', 10, 14],
+      ['motor 900 deg/s lag 80 ms Stall 5%', 'Stall', 'stall', 26, 31],
+      ['wheel 56 mm mismath 1.004', 'mismath', 'mismatch', 12, 19],
     ];
     for (const [line, word, suggestion, start, end] of cases) {
       it(`suggests \`${suggestion}\` for \`${word}\` in \`${line}\``, () => {
@@ -441,6 +493,12 @@ describe('parsePlan', () => {
       ['start (200 200) heading 0', /^a point is written `\(x, y\)`/, 14, 15],
       ['mark "m" in', /^`in` needs a value, e\.g\. `in "dock"`$/, 9, 11],
       ['42', /^a line starts with a keyword/, 0, 2],
+      ['gyro', /^`gyro` needs at least one of `sample`, `delay` or `scale`, e\.g\. `gyro sample 10 ms delay 5 ms`$/, 0, 4],
+      ['gyro 10 ms', /^`gyro` needs at least one of `sample`, `delay` or `scale`/, 5, 7],
+      ['gyro sample', /^`sample` needs a value, e\.g\. `sample 10 ms`$/, 5, 11],
+      ['gyro sample 10 ms sample 5 ms', /^`sample` is given twice; keep one$/, 18, 24],
+      ['motor 900 stall', /^`stall` needs a value, e\.g\. `stall 6%`$/, 10, 15],
+      ['wheel 56 mm mismatch', /^`mismatch` needs a value, e\.g\. `mismatch 1\.004`$/, 12, 20],
     ];
     for (const [line, message, start, end] of cases) {
       it(`rejects \`${line}\``, () => {
@@ -535,7 +593,10 @@ describe('keywords', () => {
 
   it('lists options per statement and reserves every keyword and option', () => {
     assert.ok(OPTIONS.drive.includes('hold') && OPTIONS.turn.includes('pivot') && OPTIONS.mark.includes('in'));
-    for (const word of ['drive', 'turn', 'let', 'yaw', 'range', 'speed', 'step', 'effective', 'radius', 'within']) {
+    assert.deepEqual([OPTIONS.motor, OPTIONS.wheel, OPTIONS.gyro], [['lag', 'stall'], ['mismatch'], ['sample', 'delay', 'scale']]);
+    assert.ok(STATEMENT_KEYWORDS.includes('gyro'));
+    for (const word of ['drive', 'turn', 'let', 'yaw', 'range', 'speed', 'step', 'effective', 'radius', 'within',
+      'gyro', 'stall', 'mismatch', 'sample', 'delay', 'scale']) {
       assert.ok(RESERVED_WORDS.has(word), word);
     }
     assert.ok(!RESERVED_WORDS.has('lane'));
