@@ -2,10 +2,12 @@
 //   dist/cli.js        the `veer` command (Node)
 //   dist/extension.js  the VS Code extension host code (`vscode` external)
 //   media/preview.js   the path preview's own browser bundle
+//   media/uplot.css    the chart library's own style sheet, copied for the preview
 import * as esbuild from 'esbuild';
-import { existsSync } from 'node:fs';
+import { copyFileSync, existsSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 
 const production = process.argv.includes('--production');
 const watch = process.argv.includes('--watch');
@@ -13,7 +15,11 @@ const watch = process.argv.includes('--watch');
 // math.js's main entry builds a complete default instance as it loads (about a
 // second on a slow machine); the core only needs `create` and the factory list
 // for its own sandboxed instance, so bundles import just those.
-const mathjsRoot = dirname(createRequire(import.meta.url).resolve('mathjs/package.json'));
+const require = createRequire(import.meta.url);
+const mathjsRoot = dirname(require.resolve('mathjs/package.json'));
+// The preview's CSP admits style sheets from its own media folder only.
+copyFileSync(join(dirname(require.resolve('uplot/package.json')), 'dist', 'uPlot.min.css'),
+  join(dirname(fileURLToPath(import.meta.url)), '..', 'media', 'uplot.css'));
 const leanMathjs = {
   name: 'lean-mathjs',
   setup(build) {

@@ -1,7 +1,9 @@
 // The path preview's webview: shows the SVG the host rendered with the core,
 // links it to the editor (cursor highlight, click to reveal, hover numbers),
 // and offers zoom, pan, a run selector and export. No geometry here: the
-// drawing comes whole from the core's renderer.
+// drawing comes whole from the core's renderer. Under the drawing: the run's
+// predicted timeline with a scrubber (timeline.ts) and the trace of the motion
+// under the cursor (traceChart.ts).
 import {
   MAX_VIEW_WIDTH,
   MIN_VIEW_WIDTH,
@@ -10,11 +12,14 @@ import {
   type PreviewMessage,
   type RenderMessage,
   type SegmentSummary,
+  type TraceMessage,
 } from '../shared/messages';
 import { rasterise } from './rasterise';
 import { TargetsView } from './targetsView';
 import { importSvg } from './safeSvg';
+import { TimelineView } from './timeline';
 import { tooltipLines } from './tooltip';
+import { TraceChart } from './traceChart';
 import { formatViewBox, isViewBox, panBy, parseViewBox, zoomAbout, type ViewBox } from './viewport';
 
 /** What survives a window reload (the host's serializer gets it too). */
@@ -26,7 +31,11 @@ interface PreviewState {
   view?: ViewBox;
   /** Which tab is shown. */
   tab?: 'drawing' | 'targets';
+  /** Sections under the drawing the user folded away ('timeline', 'trace'). */
+  folded?: string[];
 }
+
+const SECTIONS = ['timeline', 'trace'] as const;
 
 interface VsCodeApi {
   postMessage(message: PreviewMessage): void;
@@ -54,6 +63,7 @@ function readState(value: unknown): PreviewState | undefined {
   return {
     uri: s.uri, version: s.version, run: s.run, ...(isViewBox(s.view) ? { view: s.view } : {}),
     ...(s.tab === 'targets' ? { tab: 'targets' as const } : {}),
+    ...(Array.isArray(s.folded) ? { folded: SECTIONS.filter((name) => (s.folded as unknown[]).includes(name)) } : {}),
   };
 }
 
@@ -68,6 +78,8 @@ class Preview {
   private fit: ViewBox | undefined;
   private segments = new Map<string, SegmentSummary>();
   private currentLine: number | undefined;
+  /** The scrubbed motion's line: while the scrubber is out, the drawing marks it instead of the cursor's. */
+  private scrubLine: number | undefined;
 
   private readonly title = element('span', { className: 'title' });
   private readonly counts = element('span', { className: 'counts' });
@@ -84,6 +96,19 @@ class Preview {
     (line) => this.post({ type: 'reveal', ...this.stamp(), line }),
     (format) => this.post({ type: 'copyTargets', ...this.stamp(), format }),
   );
+  private readonly below = element('div', { className: 'below' });
+  private readonly trace = new TraceChart();
+  private readonly timeline = new TimelineView({
+    drawing: () => this.svg,
+    reveal: (line) => this.post({ type: 'reveal', ...this.stamp(), line }),
+    scrubbed: (line) => {
+      this.scrubLine = line;
+      this.applyHighlight();
+      if (this.state.uri) this.post({ type: 'scrub', ...this.stamp(), line: line ?? -1 });
+    },
+    showTooltip: (lines, x, y) => this.showTooltip(lines, x, y, false),
+    hideTooltip: () => { this.tooltip.hidden = true; },
+  });
 
   constructor() {
     const button = (label: string, title: string, action: () => void): HTMLButtonElement => {
@@ -115,7 +140,11 @@ class Preview {
       tab.addEventListener('click', () => this.showTab(name));
     }
     this.tabs.append(this.drawingTab, this.targetsTab);
-    document.body.append(toolbar, this.tabs, this.stage, this.targets.element, this.tooltip);
+    this.below.append(
+      this.section('timeline', 'Timeline', 'Predicted time of each motion; play or scrub to move the robot along its predicted path', this.timeline.element),
+      this.section('trace', 'Trace', 'The controller simulation of the motion under the cursor', this.trace.element),
+    );
+    document.body.append(toolbar, this.tabs, this.stage, this.below, this.targets.element, this.tooltip);
     this.showTab(this.state.tab ?? 'drawing', false);
 
     window.addEventListener('message', (event) => this.onMessage(event.data));
@@ -132,11 +161,28 @@ class Preview {
     this.post({ type: 'ready', uri: this.state.uri, version: this.state.version });
   }
 
+  /** A foldable section under the drawing; whether it is folded survives a reload. */
+  private section(name: (typeof SECTIONS)[number], label: string, title: string, content: HTMLElement): HTMLDetailsElement {
+    const details = element('details', { className: `section section-${name}` });
+    details.open = !this.state.folded?.includes(name);
+    const summary = element('summary', { textContent: label, title });
+    details.append(summary, content);
+    details.addEventListener('toggle', () => {
+      const folded = new Set(this.state.folded ?? []);
+      if (details.open) folded.delete(name);
+      else folded.add(name);
+      this.state.folded = SECTIONS.filter((n) => folded.has(n));
+      this.saveState();
+    });
+    return details;
+  }
+
   /** The drawing or the targets table; the choice survives a reload. */
   private showTab(tab: 'drawing' | 'targets', save = true): void {
     this.state.tab = tab;
     const targets = tab === 'targets';
     this.stage.hidden = targets;
+    this.below.hidden = targets;
     this.targets.element.hidden = !targets;
     if (targets) this.targets.revealed();
     this.drawingTab.setAttribute('aria-selected', String(!targets));
@@ -146,10 +192,13 @@ class Preview {
   }
 
   private renderedWidth = 0;
+  /** The width last asked for: the resize timer and the first frame after a render may both look, and one request is enough. */
+  private askedWidth = 0;
 
   private reportWidth(): void {
     const width = Math.round(Math.min(MAX_VIEW_WIDTH, Math.max(MIN_VIEW_WIDTH, this.stage.clientWidth || document.body.clientWidth)));
-    if (!this.state.uri || (this.renderedWidth && Math.abs(width - this.renderedWidth) < RESIZE_SHARE * this.renderedWidth)) return;
+    if (!this.state.uri || width === this.askedWidth || (this.renderedWidth && Math.abs(width - this.renderedWidth) < RESIZE_SHARE * this.renderedWidth)) return;
+    this.askedWidth = width;
     this.post({ type: 'viewSize', ...this.stamp(), width });
   }
 
@@ -169,6 +218,7 @@ class Preview {
     const message = parseHostMessage(data);
     if (!message) return;
     if (message.type === 'render') this.render(message);
+    else if (message.type === 'trace') this.showTrace(message);
     else this.highlight(message);
   }
 
@@ -186,7 +236,10 @@ class Preview {
     svg.setAttribute('preserveAspectRatio', 'xMidYMin meet');
     svg.classList.add('drawing');
     const keepView = sameDocument && message.run === this.state.run ? this.state.view : undefined;
-    this.state = { uri: message.uri, version: message.version, run: message.run, ...(keepView ? { view: keepView } : {}), ...(this.state.tab ? { tab: this.state.tab } : {}) };
+    this.state = {
+      uri: message.uri, version: message.version, run: message.run, ...(keepView ? { view: keepView } : {}),
+      ...(this.state.tab ? { tab: this.state.tab } : {}), ...(this.state.folded ? { folded: this.state.folded } : {}),
+    };
     this.fit = parseViewBox(svg.getAttribute('viewBox')) ?? undefined;
     this.svg?.remove();
     this.status.remove();
@@ -210,6 +263,7 @@ class Preview {
     this.fillRunSelect(message);
     this.targets.show(message.run >= 0 ? message.targets.slice(message.run, message.run + 1) : message.targets);
     if (!sameDocument) this.currentLine = undefined;
+    this.timeline.show(message, sameDocument);
     this.applyHighlight();
     this.saveState();
     document.body.dataset.version = String(message.version);
@@ -227,6 +281,11 @@ class Preview {
     this.runSelect.hidden = message.runNames.length < 2;
   }
 
+  private showTrace(message: TraceMessage): void {
+    if (message.uri !== this.state.uri || message.version < this.state.version) return;
+    this.trace.show(message);
+  }
+
   private highlight(message: CursorMessage): void {
     if (message.uri !== this.state.uri || message.version < this.state.version) return;
     this.currentLine = message.line;
@@ -234,10 +293,11 @@ class Preview {
   }
 
   private applyHighlight(): void {
-    this.targets.highlight(this.currentLine);
+    const line = this.scrubLine ?? this.currentLine;
+    this.targets.highlight(line);
     for (const el of Array.from(this.stage.querySelectorAll('.is-current'))) el.classList.remove('is-current');
-    if (this.currentLine === undefined || !this.svg) return;
-    for (const el of Array.from(this.svg.querySelectorAll(`[data-line="${this.currentLine}"]`))) el.classList.add('is-current');
+    if (line === undefined || !this.svg) return;
+    for (const el of Array.from(this.svg.querySelectorAll(`[data-line="${line}"]`))) el.classList.add('is-current');
   }
 
   private setView(view: ViewBox | undefined): void {
@@ -360,15 +420,19 @@ class Preview {
       this.tooltip.hidden = true;
       return;
     }
-    this.tooltip.classList.toggle('is-problem', !!marker);
+    this.showTooltip(lines, event.clientX, event.clientY, !!marker);
+  }
+
+  private showTooltip(lines: readonly string[], clientX: number, clientY: number, problem: boolean): void {
+    this.tooltip.classList.toggle('is-problem', problem);
     this.tooltip.replaceChildren(...lines.map((text) => element('div', { textContent: text })));
     this.tooltip.hidden = false;
     // Keep the tooltip inside the panel near the right and bottom edges.
     const pad = 12;
     const w = this.tooltip.offsetWidth;
     const h = this.tooltip.offsetHeight;
-    const left = event.clientX + pad + w > window.innerWidth ? event.clientX - pad - w : event.clientX + pad;
-    const top = event.clientY + pad + h > window.innerHeight ? event.clientY - pad - h : event.clientY + pad;
+    const left = clientX + pad + w > window.innerWidth ? clientX - pad - w : clientX + pad;
+    const top = clientY + pad + h > window.innerHeight ? clientY - pad - h : clientY + pad;
     this.tooltip.style.left = `${Math.max(0, left)}px`;
     this.tooltip.style.top = `${Math.max(0, top)}px`;
   }

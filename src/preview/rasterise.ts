@@ -1,6 +1,7 @@
 // PNG export: the drawing is styled by media/preview.css and the editor theme,
 // which an <img> of the bare SVG would not see. So the computed styles are
-// copied onto a clone before it is drawn into a canvas.
+// copied onto a clone before it is drawn into a canvas. The cursor highlight
+// and the scrubber's robot are left out: they belong to the editor, not the plan.
 import type { ViewBox } from './viewport';
 import { formatViewBox } from './viewport';
 
@@ -47,6 +48,8 @@ export async function rasterise(svg: SVGSVGElement, fit: ViewBox, background: st
   } finally {
     for (const el of current) el.classList.add('is-current');
   }
+  // The scrubber's robot is the preview's, drawn over the drawing: not part of the export.
+  for (const el of Array.from(clone.querySelectorAll('.scrub-robot'))) el.remove();
   const scale = LONG_SIDE_PX / Math.max(fit.width, fit.height);
   const width = Math.round(fit.width * scale);
   const height = Math.round(fit.height * scale);

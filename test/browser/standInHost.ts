@@ -8,7 +8,8 @@ import { readFileSync } from 'fs';
 import { join } from 'path';
 import type { Browser, Page } from 'playwright-core';
 import { checkPlan, renderSvg, targetTables } from '../../src/core';
-import { buildRenderMessage, type HostMessage, type PreviewMessage, type RenderMessage } from '../../src/shared/messages';
+import { buildTimeline, traceForLine } from '../../src/core/sim/view';
+import { buildRenderMessage, type HostMessage, type PreviewMessage, type RenderMessage, type TraceMessage } from '../../src/shared/messages';
 
 export const ORIGIN = 'https://veer-preview.test';
 const ROOT = join(__dirname, '..', '..');
@@ -56,8 +57,21 @@ export const THEMES: Record<ThemeKind, Record<string, string>> = {
 // The extension's own policy, so the tests see what the editor's page enforces.
 const CSP = previewCsp(ORIGIN, NONCE);
 
-function hostScript(initialState: unknown): string {
-  return `
+function hostScript(initialState: unknown, manualFrames: boolean): string {
+  // With manual frames, animation frames run only when the test calls
+  // __frame(ms): time moves by exactly that much, and no test waits on a clock.
+  const frames = manualFrames ? `
+window.__frameTime = 0;
+window.__frameQueue = [];
+window.requestAnimationFrame = (cb) => { window.__frameQueue.push(cb); return window.__frameQueue.length; };
+window.cancelAnimationFrame = () => {};
+window.__frame = (ms) => {
+  window.__frameTime += ms;
+  const due = window.__frameQueue.splice(0);
+  for (const cb of due) cb(window.__frameTime);
+  return due.length;
+};` : '';
+  return `${frames}
 window.__posted = [];
 window.__state = ${JSON.stringify(initialState ?? null)};
 window.acquireVsCodeApi = () => ({
@@ -79,6 +93,7 @@ function pageHtml(): string {
   return `<!DOCTYPE html>
 <html lang="en"><head><meta charset="UTF-8">
 <meta http-equiv="Content-Security-Policy" content="${CSP}">
+<link rel="stylesheet" href="${ORIGIN}/media/uplot.css">
 <link rel="stylesheet" href="${ORIGIN}/media/preview.css">
 </head><body class="vscode-light">
 <script nonce="${NONCE}" src="${ORIGIN}/host.js"></script>
@@ -94,11 +109,18 @@ export interface StandIn {
   /** Resolves with the first posted message of `type` that `accept` takes. */
   waitForPosted<T extends PreviewMessage['type']>(type: T, accept?: (m: Extract<PreviewMessage, { type: T }>) => boolean): Promise<Extract<PreviewMessage, { type: T }>>;
   setTheme(kind: ThemeKind): Promise<void>;
+  /** With `manualFrames`: runs the animation frames due, `ms` after the last; resolves with how many ran. */
+  frame(ms: number): Promise<number>;
   /** Errors the page threw or logged (CSP refusals show up here). */
   errors: string[];
 }
 
-export async function openStandIn(browser: Browser, initialState?: unknown): Promise<StandIn> {
+export interface StandInOptions {
+  /** Animation frames run only when the test calls `frame(ms)` (see hostScript). */
+  manualFrames?: boolean;
+}
+
+export async function openStandIn(browser: Browser, initialState?: unknown, options: StandInOptions = {}): Promise<StandIn> {
   const context = await browser.newContext({ viewport: { width: 900, height: 700 } });
   const page = await context.newPage();
   const errors: string[] = [];
@@ -107,8 +129,8 @@ export async function openStandIn(browser: Browser, initialState?: unknown): Pro
   await context.route(`${ORIGIN}/**`, async (route) => {
     const path = new URL(route.request().url()).pathname;
     if (path === '/' || path === '/index.html') return route.fulfill({ contentType: 'text/html', body: pageHtml() });
-    if (path === '/host.js') return route.fulfill({ contentType: 'text/javascript', body: hostScript(initialState) });
-    if (path === '/media/preview.js' || path === '/media/preview.css') {
+    if (path === '/host.js') return route.fulfill({ contentType: 'text/javascript', body: hostScript(initialState, options.manualFrames ?? false) });
+    if (path === '/media/preview.js' || path === '/media/preview.css' || path === '/media/uplot.css') {
       const type = path.endsWith('.js') ? 'text/javascript' : 'text/css';
       return route.fulfill({ contentType: type, body: readFileSync(join(ROOT, path)) });
     }
@@ -133,6 +155,7 @@ export async function openStandIn(browser: Browser, initialState?: unknown): Pro
         await page.waitForFunction((n) => (window as unknown as { __posted: unknown[] }).__posted.length > n, seen.length);
       }
     },
+    frame: (ms) => page.evaluate((m) => (window as unknown as { __frame: (ms: number) => number }).__frame(m), ms),
     setTheme: (kind) => page.evaluate(([k, vars]) => (window as unknown as { __setTheme: (k: string, v: object) => void }).__setTheme(k, vars), [kind, THEMES[kind]] as const),
   };
 }
@@ -145,5 +168,11 @@ export function fixture(name: string): string {
 export function renderFor(text: string, uri: string, version: number, run = -1): RenderMessage {
   const result = checkPlan(text, { fileName: uri.split('/').pop() ?? uri });
   const svg = renderSvg(result, { standalone: false, ...(run >= 0 ? { run } : {}) });
-  return buildRenderMessage(result, { uri, version }, run, svg, targetTables(result, text));
+  return buildRenderMessage(result, { uri, version }, run, svg, targetTables(result, text), 1000, buildTimeline(result, run));
+}
+
+/** The trace message the extension host sends for the cursor on `line`, from the real core. */
+export function traceFor(text: string, uri: string, version: number, line: number): TraceMessage {
+  const result = checkPlan(text, { fileName: uri.split('/').pop() ?? uri });
+  return { type: 'trace', uri, version, ...traceForLine(result, line) };
 }
