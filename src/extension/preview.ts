@@ -1,10 +1,14 @@
 // The path preview's host side: one webview panel beside the editor that
 // follows the active plan, renders the core's SVG for it, keeps the drawing
 // and the text linked both ways, exports, and comes back after a reload.
+// It also sends the predicted timeline with each drawing, the trace of the
+// motion under the cursor, and marks in the editor the line the preview's
+// scrubber has reached.
 import { previewCsp } from '../shared/csp';
 import { randomBytes } from 'crypto';
 import * as vscode from 'vscode';
-import { renderSvg, targetTables, targetsCsv, targetsMarkdown } from '../core';
+import { renderSvg, targetTables, targetsCsv, targetsMarkdown, type CheckResult } from '../core';
+import { buildTimeline, traceForLine } from '../core/sim/view';
 import {
   buildRenderMessage,
   parsePreviewMessage,
@@ -24,8 +28,17 @@ const PNG_SIGNATURE = [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a];
 
 let current: PathPreview | undefined;
 
+/** The line the preview's scrubber has reached, marked across the whole line in the editor. */
+let scrubDecoration: vscode.TextEditorDecorationType | undefined;
+
 export function registerPreview(context: vscode.ExtensionContext): void {
   const mediaRoot = vscode.Uri.joinPath(context.extensionUri, 'media');
+  scrubDecoration = vscode.window.createTextEditorDecorationType({
+    isWholeLine: true,
+    backgroundColor: new vscode.ThemeColor('editor.rangeHighlightBackground'),
+    overviewRulerColor: new vscode.ThemeColor('editorOverviewRuler.rangeHighlightForeground'),
+    overviewRulerLane: vscode.OverviewRulerLane.Center,
+  });
   context.subscriptions.push(
     vscode.commands.registerCommand(OPEN_PREVIEW_COMMAND, async (resource?: unknown) => {
       const document = await planToPreview(resource);
@@ -62,7 +75,9 @@ export function registerPreview(context: vscode.ExtensionContext): void {
     vscode.workspace.onDidChangeTextDocument((event) => current?.documentChanged(event.document)),
     onDidAnalyse((analysis) => current?.analysed(analysis.uri, analysis.version)),
     vscode.window.onDidChangeTextEditorSelection((event) => current?.selectionChanged(event.textEditor)),
+    vscode.window.onDidChangeVisibleTextEditors(() => current?.markScrub()),
     { dispose: () => current?.dispose() },
+    scrubDecoration,
   );
 }
 
@@ -100,6 +115,7 @@ function restoredState(state: unknown): { uri: string; run: number } | undefined
 export function previewHtml(webview: vscode.Webview, mediaRoot: vscode.Uri): string {
   const nonce = randomBytes(18).toString('base64');
   const css = webview.asWebviewUri(vscode.Uri.joinPath(mediaRoot, 'preview.css'));
+  const chartCss = webview.asWebviewUri(vscode.Uri.joinPath(mediaRoot, 'uplot.css'));
   const script = webview.asWebviewUri(vscode.Uri.joinPath(mediaRoot, 'preview.js'));
   const csp = previewCsp(webview.cspSource, nonce);
   return `<!DOCTYPE html>
@@ -108,6 +124,7 @@ export function previewHtml(webview: vscode.Webview, mediaRoot: vscode.Uri): str
 <meta charset="UTF-8">
 <meta http-equiv="Content-Security-Policy" content="${csp}">
 <meta name="viewport" content="width=device-width, initial-scale=1.0">
+<link rel="stylesheet" href="${chartCss.toString()}">
 <link rel="stylesheet" href="${css.toString()}">
 <title>Path Preview</title>
 </head>
@@ -129,6 +146,10 @@ class PathPreview implements vscode.Disposable {
   private cursorPending = false;
   private readonly disposables: vscode.Disposable[] = [];
   private disposed = false;
+  /** What the last trace was made from: another is sent only when the cursor's line or the check result changes. */
+  private traced: { result: CheckResult; line: number; stamp: DocumentStamp } | undefined;
+  /** The line the scrubber reached (-1: none), marked in the document's visible editors. */
+  private scrubLine = -1;
 
   constructor(private readonly panel: vscode.WebviewPanel, mediaRoot: vscode.Uri) {
     panel.webview.html = previewHtml(panel.webview, mediaRoot);
@@ -147,6 +168,7 @@ class PathPreview implements vscode.Disposable {
 
   show(document: vscode.TextDocument, run = -1): void {
     if (this.document?.uri.toString() !== document.uri.toString()) {
+      this.setScrub(-1);
       this.document = document;
       this.run = run;
       this.posted = undefined;
@@ -191,6 +213,7 @@ class PathPreview implements vscode.Disposable {
     if (current === this) current = undefined;
     if (this.renderTimer) clearTimeout(this.renderTimer);
     if (this.cursorTimer) clearTimeout(this.cursorTimer);
+    this.setScrub(-1);
     this.disposables.forEach((d) => d.dispose());
     this.panel.dispose();
   }
@@ -218,20 +241,52 @@ class PathPreview implements vscode.Disposable {
     const { result, version, text } = getAnalysis(document);
     if (this.run >= result.runs.length) this.run = -1;
     const svg = renderSvg(result, { standalone: false, width: this.viewWidth, ...runOption(this.run) });
-    const message = buildRenderMessage(result, { uri: document.uri.toString(), version }, this.run, svg, targetTables(result, text), this.viewWidth);
+    const message = buildRenderMessage(result, { uri: document.uri.toString(), version }, this.run, svg, targetTables(result, text), this.viewWidth,
+      buildTimeline(result, this.run));
     this.posted = { uri: message.uri, version: message.version };
     this.post(message);
+    this.postTrace();
   }
 
   private postCursor(editor = this.document && this.editorOf(this.document)): void {
     if (!editor || !this.posted) return;
     this.post({ type: 'cursor', uri: editor.document.uri.toString(), version: editor.document.version, line: editor.selection.active.line });
+    this.postTrace(editor);
+  }
+
+  /** The trace of the motion on the cursor's line, unless the webview already has it. */
+  private postTrace(editor = this.document && this.editorOf(this.document)): void {
+    const document = this.document;
+    if (!document || !this.posted || this.disposed) return;
+    const { result, version } = getAnalysis(document);
+    const line = editor?.document.uri.toString() === document.uri.toString() ? editor.selection.active.line : this.traced?.line ?? 0;
+    const stamp = { uri: document.uri.toString(), version };
+    if (this.traced && this.traced.result === result && this.traced.line === line && this.traced.stamp.uri === stamp.uri) return;
+    this.traced = { result, line, stamp };
+    this.post({ type: 'trace', ...stamp, ...traceForLine(result, line) });
+  }
+
+  /** Marks the scrubbed line in every visible editor of the document (-1 clears the mark). */
+  private setScrub(line: number): void {
+    this.scrubLine = line;
+    this.markScrub();
+  }
+
+  markScrub(): void {
+    if (!scrubDecoration) return;
+    const uri = this.document?.uri.toString();
+    for (const editor of vscode.window.visibleTextEditors) {
+      const mine = editor.document.uri.toString() === uri && !this.disposed && this.scrubLine >= 0 && this.scrubLine < editor.document.lineCount;
+      editor.setDecorations(scrubDecoration, mine ? [new vscode.Range(this.scrubLine, 0, this.scrubLine, 0)] : []);
+    }
   }
 
   private async onMessage(message: PreviewMessage): Promise<void> {
     if (message.type === 'ready') {
       // The webview (re)loaded, e.g. after being hidden: it has nothing drawn.
       this.posted = undefined;
+      this.traced = undefined;
+      this.setScrub(-1);
       this.renderNow();
       this.postCursor();
       return;
@@ -239,6 +294,10 @@ class PathPreview implements vscode.Disposable {
     const document = this.document;
     if (!document || !this.posted || message.uri !== this.posted.uri) return;
     switch (message.type) {
+      case 'scrub':
+        // A line of an older version may now hold other text: only -1 (clear) is taken from one.
+        this.setScrub(message.version === document.version && message.line < document.lineCount ? message.line : -1);
+        return;
       case 'reveal':
         if (message.version === this.posted.version && message.line < document.lineCount) await this.revealLine(document, message.line);
         return;
