@@ -114,12 +114,16 @@ describe('timing: gyro turns (closed-form phases)', () => {
     near(gyroTurnTime({ ...params, stop: 15 }), 40 / 200 + Math.log(50 / 15) / 4 + 0.08, 1e-12, 'wide stop band');
   });
 
-  it('the solver feeds the turn rate at full power, (full speed / outer radius), into the formula', () => {
-    const seg = onlySegment([...robot, 'start (0, 0) heading 0', 'turn 90 by gyro gain 1 speed 50% min 10%']);
-    // Spin: outer radius W/2 = 60 mm, rate = FULL/60 rad/s at 100 % (arc = radius × angle).
+  it('the simulated time of a gyro spin approaches the closed form as the sample period shrinks (no lag)', () => {
+    // The solver's gyro-turn time comes from the controller simulation (spec section 8); with no
+    // motor lag and a 1 ms loop it must agree with the hand-derived phases: spin, outer radius
+    // W/2 = 60 mm, rate = FULL/60 rad/s at 100 % (arc = radius × angle).
+    const seg = onlySegment([...robot, 'gyro sample 1 ms', 'start (0, 0) heading 0', 'turn 90 by gyro gain 1 speed 50% min 10%']);
     const k = (FULL / 60) * (180 / Math.PI);
     const expected = (90 - 50) / (k * 0.5) + Math.log(50 / 10) / (k * 0.01) + (10 - 1) / (k * 0.1);
-    near(seg.duration, expected, 1e-9, 'gyro spin time');
+    near(gyroTurnTime({ angle: 90, ratePerPower: k, gain: 0.01, top: 0.5, min: 0.1, stop: 1, lag: 0 }), expected, 1e-9, 'closed form');
+    // One sample at most per phase boundary: 3 ms.
+    near(seg.duration, expected, 0.003, 'simulated gyro spin time');
   });
 });
 

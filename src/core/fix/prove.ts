@@ -3,6 +3,9 @@ import type { CheckResult, Diagnostic, Fix, Pose } from '../types';
 import { checkPlan, type CheckOptions } from '../check';
 import { applyEdits, lineMapper } from './text';
 
+/** Findings of the controller simulation (not of the planned path). */
+const SIMULATION_CODES: ReadonlySet<string> = new Set(['overshoot', 'stall', 'endless']);
+
 /** How close the end poses of a path-keeping fix must stay. */
 export const PATH_TOLERANCE = { mm: 0.01, deg: 0.001 } as const;
 
@@ -45,8 +48,14 @@ export function proveFix(text: string, before: CheckResult, fix: Fix, target?: D
     const key = `${d.code}@${moved(d.range.start.line)}`;
     errorsBefore.set(key, (errorsBefore.get(key) ?? 0) + 1);
   }
+  // A fix of the planned path is judged on the planned path: what the
+  // controller simulation predicts after it (a coasting robot, a stall) is
+  // shown as its own finding once the fix is applied. A fix of a simulation
+  // finding must not bring another.
+  const judgeSimulation = target !== undefined && SIMULATION_CODES.has(target.code);
   for (const d of after.diagnostics) {
     if (d.severity !== 'error' || (repairsUnreadable && d.code !== 'syntax')) continue;
+    if (SIMULATION_CODES.has(d.code) && !judgeSimulation) continue;
     const key = `${d.code}@${d.range.start.line}`;
     const left = errorsBefore.get(key) ?? 0;
     if (left === 0) return fail(`it adds a ${d.code} error on line ${d.range.start.line + 1}: ${d.message}`);

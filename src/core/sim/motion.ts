@@ -166,9 +166,9 @@ function effective(u: number, stall: number): number {
  * exact first-order response, then the exact arc of the two travels.
  * Returns the two travels in `out`.
  */
-function advance(s: SimState, r: SimRobot, uL: number, uR: number, dt: number, out: { sL: number; sR: number }): void {
-  const cL = effective(uL, r.stall) * r.fullSpeed;
-  const cR = effective(uR, r.stall) * r.fullSpeed * r.mismatch;
+function advance(s: SimState, r: SimRobot, uL: number, uR: number, dt: number, out: { sL: number; sR: number }, regulated = false): void {
+  const cL = (regulated ? uL : effective(uL, r.stall)) * r.fullSpeed;
+  const cR = (regulated ? uR : effective(uR, r.stall)) * r.fullSpeed * r.mismatch;
   const a = r.lag > 0 ? Math.exp(-dt / r.lag) : 0;
   const g = r.lag * (1 - a);
   const sL = g * s.vL + cL * (dt - g);
@@ -271,15 +271,17 @@ function runEncoders(s: SimState, r: SimRobot, m: EncoderMotion, trace?: TraceSi
       p = m.rampMin + (m.power - m.rampMin) * Math.min(1, 2 * progress, 2 * (1 - progress));
       p = Math.max(m.rampMin, Math.min(m.power, p));
     }
-    const uL = doneL ? 0 : shareL * p;
-    const uR = doneR ? 0 : shareR * p;
+    // The motors' own regulation turns each wheel at its share of the power; below the stall power nothing moves.
+    const moving = Math.abs(p) >= r.stall;
+    const uL = doneL || !moving ? 0 : shareL * p;
+    const uR = doneR || !moving ? 0 : shareR * p;
     if (trace) trace.row(s, readingOf(s, r), null, uL, uR);
-    if (effective(uL, r.stall) === 0 && effective(uR, r.stall) === 0 && Math.abs(s.vL) < REST_SPEED && Math.abs(s.vR) < REST_SPEED) {
+    if (!moving && Math.abs(s.vL) < REST_SPEED && Math.abs(s.vR) < REST_SPEED) {
       return { finished: false, stalled: true, capped: false, peakRate: peak };
     }
     // Does a wheel reach its target within this sample?
-    const cL = effective(uL, r.stall) * r.fullSpeed;
-    const cR = effective(uR, r.stall) * r.fullSpeed * r.mismatch;
+    const cL = uL * r.fullSpeed;
+    const cR = uR * r.fullSpeed * r.mismatch;
     let dt = r.sample;
     let finishing: 'L' | 'R' | undefined;
     if (!doneL) {
@@ -293,7 +295,7 @@ function runEncoders(s: SimState, r: SimRobot, m: EncoderMotion, trace?: TraceSi
       if (Math.sign(need) * d >= Math.abs(need)) { dt = crossingTime(s.vR, cR, r.lag, dt, need); finishing = 'R'; }
     }
     remember(s, r);
-    advance(s, r, uL, uR, dt, out);
+    advance(s, r, uL, uR, dt, out, true);
     encL += out.sL;
     encR += out.sR / r.mismatch;
     peak = Math.max(peak, rate(s, r));

@@ -182,7 +182,7 @@ export function motionFor(seg: Segment, m: EvaluatedMotion, state: SimState, rob
       if (!(outer > 0)) return undefined;
       const way = Math.sign(seg.turned) || 1;
       const reading = readingOf(state, robot);
-      const target = s.to !== undefined ? tm.to : tm.angle !== undefined ? (s.reset ? 0 : reading) + tm.angle : undefined;
+      const target = s.to !== undefined ? tm.to : tm.angle !== undefined ? reading + tm.angle : undefined; // after a reset the reading is the range's zero
       if (target === undefined) return undefined;
       return {
         kind: 'gyro-turn', target,

@@ -53,7 +53,9 @@ export function tuneGyroTurn(seg: Segment): Tuning[] {
   }
   // Stopping the power a little earlier lets the robot coast onto the target: the band that leaves the smallest error.
   let bestStop: Tuning | undefined;
-  for (let stop = Math.floor(m.stop * 2 + 1e-9) / 2 + 0.5; stop <= MAX_STOP; stop += 0.5) {
+  // A band of at most a third of the turn (a wider one would leave the turn hardly begun).
+  const widest = Math.min(MAX_STOP, Math.abs(seg.turned) / 3);
+  for (let stop = Math.floor(m.stop * 2 + 1e-9) / 2 + 0.5; stop <= widest; stop += 0.5) {
     const r = retryGyroTurn(seg, { stop });
     if (r && r.outcome.finished && Math.abs(r.overshoot) <= MARGIN * stop && Math.abs(r.overshoot) < m.stop
       && (!bestStop || Math.abs(r.overshoot) < Math.abs(bestStop.overshoot) - 0.05)) {

@@ -1,7 +1,8 @@
 // The path preview through the real editor's UI, as a person would use it:
 //   EXTENSIONS=veer.vsix real-editor.sh ui test/editor/workspace test/editor/ui/preview-ui.js [OUT_DIR] [PLAN]
 // Opens the plan, sees its squiggle and Problems entry, opens the preview, and
-// checks the drawing, the cursor highlight and click-to-reveal. Leaves
+// checks the drawing, the cursor highlight, the trace chart following the
+// cursor between two motions, the run timeline, and click-to-reveal. Leaves
 // screenshots in OUT_DIR (default test-output/).
 //
 // Every wait is on a condition. The deadlines are generous because a loaded CI
@@ -22,7 +23,7 @@ const outDir = path.resolve(process.argv[2] || 'test-output');
 const planName = process.argv[3] || 'wrap-check.veer';
 // 0-based lines of test/editor/workspace/wrap-check.veer.
 const DRIVE_LINE = 9; // drive 3 * lane speed 60% hold 0
-const WRAP_LINE = 11; // the turn whose yaw target crosses the wrap point
+const WRAP_LINE = 11; // the turn whose yaw target crosses the wrap point (turn 90 by gyro)
 const SECOND_RUN_DRIVE_LINE = 17; // drive lane
 
 /** Deadline of each wait once the editor is up (UI_WAIT_MS overrides it). */
@@ -81,6 +82,28 @@ async function goToLine(page, line) {
     await goToLine(page, WRAP_LINE + 1);
     await view.locator(`svg.drawing .seg.is-current[data-line="${WRAP_LINE}"]`).waitFor();
     await page.screenshot({ path: path.join(outDir, 'preview-ui-highlight.png') });
+
+    reached('trace follows the cursor');
+    // The chart names the motion on the cursor's line (1-based, as the editor numbers lines).
+    const traceTitle = view.locator('.trace-title');
+    await view.locator(`.trace[data-line="${WRAP_LINE}"]`).waitFor();
+    const gyroTitle = await traceTitle.innerText();
+    check(gyroTitle.startsWith(`Line ${WRAP_LINE + 1}:`) && /gyro/.test(gyroTitle), `trace title on the gyro turn: ${gyroTitle}`);
+    await view.locator('.trace-charts .uplot canvas').first().waitFor();
+    check(await view.locator('.trace-charts .uplot').count() === 3, 'three trace charts');
+    await goToLine(page, DRIVE_LINE + 1);
+    await view.locator(`.trace[data-line="${DRIVE_LINE}"]`).waitFor();
+    const driveTitle = await traceTitle.innerText();
+    check(driveTitle.startsWith(`Line ${DRIVE_LINE + 1}:`) && /drive/.test(driveTitle), `trace title on the drive: ${driveTitle}`);
+    const blocks = await view.locator('.timeline .strip .block').count();
+    check(blocks >= 5, `only ${blocks} timeline blocks`);
+    // Scrub to the second motion's start: the drawing marks its line.
+    await view.locator('.timeline .scrubber').focus();
+    await view.locator('.timeline .scrubber').press('PageDown');
+    await view.locator('svg.drawing .scrub-robot').first().waitFor({ state: 'attached' });
+    await view.locator('.timeline .clock', { hasText: 'line' }).waitFor();
+    await page.screenshot({ path: path.join(outDir, 'preview-ui-trace.png') });
+    await view.locator('.timeline .scrubber').press('Escape');
 
     await view.locator(`svg.drawing path.seg[data-line="${DRIVE_LINE}"]`).click();
     await page.waitForSelector(`.statusbar-item:has-text("Ln ${DRIVE_LINE + 1},")`);

@@ -1,0 +1,20 @@
+import { chromium } from 'playwright-core';
+import { openStandIn, renderFor, traceFor, fixture } from './standInHost';
+(async () => {
+  const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: ['--no-sandbox'] });
+  const host = await openStandIn(browser);
+  const text = fixture('greenhouse.veer');
+  const m = renderFor(text, 'file:///g.veer', 1, -1);
+  console.log(JSON.stringify(m.timeline.map((r) => ({ ...r, poses: r.poses.t.length }))));
+  await host.send(m);
+  const tr = traceFor(text, 'file:///g.veer', 1, 12);
+  console.log(tr.title, tr.note, tr.columns?.t.length, tr.stop);
+  await host.send(tr);
+  await host.page.waitForFunction(() => document.querySelector<HTMLElement>('.trace')?.dataset.drawn === '1');
+  await host.page.getByRole('slider').focus();
+  for (let i = 0; i < 3; i++) await host.page.keyboard.press('PageDown');
+  await host.page.keyboard.press('ArrowRight');
+  console.log(host.errors);
+  await host.page.screenshot({ path: '/tmp/real.png' });
+  await browser.close();
+})();
