@@ -29,6 +29,7 @@ const finite = (v: number | null | undefined): v is number => typeof v === 'numb
 interface Row {
   run: TimelineRun;
   starts: number[];
+  blocks: HTMLElement[];
   element: HTMLElement;
   playhead: HTMLElement;
 }
@@ -188,8 +189,10 @@ export class TimelineView {
       marker.title = `time limit ${seconds(limit)}`;
       strip.append(over, marker);
     }
+    const blocks: HTMLElement[] = [];
     for (const block of run.blocks) {
       const b = document.createElement('div');
+      blocks.push(b);
       const ends = finite(block.duration);
       const stop = ends ? block.start + block.duration : Infinity;
       b.className = `block kind-${block.kind}`;
@@ -210,7 +213,7 @@ export class TimelineView {
     total.textContent = [finite(run.total) ? seconds(run.total) : 'never ends', limit !== undefined ? `limit ${seconds(limit)}` : ''].filter(Boolean).join(' · ');
     total.classList.toggle('is-over', limit !== undefined && !(finite(run.total) && run.total <= limit));
     element.append(name, strip, total);
-    return { run, starts: run.blocks.map((b) => b.start), element, playhead };
+    return { run, starts: run.blocks.map((b) => b.start), blocks, element, playhead };
   }
 
   private blockLines(block: TimelineBlock, limit: number | undefined): string[] {
@@ -407,11 +410,16 @@ export class TimelineView {
     this.element.classList.toggle('is-active', this.active);
     const block = this.currentBlock();
     const text = `${seconds(this.time)} of ${seconds(this.end)}`;
-    this.clock.textContent = block ? `${text} · line ${block.line + 1}` : text;
-    this.scrubber.setAttribute('aria-valuetext', block ? `${text}, line ${block.line + 1}: ${block.label}` : text);
-    for (const row of this.rows) {
+    const full = block ? `${text}, line ${block.line + 1}: ${block.label}` : text;
+    // Short, so its column keeps one width while the time changes; the whole text is on hover and for screen readers.
+    this.clock.textContent = seconds(this.time);
+    this.clock.title = full;
+    this.scrubber.setAttribute('aria-valuetext', full);
+    for (const [i, row] of this.rows.entries()) {
       row.playhead.style.left = this.percent(this.time);
       row.playhead.hidden = !this.active;
+      const at = this.active ? blockAt(row.run.blocks, this.time, row.starts) : undefined;
+      row.blocks.forEach((b, j) => b.classList.toggle('is-current', row.run.blocks[j] === at && i === this.focused));
     }
     this.moveOverlays();
     const line = block?.line;

@@ -101,7 +101,7 @@ async function goToLine(page, line) {
     await view.locator('.timeline .scrubber').focus();
     await view.locator('.timeline .scrubber').press('PageDown');
     await view.locator('svg.drawing .scrub-robot').first().waitFor({ state: 'attached' });
-    await view.locator('.timeline .clock', { hasText: 'line' }).waitFor();
+    await view.locator('.timeline .block.is-current').waitFor();
     await page.screenshot({ path: path.join(outDir, 'preview-ui-trace.png') });
     await view.locator('.timeline .scrubber').press('Escape');
 
