@@ -30,6 +30,8 @@ interface Row {
   run: TimelineRun;
   starts: number[];
   blocks: HTMLElement[];
+  /** The block outlined as the scrubbed one. */
+  current?: HTMLElement | undefined;
   element: HTMLElement;
   playhead: HTMLElement;
 }
@@ -195,10 +197,10 @@ export class TimelineView {
       blocks.push(b);
       const ends = finite(block.duration);
       const stop = ends ? block.start + block.duration : Infinity;
-      b.className = `block kind-${block.kind}`;
-      if (block.problem) b.classList.add(`problem-${block.problem}`);
-      if (!ends) b.classList.add('never-ends');
-      if (limit !== undefined && stop > limit) b.classList.add('is-over');
+      b.className = [
+        'block', `kind-${block.kind}`, block.problem ? `problem-${block.problem}` : '', ends ? '' : 'never-ends',
+        limit !== undefined && stop > limit ? 'is-over' : '',
+      ].filter(Boolean).join(' ');
       b.dataset.line = String(block.line);
       b.style.left = this.percent(block.start);
       b.style.width = ends ? this.percent(block.duration) : `calc(100% - ${this.percent(block.start)})`;
@@ -236,9 +238,9 @@ export class TimelineView {
     const rowIndex = Number(rowElement.dataset.row);
     const row = this.rows[rowIndex];
     if (!row) return undefined;
-    const blockElement = target?.closest?.('.block');
+    const blockElement = target?.closest?.('.block') as HTMLElement | null;
     const strip = rowElement.querySelector<HTMLElement>('.strip') ?? undefined;
-    const blockIndex = blockElement ? Array.from(strip?.querySelectorAll('.block') ?? []).indexOf(blockElement) : -1;
+    const blockIndex = blockElement ? row.blocks.indexOf(blockElement) : -1;
     return { row, rowIndex, ...(blockIndex >= 0 ? { block: row.run.blocks[blockIndex] } : {}), ...(strip ? { strip } : {}) };
   }
 
@@ -418,8 +420,13 @@ export class TimelineView {
     for (const [i, row] of this.rows.entries()) {
       row.playhead.style.left = this.percent(this.time);
       row.playhead.hidden = !this.active;
-      const at = this.active ? blockAt(row.run.blocks, this.time, row.starts) : undefined;
-      row.blocks.forEach((b, j) => b.classList.toggle('is-current', row.run.blocks[j] === at && i === this.focused));
+      const at = this.active && i === this.focused ? blockAt(row.run.blocks, this.time, row.starts) : undefined;
+      const current = at ? row.blocks[row.run.blocks.indexOf(at)] : undefined;
+      if (row.current !== current) {
+        row.current?.classList.remove('is-current');
+        current?.classList.add('is-current');
+        row.current = current;
+      }
     }
     this.moveOverlays();
     const line = block?.line;
