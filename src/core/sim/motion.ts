@@ -29,6 +29,8 @@ export interface SimRobot {
   /** Nominal (left) wheel circumference, mm, and motor degrees per wheel degree: to turn motor targets into travel. */
   circumference: number;
   gear: number;
+  /** exp(−sample/lag), once worked out. */
+  decay?: number;
 }
 
 /** Everything that carries from one motion into the next. */
@@ -169,7 +171,9 @@ function effective(u: number, stall: number): number {
 function advance(s: SimState, r: SimRobot, uL: number, uR: number, dt: number, out: { sL: number; sR: number }, regulated = false): void {
   const cL = (regulated ? uL : effective(uL, r.stall)) * r.fullSpeed;
   const cR = (regulated ? uR : effective(uR, r.stall)) * r.fullSpeed * r.mismatch;
-  const a = r.lag > 0 ? Math.exp(-dt / r.lag) : 0;
+  let a: number;
+  if (dt === r.sample) a = r.decay ??= r.lag > 0 ? Math.exp(-r.sample / r.lag) : 0;
+  else a = r.lag > 0 ? Math.exp(-dt / r.lag) : 0;
   const g = r.lag * (1 - a);
   const sL = g * s.vL + cL * (dt - g);
   const sR = g * s.vR + cR * (dt - g);

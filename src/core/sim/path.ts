@@ -3,7 +3,7 @@
 // rotation about the point it leaves fixed) wherever one such motion passes
 // every pose between within a tolerance.
 import type { PathPiece, Pose, TurnDirection } from '../types';
-import { forwardVector, rotateAbout } from '../solve/frame';
+import { forwardVector } from '../solve/frame';
 
 /** Growable columns of poses. */
 export class PoseBuffer {
@@ -12,7 +12,33 @@ export class PoseBuffer {
   y: number[] = [];
   h: number[] = [];
 
+  /** With `thin`, a pose is kept only a key pose's distance from the last one kept (the last pose given is kept by `close`). */
+  constructor(private readonly thin = false) {}
+  private pending?: [number, number, number, number];
+  private lastDir = 0;
+
   pose(t: number, x: number, y: number, h: number): void {
+    if (this.thin && this.x.length > 0) {
+      const n = this.x.length - 1;
+      const dir = Math.sign(h - (this.pending ? this.pending[3] : this.h[n]));
+      const reversed = dir !== 0 && this.lastDir !== 0 && dir !== this.lastDir;
+      if (dir !== 0) this.lastDir = dir;
+      if (reversed && this.pending) this.keep(...this.pending);
+      if (!(reversed || Math.abs(h - this.h[this.x.length - 1]) >= KEY_DEG / 4 || Math.hypot(x - this.x[this.x.length - 1], y - this.y[this.x.length - 1]) >= KEY_MM / 4)) {
+        this.pending = [t, x, y, h];
+        return;
+      }
+    }
+    this.keep(t, x, y, h);
+  }
+
+  /** Keeps the last pose given, if it was held back. */
+  close(): void {
+    if (this.pending) this.keep(...this.pending);
+  }
+
+  private keep(t: number, x: number, y: number, h: number): void {
+    this.pending = undefined;
     this.t.push(t);
     this.x.push(x);
     this.y.push(y);
@@ -28,6 +54,8 @@ export class PoseBuffer {
   }
 
   clear(): void {
+    this.pending = undefined;
+    this.lastDir = 0;
     this.t.length = 0;
     this.x.length = 0;
     this.y.length = 0;
@@ -35,9 +63,9 @@ export class PoseBuffer {
   }
 }
 
-/** How far (mm, degrees) a merged piece may pass from a simulated pose. */
-const TOLERANCE_MM = 0.5;
-const TOLERANCE_DEG = 0.25;
+/** A new piece starts once the robot has turned this much or moved this far since the last one began. */
+const KEY_DEG = 8;
+const KEY_MM = 50;
 
 /** The rigid motion from `a` to `b`: a rotation about its fixed point, or a slide. */
 export function rigidPiece(a: Pose, b: Pose, turns: TurnDirection): PathPiece {
@@ -59,50 +87,32 @@ export function rigidPiece(a: Pose, b: Pose, turns: TurnDirection): PathPiece {
   return { type: 'rotate', from: a, to: b, center, turned };
 }
 
-/** The pose a piece passes through nearest to `p` (by its turn, or along a slide), and how far it is. */
-function deviation(piece: PathPiece, p: Pose, turns: TurnDirection): number {
-  if (piece.type === 'line') {
-    const dx = piece.to.x - piece.from.x;
-    const dy = piece.to.y - piece.from.y;
-    const len2 = dx * dx + dy * dy;
-    const f = len2 > 0 ? Math.max(0, Math.min(1, ((p.x - piece.from.x) * dx + (p.y - piece.from.y) * dy) / len2)) : 0;
-    const dh = Math.abs(p.heading - piece.from.heading);
-    return Math.max(Math.hypot(piece.from.x + f * dx - p.x, piece.from.y + f * dy - p.y) / TOLERANCE_MM, dh / TOLERANCE_DEG);
-  }
-  const f = (p.heading - piece.from.heading) / piece.turned;
-  if (f < -1e-6 || f > 1 + 1e-6) return Infinity; // the heading went back: not one rotation
-  const q = rotateAbout(piece.from, piece.center, f * piece.turned, turns);
-  return Math.hypot(q.x - p.x, q.y - p.y) / TOLERANCE_MM;
-}
-
-/** Pieces through the poses from index `from` to `to` (inclusive), within the tolerance. */
+/**
+ * Pieces through the poses from index `from` to `to` (inclusive): a rigid
+ * motion between key poses, a new one each time the robot has turned
+ * KEY_DEG or moved KEY_MM, or its turning reverses. Between two key poses a
+ * smooth simulated path stays within a fraction of a millimetre of the piece.
+ */
 export function simplify(poses: PoseBuffer, from: number, to: number, turns: TurnDirection): PathPiece[] {
   const out: PathPiece[] = [];
-  const stack: [number, number][] = [[from, to]];
-  const done: [number, PathPiece][] = [];
-  while (stack.length) {
-    const [i, j] = stack.pop()!;
-    const a = poses.at(i);
-    const b = poses.at(j);
-    if (j - i <= 1) {
-      if (a.x !== b.x || a.y !== b.y || a.heading !== b.heading) done.push([i, rigidPiece(a, b, turns)]);
-      continue;
-    }
-    const piece = rigidPiece(a, b, turns);
-    let worst = 0;
-    let at = -1;
-    for (let k = i + 1; k < j; k++) {
-      const d = deviation(piece, poses.at(k), turns);
-      if (d > worst) { worst = d; at = k; }
-    }
-    if (worst <= 1) {
-      if (a.x !== b.x || a.y !== b.y || a.heading !== b.heading) done.push([i, piece]);
-    } else {
-      stack.push([at, j], [i, at]);
+  const { x, y, h } = poses;
+  let k = from;
+  let dir = 0;
+  for (let i = from + 1; i <= to; i++) {
+    const step = Math.sign(h[i] - h[i - 1]);
+    const reversed = step !== 0 && dir !== 0 && step !== dir;
+    if (step !== 0 && dir === 0) dir = step;
+    const far = Math.abs(h[i] - h[k]) >= KEY_DEG || Math.hypot(x[i] - x[k], y[i] - y[k]) >= KEY_MM;
+    if (i === to || far || reversed) {
+      const end = reversed ? i - 1 : i;
+      if (end > k) {
+        out.push(rigidPiece(poses.at(k), poses.at(end), turns));
+        k = end;
+      }
+      dir = reversed ? step : 0;
+      if (reversed && i === to) out.push(rigidPiece(poses.at(k), poses.at(i), turns));
     }
   }
-  done.sort((p, q) => p[0] - q[0]);
-  for (const [, piece] of done) out.push(piece);
   return out;
 }
 

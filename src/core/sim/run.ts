@@ -84,7 +84,7 @@ export function predictRun(
   const events: MotionEvent[] = [];
   if (!robot) return { events };
   let state: SimState | undefined;
-  const poses = new PoseBuffer();
+  const poses = new PoseBuffer(true);
   for (const seg of segments) {
     const m = motionOf(seg);
     if (!m) continue;
@@ -125,6 +125,7 @@ export function predictRun(
       records.set(seg, { state: copyState(state), motion, robot });
       outcome = simulateMotion(state, robot, motion, undefined, poses);
     }
+    poses.close();
     const end: Pose = { x: state.x, y: state.y, heading: state.h };
     const p: Prediction = {
       start: startT,

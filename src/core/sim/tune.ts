@@ -18,53 +18,76 @@ const MARGIN = 0.8;
 /** The widest stop band a fix suggests, degrees. */
 const MAX_STOP = 10;
 
-/** Settings that bring the turn's predicted overshoot inside its stop band without a stall, quickest first. */
+/**
+ * Settings that bring the turn's predicted overshoot inside its stop band
+ * without a stall, the one that helps most (smallest error at rest, then
+ * quickest) first. Each option is searched by halving over its whole steps
+ * (the overshoot grows with `min`, `gain` and `speed`), so a search costs a
+ * handful of simulations of the one motion; results are remembered for the
+ * same motion from the same state.
+ */
 export function tuneGyroTurn(seg: Segment): Tuning[] {
   const rec = simRecordOf(seg);
   if (!rec || rec.motion.kind !== 'gyro-turn') return [];
+  const key = JSON.stringify([rec.motion, rec.robot, rec.state, seg.turned]);
+  const known = memo.get(key);
+  if (known) return known;
   const m = rec.motion;
   const stall = rec.robot.stall;
   const found: Tuning[] = [];
-  const works = (patch: Partial<GyroSettings>) => {
-    const r = retryGyroTurn(seg, patch);
-    return r && r.outcome.finished && r.overshoot <= MARGIN * m.stop && r.overshoot >= -m.stop ? r : undefined;
+  const tried = (patch: Partial<GyroSettings>) => retryGyroTurn(seg, patch);
+  const good = (r: ReturnType<typeof tried>, stop = m.stop) => r !== undefined && r.outcome.finished && r.overshoot <= MARGIN * stop && r.overshoot >= -stop;
+  // The largest value among `values` (rising) that works, by halving.
+  const largest = (values: number[], patch: (v: number) => Partial<GyroSettings>): { v: number; r: NonNullable<ReturnType<typeof tried>> } | undefined => {
+    let lo = 0;
+    let hi = values.length - 1;
+    let best: { v: number; r: NonNullable<ReturnType<typeof tried>> } | undefined;
+    while (lo <= hi) {
+      const mid = (lo + hi) >> 1;
+      const r = tried(patch(values[mid]));
+      if (good(r)) { best = { v: values[mid], r: r! }; lo = mid + 1; } else hi = mid - 1;
+    }
+    return best;
   };
-  // A lower floor: the highest whole percent that works (the least slowdown).
-  for (let pct = Math.floor(m.min * 100 - 1e-9); pct >= 1 && pct / 100 > stall; pct--) {
-    const r = works({ min: pct / 100 });
-    if (r) { found.push({ option: 'min', value: pct / 100, overshoot: r.overshoot, duration: r.duration }); break; }
-  }
-  // A lower gain, in steps of a tenth of the present one.
-  for (let k = 9; k >= 1; k--) {
-    const gain = roundTo((m.gain * 100 * k) / 10, 2);
-    if (!(gain > 0) || gain >= m.gain * 100) continue;
-    const r = works({ gain: gain / 100 });
-    if (r) { found.push({ option: 'gain', value: gain, overshoot: r.overshoot, duration: r.duration }); break; }
-  }
-  // Slower near the end: the ramp's power falls back to `min` at the target.
+  const range = (from: number, to: number, step: number) => { const out: number[] = []; for (let v = from; v <= to + 1e-9; v += step) out.push(Math.round(v * 1e6) / 1e6); return out; };
+  const mins = range(Math.floor(stall * 100 + 1e-9) + 1, Math.floor(m.min * 100 - 1e-9), 1);
+  const byMin = mins.length ? largest(mins, (pct) => ({ min: pct / 100 })) : undefined;
+  if (byMin) found.push({ option: 'min', value: byMin.v / 100, overshoot: byMin.r.overshoot, duration: byMin.r.duration });
+  const gains = range(1, 9, 1).map((k) => roundTo((m.gain * 100 * k) / 10, 2)).filter((g, i, a) => g > 0 && a.indexOf(g) === i);
+  const byGain = largest(gains, (g) => ({ gain: g / 100 }));
+  if (byGain) found.push({ option: 'gain', value: byGain.v, overshoot: byGain.r.overshoot, duration: byGain.r.duration });
   if (!m.ramp) {
-    const r = works({ ramp: true });
-    if (r) found.push({ option: 'ramp', overshoot: r.overshoot, duration: r.duration });
+    const r = tried({ ramp: true });
+    if (good(r)) found.push({ option: 'ramp', overshoot: r!.overshoot, duration: r!.duration });
   }
-  // A lower top power, in whole 5 % steps.
-  for (let pct = Math.ceil(m.power * 20 - 1e-9) * 5 - 5; pct / 100 > Math.max(m.min, stall); pct -= 5) {
-    const r = works({ power: pct / 100 });
-    if (r) { found.push({ option: 'speed', value: pct / 100, overshoot: r.overshoot, duration: r.duration }); break; }
-  }
-  // Stopping the power a little earlier lets the robot coast onto the target: the band that leaves the smallest error.
-  let bestStop: Tuning | undefined;
-  // A band of at most a third of the turn (a wider one would leave the turn hardly begun).
+  const speeds = range(Math.floor(Math.max(m.min, stall) * 20 + 1e-9) * 5 + 5, Math.ceil(m.power * 20 - 1e-9) * 5 - 5, 5);
+  const bySpeed = speeds.length ? largest(speeds, (pct) => ({ power: pct / 100 })) : undefined;
+  if (bySpeed) found.push({ option: 'speed', value: bySpeed.v / 100, overshoot: bySpeed.r.overshoot, duration: bySpeed.r.duration });
+  // Stopping the power earlier lets the robot coast onto the target: start from the band the
+  // coast needs (the present band plus the overshoot), then look half a degree either side.
   const widest = Math.min(MAX_STOP, Math.abs(seg.turned) / 3);
-  for (let stop = Math.floor(m.stop * 2 + 1e-9) / 2 + 0.5; stop <= widest; stop += 0.5) {
-    const r = retryGyroTurn(seg, { stop });
-    if (r && r.outcome.finished && Math.abs(r.overshoot) <= MARGIN * stop && Math.abs(r.overshoot) < m.stop
-      && (!bestStop || Math.abs(r.overshoot) < Math.abs(bestStop.overshoot) - 0.05)) {
+  const base = seg.predicted?.overshoot ?? 0;
+  const guess = Math.round((m.stop + base) * 2) / 2;
+  let bestStop: Tuning | undefined;
+  for (const stop of [guess - 0.5, guess, guess + 0.5]) {
+    if (stop <= m.stop || stop > widest) continue;
+    const r = tried({ stop });
+    if (r && good(r, stop) && Math.abs(r.overshoot) < m.stop && (!bestStop || Math.abs(r.overshoot) < Math.abs(bestStop.overshoot) - 0.05)) {
       bestStop = { option: 'stop', value: stop, overshoot: r.overshoot, duration: r.duration };
     }
   }
   if (bestStop) found.push(bestStop);
-  // What helps most: the smallest error at rest, then the quickest.
-  return found.sort((a, b) => Math.abs(a.overshoot) - Math.abs(b.overshoot) || a.duration - b.duration);
+  found.sort((a, b) => Math.abs(a.overshoot) - Math.abs(b.overshoot) || a.duration - b.duration);
+  remember(key, found);
+  return found;
+}
+
+const memo = new Map<string, Tuning[]>();
+const MEMO_SIZE = 2000;
+
+function remember(key: string, value: Tuning[]): void {
+  if (memo.size >= MEMO_SIZE) memo.delete(memo.keys().next().value!);
+  memo.set(key, value);
 }
 
 /** The lowest whole-percent `min` above the stall power with which the turn settles inside its band. */
