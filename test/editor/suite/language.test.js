@@ -141,7 +141,7 @@ describe('Veer language features', () => {
   // from the new zero (90), never left as a 90° swerve or made a hold of 450.
   const SWERVE = 'swerve-check.veer';
   const swerveLines = (replace) => {
-    const lines = ['# Editor test fixture: an invented hallway run whose second gyro turn aims at 180.', 'units mm', 'wheel 60 mm',
+    const lines = ['# Editor test fixture: an invented hallway run whose second gyro turn aims at 180.', 'motor 900 deg/s lag 20 ms', 'wheel 60 mm',
       'track 130 mm', 'start (150, 150) heading 0', 'drive 550 hold 0', 'turn 90 by gyro min 10%', 'drive 900 hold 90',
       'turn 90 by gyro min 10%', 'drive 300 hold 180', 'turn -90 arc 200', ''];
     return replace(lines).join('\n');
