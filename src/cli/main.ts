@@ -10,7 +10,8 @@ import { version } from '../../package.json';
 const HELP = `veer ${version}: check and draw plans for two-wheeled robot runs
 
 Usage:
-  veer check [--json] [--strict] FILE...   check plans; one line per problem, a summary per run
+  veer check [--json [--trace]] [--strict] FILE...
+                                           check plans; one line per problem, a summary per run
   veer check --format sarif FILE...        the problems as a SARIF 2.1.0 log, with the path-keeping fixes
   veer render FILE -o OUT.svg [--run NAME] draw the field, the path and the problems as SVG
   veer targets FILE [--run NAME] [--csv|--json]
@@ -25,6 +26,8 @@ Options:
   --json       print a JSON document (one file: an object; several: an array); schema/check.schema.json
   --format F   \`check\` output: text (default), json, or sarif
   --strict     count warnings as errors
+  --trace      with \`check --json\`: each motion's simulated samples (time, yaw reading, target, error,
+               powers, wheel speeds, pose), one row per control-loop sample
   -o, --output where \`render\` writes the SVG
   --run NAME   draw (or list the targets of) only this run (name or 1-based number)
   --csv        \`targets\` as CSV (RFC 4180, a header row)
@@ -78,6 +81,7 @@ function dispatch(argv: string[], io: CliIo): number {
         write: { type: 'boolean' },
         csv: { type: 'boolean' },
         format: { type: 'string' },
+        trace: { type: 'boolean' },
       },
     });
   } catch (e) {
@@ -97,6 +101,7 @@ function dispatch(argv: string[], io: CliIo): number {
   if (command !== 'fix' && values.write) throw new UsageError('`--write` belongs to `veer fix`');
   if (command !== 'targets' && values.csv) throw new UsageError('`--csv` belongs to `veer targets`');
   if (command !== 'check' && values.format !== undefined) throw new UsageError('`--format` belongs to `veer check`');
+  if (command !== 'check' && values.trace) throw new UsageError('`--trace` belongs to `veer check --json`');
   if (command === 'targets') {
     if (values.output !== undefined || values.strict) throw new UsageError('`veer targets` takes a plan file, `--run`, and `--csv` or `--json`');
     if (values.csv && values.json) throw new UsageError('choose one of `--csv` and `--json`');
@@ -114,7 +119,8 @@ function dispatch(argv: string[], io: CliIo): number {
     const format = values.format ?? (values.json ? 'json' : 'text');
     if (!['text', 'json', 'sarif'].includes(format)) throw new UsageError(`unknown format \`${format}\`: use text, json or sarif`);
     if (values.json && format !== 'json') throw new UsageError('choose one of `--json` and `--format`');
-    return check(files, { format: format as 'text' | 'json' | 'sarif', strict: !!values.strict }, io);
+    if (values.trace && format !== 'json') throw new UsageError('`--trace` adds the simulation\'s samples to the JSON document: use it with `--json`');
+    return check(files, { format: format as 'text' | 'json' | 'sarif', strict: !!values.strict, trace: !!values.trace }, io);
   }
   if (command === 'render') {
     if (values.json) throw new UsageError('`--json` belongs to `veer check`');
@@ -213,14 +219,14 @@ function failed(result: CheckResult, strict: boolean): boolean {
   return result.diagnostics.some((d) => d.severity === 'error' || (strict && d.severity === 'warning'));
 }
 
-function check(files: string[], opts: { format: 'text' | 'json' | 'sarif'; strict: boolean }, io: CliIo): number {
+function check(files: string[], opts: { format: 'text' | 'json' | 'sarif'; strict: boolean; trace?: boolean }, io: CliIo): number {
   // Read every file first, so an unreadable one stops the command before any output.
   const cache = new ExpressionCache();
   const results: Array<{ file: string; result: CheckResult; text: string }> = [];
   for (const file of files) results.push({ file, ...checkOne(file, cache, io) });
   let status = 0;
   if (opts.format === 'json') {
-    const docs = results.map(({ file, result }) => toJsonDocument(file, result));
+    const docs = results.map(({ file, result }) => toJsonDocument(file, result, opts.trace));
     io.out(JSON.stringify(docs.length === 1 ? docs[0] : docs, null, 2) + '\n');
   } else if (opts.format === 'sarif') {
     // The reference beside the installed command (dist/ in a package, src/cli/ in the repository).

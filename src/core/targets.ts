@@ -14,6 +14,8 @@ export interface TargetRow {
   kind: Segment['kind'];
   start_s: number;
   duration_s: number | null;
+  /** The controller simulation's time for the motion (null: it never ends). */
+  predicted_s?: number | null;
   left_wheel_deg?: number;
   right_wheel_deg?: number;
   left_motor_deg?: number;
@@ -62,6 +64,7 @@ export function targetTables(result: CheckResult, text: string, run?: number): T
         start_s: round3(startAt),
         duration_s: Number.isFinite(seg.duration) ? round3(seg.duration) : null,
       };
+      if (seg.predicted) row.predicted_s = Number.isFinite(seg.predicted.duration) && !seg.predicted.capped ? round3(seg.predicted.duration) : null;
       if (seg.wheelDeg) {
         row.left_wheel_deg = round3(seg.wheelDeg.left);
         row.right_wheel_deg = round3(seg.wheelDeg.right);
@@ -89,7 +92,8 @@ export const TARGET_COLUMNS: readonly { key: keyof TargetRow; header: string; ti
   { key: 'line', header: 'Line', title: 'The plan line' },
   { key: 'motion', header: 'Motion', title: 'The line as written' },
   { key: 'start_s', header: 'Start (s)', title: 'When the motion starts, from the start of the run' },
-  { key: 'duration_s', header: 'Time (s)', title: 'How long the motion takes' },
+  { key: 'duration_s', header: 'Time (s)', title: 'How long the motion takes (a gyro turn: as simulated)' },
+  { key: 'predicted_s', header: 'Predicted (s)', title: 'How long the real robot takes, from the controller simulation (motor lag, stall, the control loop), starting where the previous motion really ended' },
   { key: 'left_wheel_deg', header: 'Wheel L (°)', title: 'Left wheel rotation, degrees' },
   { key: 'right_wheel_deg', header: 'Wheel R (°)', title: 'Right wheel rotation, degrees' },
   { key: 'left_motor_deg', header: 'Motor L (°)', title: 'Left motor target, degrees: with the gear and, for encoder turns, the effective track' },
@@ -102,7 +106,7 @@ export const TARGET_COLUMNS: readonly { key: keyof TargetRow; header: string; ti
 
 /** Decimals of each column where a person reads it (text tables; CSV and JSON keep three). */
 function columnDigits(key: keyof TargetRow): number {
-  if (key === 'start_s' || key === 'duration_s') return DIGITS.time;
+  if (key === 'start_s' || key === 'duration_s' || key === 'predicted_s') return DIGITS.time;
   if (key === 'speed_mm_s') return DIGITS.speed;
   if (key === 'power_pct' || key === 'min_power_pct') return DIGITS.power;
   return DIGITS.angle;
@@ -117,7 +121,7 @@ function cell(row: TargetRow, key: keyof TargetRow): string {
 /** A cell as a person reads it: the same rounding as every other surface. */
 export function readableCell(row: TargetRow, key: keyof TargetRow): string {
   const v = row[key];
-  if (v === undefined || v === null) return key === 'duration_s' ? '?' : '';
+  if (v === undefined || v === null) return key === 'duration_s' ? '?' : key === 'predicted_s' && v === null ? 'never' : '';
   return typeof v === 'number' ? (key === 'line' ? String(v) : formatNumber(v, columnDigits(key))) : v;
 }
 

@@ -127,6 +127,19 @@ export function describeSegments(segments: Segment[], unit: LengthUnitName, note
   facts.push(`time: ${formatTime(sum((s) => s.duration))}`);
   if (segments.some((s) => !s.complete)) facts.push('_some values of this line could not be computed_');
   lines.push(facts.join('  \n'));
+  // What the real robot is predicted to do (the controller simulation).
+  const p = last.predicted;
+  if (p && last.kind !== 'start' && last.kind !== 'mark' && last.kind !== 'reset') {
+    const off = Math.hypot(p.end.x - last.end.x, p.end.y - last.end.y);
+    const headingOff = ((((p.end.heading - last.end.heading) % 360) + 540) % 360) - 180;
+    const predicted = [
+      Number.isFinite(p.duration) && !p.capped ? `time ${formatTime(p.duration)}` : p.capped ? 'never ends (cut off after 20 s)' : 'stalls: waits for ever',
+      p.overshoot !== undefined && `${p.overshoot >= 0 ? 'overshoot' : 'short by'} ${formatAngle(Math.abs(p.overshoot))}`,
+      `ends ${formatLength(off, unit)} and ${formatAngle(Math.abs(headingOff))} from the plan`,
+      p.peakRate >= 0.5 && `peak rate ${formatAngle(p.peakRate)}/s`,
+    ].filter(Boolean);
+    lines.push('', `**predicted** (motor lag, stall, control loop): ${predicted.join(' · ')}`);
+  }
   if (notes.length) lines.push('', ...notes.map((n) => `_${n}_`));
   return lines.join('\n');
 }

@@ -120,6 +120,7 @@ export function renderSvg(result: CheckResult, options: RenderOptions = {}): str
   drawObstacles(out, d, result);
   for (const { run, index } of runs) drawFootprints(out, d, run, index);
   for (const { run, index } of runs) drawPath(out, d, run, index);
+  for (const { run, index } of runs) drawPredicted(out, d, run, index);
   for (const { run, index } of runs) drawAnnotations(out, d, run, index);
   drawMarkers(out, d, diagnostics);
   drawScale(out, d, result);
@@ -371,7 +372,7 @@ function headerLayout(result: CheckResult, runs: IndexedRun[]): HeaderLayout {
   const entries = runs.map(({ run, index }) => ({
     run,
     index,
-    text: Number.isFinite(run.duration) ? `${run.name} · ${formatRunTime(run.duration)}` : run.name,
+    text: `${run.name}${Number.isFinite(run.duration) ? ` · ${formatRunTime(run.duration)}` : ''}${run.predictedDuration === undefined ? '' : Number.isFinite(run.predictedDuration) ? `, predicted ${formatRunTime(run.predictedDuration)}` : ', never ends'}`,
   }));
   const swatch = 18;
   const gap = 16;
@@ -651,6 +652,25 @@ function drawPath(out: string[], d: Drawing, run: RunResult, runIndex: number): 
     );
   });
   out.push('</g>\n');
+}
+
+/**
+ * The controller simulation's path where it leaves the planned one (by more
+ * than 2 mm or 0.5°): a thin dotted line beside the planned path.
+ */
+function drawPredicted(out: string[], d: Drawing, run: RunResult, runIndex: number): void {
+  let path = '';
+  let pen: Point | undefined;
+  for (const seg of run.segments) {
+    for (const piece of seg.predicted?.path ?? []) {
+      if (!finitePiece(piece) || distance(piece.from, piece.to) < 0.05) continue;
+      if (!pen || distance(pen, piece.from) > 0.01) path += `M${d.xy(piece.from)}`;
+      path += piece.type === 'line' || distance(piece.center, piece.from) > 1e5 ? `L${d.xy(piece.to)}` : d.arc(piece.from, piece.center, piece.turned);
+      pen = piece.to;
+    }
+  }
+  if (!path) return;
+  out.push(`<g class="predicted ${runClass(runIndex)}" data-line="${run.line}"><path d="${path}" stroke-width="${d.px(SIZE.thinStroke * 1.5)}" stroke-dasharray="${d.px(2)} ${d.px(3)}" stroke-opacity="0.9"/><title>Predicted path of "${escapeXml(run.name)}" (controller simulation)</title></g>\n`);
 }
 
 /** Turn centres, spin angles, marks, and the start and end markers: drawn above every path. */

@@ -74,7 +74,7 @@ export function traceForLine(result: CheckResult, line: number): TraceView {
   const p = seg.predicted;
   const facts = [Number.isFinite(p.duration) ? `predicted ${fmt(p.duration, 2)} s` : p.capped ? 'never ends' : 'stalls'];
   if (p.overshoot !== undefined) facts.push(`${p.overshoot >= 0 ? 'overshoot' : 'short by'} ${fmt(Math.abs(p.overshoot), 1)}°`);
-  facts.push(`peak ${fmt(p.peakRate, 0)}°/s`);
+  if (p.peakRate >= 0.5) facts.push(`peak ${fmt(p.peakRate, 0)}°/s`);
   const rec = simRecordOf(seg);
   return {
     line,
