@@ -343,8 +343,12 @@ export interface Prediction {
   stalled?: boolean;
   /** The motion hit the 20 s cap of simulated time. */
   capped?: boolean;
-  /** Where the predicted path differs from the planned one by more than 2 mm or 0.5°: the predicted pieces. */
-  path?: PathPiece[];
+  /**
+   * Set where the predicted path differs from the planned one by more than
+   * 2 mm or 0.5°: the box the axle midpoint passes through (the pieces come
+   * from `predictedPath(segment)`, worked out on first use).
+   */
+  bounds?: { minX: number; minY: number; maxX: number; maxY: number };
 }
 
 export interface Segment {

@@ -26,7 +26,7 @@ describe('veer command line', () => {
   it('checks the example plan: no problems, one summary line, exit 0', () => {
     const r = run(['check', example]);
     assert.equal(r.status, 0, r.out + r.err);
-    assert.match(r.out, /run "to the dock": \d+\.\d\d m, \d+\.\d s, 2 turns, 0 wrap crossings/);
+    assert.match(r.out, /run "to the dock": \d+\.\d\d m, \d+\.\d s \(predicted \d+\.\d s\), 2 turns, 0 wrap crossings/);
   });
 
   it('prints problems as FILE:LINE:COL: SEVERITY: MESSAGE [CODE] and exits 1 on errors', () => {
@@ -73,6 +73,13 @@ describe('veer command line', () => {
       assert.match(e.err, /some targets may be missing or wrong/);
       assert.equal(run(['targets', '--csv', '--json', example]).status, 2);
       assert.equal(run(['check', '--csv', example]).status, 2);
+      // The simulation's samples go only into `check --json`.
+      for (const args of [['check', '--trace', example], ['check', '--format', 'sarif', '--trace', example], ['targets', '--trace', example], ['render', example, '-o', '/dev/null', '--trace']]) {
+        const r = run(args);
+        assert.equal(r.status, 2, args.join(' '));
+        assert.match(r.err, /--trace/);
+        assert.equal(r.err.trim().split('\n').length, 2, r.err); // one line, and the pointer to --help
+      }
     });
   });
 

@@ -43,6 +43,19 @@ describe('JSON schemas', () => {
     assert.ok(checkSchema(docs), ajv.errorsText(checkSchema.errors));
   });
 
+  it('check --json --trace adds each motion\'s samples, ending where the prediction says', () => {
+    const plan = join(root, 'test', 'fixtures', 'yaw-lab.veer');
+    const doc = JSON.parse(run(['check', '--json', '--trace', plan]));
+    assert.ok(checkSchema(doc), ajv.errorsText(checkSchema.errors));
+    const turn = doc.runs[0].segments.find((s: { sensing?: string; kind: string; trace?: unknown[] }) => s.kind === 'turn' && s.sensing === 'gyro' && s.trace);
+    assert.ok(turn, 'a gyro turn with a trace');
+    const last = turn.trace[turn.trace.length - 1];
+    // The last row is the moment the code moves on: the prediction's end (both rounded to 0.001).
+    assert.equal(last.t_s, Math.round((turn.predicted.start_s + turn.predicted.duration_s) * 1000) / 1000);
+    assert.equal(last.yaw_deg, turn.predicted.yaw_end_deg);
+    assert.ok(turn.trace.every((r: { target_deg: number | null }) => r.target_deg !== null));
+  });
+
   it('the schemas reject what they should (a heading of 360, a missing field)', () => {
     const doc = JSON.parse(run(['check', '--json', plans[0]]));
     const seg = doc.runs[0].segments[0];

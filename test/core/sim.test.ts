@@ -1,6 +1,6 @@
 import { strict as assert } from 'node:assert';
 import { plantStep, wheelStep, type PlantParams, type PlantState } from '../../src/core/sim/plant';
-import { coastedHeading, restState, simulateMotion, MOTION_CAP_S, type GyroTurnMotion, type SimRobot } from '../../src/core/sim/motion';
+import { coastedHeading, restState, simRobot as simRobotOf, simulateMotion, MOTION_CAP_S, type GyroTurnMotion, type SimRobot } from '../../src/core/sim/motion';
 import { checkPlan } from '../../src/core';
 import { DIFFERS_DEG, DIFFERS_MM } from '../../src/core/sim/run';
 import fc from 'fast-check';
@@ -62,12 +62,12 @@ describe('simulation: the plant', () => {
 });
 
 /** A robot whose spin turns at `degPerSecond` at full power (ω = 2v/b), as the run simulation sees it. */
-function simRobot(degPerSecond: number, extra: Partial<SimRobot> = {}): SimRobot {
+function simRobot(degPerSecond: number, extra: Partial<Omit<SimRobot, 'decay' | 'decayLong' | 'longStep'>> = {}): SimRobot {
   const track = 120;
-  return {
+  return simRobotOf({
     fullSpeed: ((degPerSecond * Math.PI) / 180) * (track / 2), lag: 0.06, stall: 0, mismatch: 1, track, sample: 0.01, delay: 0, scale: 1,
     turns: 'clockwise', yawLo: -180, circumference: Math.PI * 56, gear: 1, ...extra,
-  };
+  });
 }
 
 const spin = (target: number, extra: Partial<GyroTurnMotion> = {}): GyroTurnMotion =>
@@ -164,7 +164,7 @@ describe('simulation: encoder motions and the whole run', () => {
         // planned one (gyro motions stop inside a 0.05° band, so small heading errors remain; common practice, no published source).
         assert.ok(Math.hypot(p.end.x - seg.end.x, p.end.y - seg.end.y) < DIFFERS_MM, `line ${seg.line + 1}: ${JSON.stringify(p.end)} vs ${JSON.stringify(seg.end)}`);
         assert.ok(Math.abs(p.end.heading - seg.end.heading) < DIFFERS_DEG, `line ${seg.line + 1}: ${p.end.heading} vs ${seg.end.heading}`);
-        assert.equal(p.path, undefined, `line ${seg.line + 1}: drawn apart`);
+        assert.equal(p.bounds, undefined, `line ${seg.line + 1}: drawn apart`);
       }
     }), { numRuns: 60, seed: 9 });
   });

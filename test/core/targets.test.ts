@@ -53,7 +53,7 @@ describe('targets table', () => {
   it('CSV: RFC 4180 quoting of a run name with a comma, one header, CRLF rows', () => {
     const csv = targetsCsv([table]);
     const lines = csv.split('\r\n');
-    assert.equal(lines[0], 'run,line,motion,start_s,duration_s,left_wheel_deg,right_wheel_deg,left_motor_deg,right_motor_deg,yaw_target_deg,power_pct,min_power_pct,speed_mm_s');
+    assert.equal(lines[0], 'run,line,motion,start_s,duration_s,predicted_s,left_wheel_deg,right_wheel_deg,left_motor_deg,right_motor_deg,yaw_target_deg,power_pct,min_power_pct,speed_mm_s');
     assert.ok(lines[1].startsWith('"lap, first",6,drive 300 speed 40%,0,'));
     assert.equal(lines.length, 1 + 5 + 1); // header, five rows, and the empty string after the last CRLF
   });

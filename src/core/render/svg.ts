@@ -36,6 +36,7 @@
 // drawing by setting `color` per class. A standalone drawing carries its own
 // <style> doing exactly that; otherwise the markup has no colour at all.
 import { formatRunTime } from '../format';
+import { predictedPath } from '../sim/run';
 import type { CheckResult, Diagnostic, PathPiece, Point, Pose, RunResult, Segment, TurnDirection } from '../types';
 import { footprintCorners, footprintOf, forwardVector, rotateAbout, turnSign, type Footprint } from '../solve/frame';
 import { escapeXml, num } from './markup';
@@ -662,7 +663,7 @@ function drawPredicted(out: string[], d: Drawing, run: RunResult, runIndex: numb
   let path = '';
   let pen: Point | undefined;
   for (const seg of run.segments) {
-    for (const piece of seg.predicted?.path ?? []) {
+    for (const piece of predictedPath(seg) ?? []) {
       if (!finitePiece(piece) || distance(piece.from, piece.to) < 0.05) continue;
       if (!pen || distance(pen, piece.from) > 0.01) path += `M${d.xy(piece.from)}`;
       path += piece.type === 'line' || distance(piece.center, piece.from) > 1e5 ? `L${d.xy(piece.to)}` : d.arc(piece.from, piece.center, piece.turned);

@@ -29,8 +29,10 @@ export interface SimRobot {
   /** Nominal (left) wheel circumference, mm, and motor degrees per wheel degree: to turn motor targets into travel. */
   circumference: number;
   gear: number;
-  /** exp(−sample/lag), once worked out. */
-  decay?: number;
+  /** ENCODER_STEPS samples, s; exp(−sample/lag) and exp(−longStep/lag) (see `simRobot`). */
+  longStep: number;
+  decay: number;
+  decayLong: number;
 }
 
 /** Everything that carries from one motion into the next. */
@@ -53,8 +55,13 @@ export function restState(x: number, y: number, heading: number, t = 0): SimStat
   return { x, y, h: heading, vL: 0, vR: 0, t, zero: heading, histT: [], histH: [] };
 }
 
+const NO_HISTORY: number[] = [];
+
 export function copyState(s: SimState): SimState {
-  return { ...s, histT: s.histT.slice(), histH: s.histH.slice() };
+  return {
+    x: s.x, y: s.y, h: s.h, vL: s.vL, vR: s.vR, t: s.t, zero: s.zero,
+    histT: s.histT.length ? s.histT.slice() : NO_HISTORY, histH: s.histH.length ? s.histH.slice() : NO_HISTORY,
+  };
 }
 
 /** One row of a trace. */
@@ -122,6 +129,13 @@ export interface WaitMotion {
 
 export type SimMotion = EncoderMotion | GyroTurnMotion | HoldDriveMotion | WaitMotion;
 
+/**
+ * An encoder motion whose powers do not change (no ramp) is stepped this many
+ * samples at a time: the wheels' response is exact for any step under a held
+ * power, and only the pose's arc per step is approximate.
+ */
+export const ENCODER_STEPS = 4;
+
 /** The lowest power a ramped drive commands (or its top power when lower), so that it never creeps. */
 export const RAMP_FLOOR = 0.1;
 
@@ -147,6 +161,7 @@ function headingAt(s: SimState, t: number): number {
 
 function remember(s: SimState, r: SimRobot): void {
   if (r.delay <= 0) return;
+  if (s.histT === NO_HISTORY) { s.histT = []; s.histH = []; }
   s.histT.push(s.t);
   s.histH.push(s.h);
   // Keep what a delayed reading can still ask for.
@@ -171,9 +186,7 @@ function effective(u: number, stall: number): number {
 function advance(s: SimState, r: SimRobot, uL: number, uR: number, dt: number, out: { sL: number; sR: number }, regulated = false): void {
   const cL = (regulated ? uL : effective(uL, r.stall)) * r.fullSpeed;
   const cR = (regulated ? uR : effective(uR, r.stall)) * r.fullSpeed * r.mismatch;
-  let a: number;
-  if (dt === r.sample) a = r.decay ??= r.lag > 0 ? Math.exp(-r.sample / r.lag) : 0;
-  else a = r.lag > 0 ? Math.exp(-dt / r.lag) : 0;
+  const a = decayOf(r, dt);
   const g = r.lag * (1 - a);
   const sL = g * s.vL + cL * (dt - g);
   const sR = g * s.vR + cR * (dt - g);
@@ -182,11 +195,14 @@ function advance(s: SimState, r: SimRobot, uL: number, uR: number, dt: number, o
   const sign = r.turns === 'clockwise' ? 1 : -1;
   const dTheta = (sign * (sL - sR)) / r.track;
   const ds = (sL + sR) / 2;
-  const half = dTheta / 2;
-  const chord = Math.abs(half) < 1e-9 ? ds : (ds * Math.sin(half)) / half;
-  const mid = s.h * RAD + half;
-  s.x += sign * Math.sin(mid) * chord;
-  s.y += Math.cos(mid) * chord;
+  if (ds !== 0) {
+    // Along the chord of the arc, at the mean heading.
+    const half = dTheta / 2;
+    const chord = Math.abs(half) < 1e-9 ? ds : (ds * Math.sin(half)) / half;
+    const mid = s.h * RAD + half;
+    s.x += sign * Math.sin(mid) * chord;
+    s.y += Math.cos(mid) * chord;
+  }
   s.h += dTheta / RAD;
   s.t += dt;
   out.sL = sL;
@@ -194,20 +210,45 @@ function advance(s: SimState, r: SimRobot, uL: number, uR: number, dt: number, o
 }
 
 /** Travel of one wheel over `dt` from speed v under command c (mm/s), exact. */
-function wheelTravel(v: number, c: number, lag: number, dt: number): number {
-  const g = lag > 0 ? lag * (1 - Math.exp(-dt / lag)) : 0;
+function wheelTravel(v: number, c: number, lag: number, dt: number, decay?: number): number {
+  const g = lag > 0 ? lag * (1 - (decay ?? Math.exp(-dt / lag))) : 0;
   return g * v + c * (dt - g);
 }
 
-/** The time within (0, dt] at which a wheel's travel reaches `need` (travel rising monotonically through it). */
+/** exp(−dt/lag) for a step of `dt` (worked out once for the sample period and for the encoder motions' longer steps). */
+function decayOf(r: SimRobot, dt: number): number {
+  if (dt === r.sample) return r.decay;
+  if (dt === r.longStep) return r.decayLong;
+  return r.lag > 0 ? Math.exp(-dt / r.lag) : 0;
+}
+
+/** A robot with the decays of its two regular steps worked out. */
+export function simRobot(base: Omit<SimRobot, 'decay' | 'decayLong' | 'longStep'>): SimRobot {
+  const longStep = base.sample * ENCODER_STEPS;
+  const decay = (dt: number) => (base.lag > 0 ? Math.exp(-dt / base.lag) : 0);
+  return { ...base, longStep, decay: decay(base.sample), decayLong: decay(longStep) };
+}
+
+/**
+ * The time within (0, dt] at which a wheel's travel reaches `need` (the
+ * travel rising monotonically through it): Newton's method on the exact
+ * travel, whose derivative is the wheel's speed, kept inside a bracket.
+ */
 function crossingTime(v: number, c: number, lag: number, dt: number, need: number): number {
+  const dir = Math.sign(wheelTravel(v, c, lag, dt)) || 1;
   let lo = 0;
   let hi = dt;
-  const dir = Math.sign(wheelTravel(v, c, lag, dt)) || 1;
-  for (let k = 0; k < 50; k++) {
-    const mid = (lo + hi) / 2;
-    if (dir * wheelTravel(v, c, lag, mid) >= dir * need) hi = mid;
-    else lo = mid;
+  let t = dt * Math.min(1, Math.max(0, need / (wheelTravel(v, c, lag, dt) || need)));
+  for (let k = 0; k < 30; k++) {
+    const e = lag > 0 ? Math.exp(-t / lag) : 0;
+    const f = dir * (wheelTravel(v, c, lag, t, e) - need);
+    if (f >= 0) hi = t; else lo = t;
+    if (Math.abs(f) < 1e-9) return t;
+    if (hi - lo < 1e-12) break;
+    const speed = dir * (c + (v - c) * e);
+    let next = speed > 0 ? t - f / speed : (lo + hi) / 2;
+    if (!(next > lo && next < hi)) next = (lo + hi) / 2;
+    t = next;
   }
   return hi;
 }
@@ -262,6 +303,7 @@ function runEncoders(s: SimState, r: SimRobot, m: EncoderMotion, trace?: TraceSi
   const out = { sL: 0, sR: 0 };
   let peak = 0;
   const floor = Math.min(RAMP_FLOOR, m.power);
+  const held = m.accel === undefined && m.rampMin === undefined;
   while (!(doneL && doneR)) {
     if (s.t - start >= MOTION_CAP_S) return { finished: false, stalled: false, capped: true, peakRate: peak };
     // The outer wheel's power now.
@@ -286,16 +328,16 @@ function runEncoders(s: SimState, r: SimRobot, m: EncoderMotion, trace?: TraceSi
     // Does a wheel reach its target within this sample?
     const cL = uL * r.fullSpeed;
     const cR = uR * r.fullSpeed * r.mismatch;
-    let dt = r.sample;
+    let dt = held && !trace ? r.longStep : r.sample;
     let finishing: 'L' | 'R' | undefined;
     if (!doneL) {
       const need = m.left - encL;
-      const d = wheelTravel(s.vL, cL, r.lag, dt);
+      const d = wheelTravel(s.vL, cL, r.lag, dt, decayOf(r, dt));
       if (Math.sign(need) * d >= Math.abs(need)) { dt = crossingTime(s.vL, cL, r.lag, dt, need); finishing = 'L'; }
     }
     if (!doneR) {
       const need = (m.right - encR) * r.mismatch; // real travel the right wheel still needs
-      const d = wheelTravel(s.vR, cR, r.lag, dt);
+      const d = wheelTravel(s.vR, cR, r.lag, dt, decayOf(r, dt));
       if (Math.sign(need) * d >= Math.abs(need)) { dt = crossingTime(s.vR, cR, r.lag, dt, need); finishing = 'R'; }
     }
     remember(s, r);
@@ -368,15 +410,14 @@ function runHold(s: SimState, r: SimRobot, m: HoldDriveMotion, trace?: TraceSink
     // Would the encoders' mean pass the distance within this sample? Find when.
     const cL = effective(uL, r.stall) * r.fullSpeed;
     const cR = effective(uR, r.stall) * r.fullSpeed * r.mismatch;
-    const meanTravel = (dt: number) => back * (wheelTravel(s.vL, cL, r.lag, dt) + wheelTravel(s.vR, cR, r.lag, dt) / r.mismatch) / 2;
     let dt = r.sample;
     const need = goal - counted;
-    if (meanTravel(dt) >= need) {
+    if (meanTravel(s, r, cL, cR, back, dt, decayOf(r, dt)) >= need) {
       let lo = 0;
       let hi = dt;
-      for (let k = 0; k < 50; k++) {
+      for (let k = 0; k < 30; k++) {
         const mid = (lo + hi) / 2;
-        if (meanTravel(mid) >= need) hi = mid;
+        if (meanTravel(s, r, cL, cR, back, mid) >= need) hi = mid;
         else lo = mid;
       }
       dt = hi;
@@ -388,6 +429,11 @@ function runHold(s: SimState, r: SimRobot, m: HoldDriveMotion, trace?: TraceSink
     poses?.pose(s.t, s.x, s.y, s.h);
   }
   return { finished: true, stalled: false, capped: false, peakRate: peak };
+}
+
+/** The mean of the two encoders' travel over `dt` (as they count it), along the drive's direction. */
+function meanTravel(s: SimState, r: SimRobot, cL: number, cR: number, back: number, dt: number, decay?: number): number {
+  return (back * (wheelTravel(s.vL, cL, r.lag, dt, decay) + wheelTravel(s.vR, cR, r.lag, dt, decay) / r.mismatch)) / 2;
 }
 
 function clamp1(u: number): number {

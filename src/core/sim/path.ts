@@ -3,7 +3,7 @@
 // rotation about the point it leaves fixed) wherever one such motion passes
 // every pose between within a tolerance.
 import type { PathPiece, Pose, TurnDirection } from '../types';
-import { forwardVector } from '../solve/frame';
+import { forwardVector, rotateAbout } from '../solve/frame';
 
 /** Growable columns of poses. */
 export class PoseBuffer {
@@ -14,18 +14,29 @@ export class PoseBuffer {
 
   /** With `thin`, a pose is kept only a key pose's distance from the last one kept (the last pose given is kept by `close`). */
   constructor(private readonly thin = false) {}
-  private pending?: [number, number, number, number];
+  private held = false;
+  private ht = 0;
+  private hx = 0;
+  private hy = 0;
+  private hh = 0;
   private lastDir = 0;
 
   pose(t: number, x: number, y: number, h: number): void {
     if (this.thin && this.x.length > 0) {
       const n = this.x.length - 1;
-      const dir = Math.sign(h - (this.pending ? this.pending[3] : this.h[n]));
+      const dir = Math.sign(h - (this.held ? this.hh : this.h[n]));
       const reversed = dir !== 0 && this.lastDir !== 0 && dir !== this.lastDir;
       if (dir !== 0) this.lastDir = dir;
-      if (reversed && this.pending) this.keep(...this.pending);
-      if (!(reversed || Math.abs(h - this.h[this.x.length - 1]) >= KEY_DEG / 4 || Math.hypot(x - this.x[this.x.length - 1], y - this.y[this.x.length - 1]) >= KEY_MM / 4)) {
-        this.pending = [t, x, y, h];
+      if (reversed && this.held) this.keep(this.ht, this.hx, this.hy, this.hh);
+      const m = this.x.length - 1;
+      const dx = x - this.x[m];
+      const dy = y - this.y[m];
+      if (!(reversed || Math.abs(h - this.h[m]) >= KEY_DEG / 4 || dx * dx + dy * dy >= (KEY_MM / 4) ** 2)) {
+        this.held = true;
+        this.ht = t;
+        this.hx = x;
+        this.hy = y;
+        this.hh = h;
         return;
       }
     }
@@ -34,11 +45,11 @@ export class PoseBuffer {
 
   /** Keeps the last pose given, if it was held back. */
   close(): void {
-    if (this.pending) this.keep(...this.pending);
+    if (this.held) this.keep(this.ht, this.hx, this.hy, this.hh);
   }
 
   private keep(t: number, x: number, y: number, h: number): void {
-    this.pending = undefined;
+    this.held = false;
     this.t.push(t);
     this.x.push(x);
     this.y.push(y);
@@ -54,7 +65,7 @@ export class PoseBuffer {
   }
 
   clear(): void {
-    this.pending = undefined;
+    this.held = false;
     this.lastDir = 0;
     this.t.length = 0;
     this.x.length = 0;
@@ -87,31 +98,53 @@ export function rigidPiece(a: Pose, b: Pose, turns: TurnDirection): PathPiece {
   return { type: 'rotate', from: a, to: b, center, turned };
 }
 
+/** How far (mm, degrees) a merged piece may pass from a kept pose. */
+const TOLERANCE_MM = 1;
+const TOLERANCE_DEG = 0.5;
+
+/** Whether the piece passes within the tolerance of pose `p`. */
+function passesNear(piece: PathPiece, p: Pose, turns: TurnDirection): boolean {
+  if (piece.type === 'line') {
+    const dx = piece.to.x - piece.from.x;
+    const dy = piece.to.y - piece.from.y;
+    const len2 = dx * dx + dy * dy;
+    const f = len2 > 0 ? Math.max(0, Math.min(1, ((p.x - piece.from.x) * dx + (p.y - piece.from.y) * dy) / len2)) : 0;
+    const ex = piece.from.x + f * dx - p.x;
+    const ey = piece.from.y + f * dy - p.y;
+    return ex * ex + ey * ey <= TOLERANCE_MM * TOLERANCE_MM && Math.abs(p.heading - piece.from.heading) <= TOLERANCE_DEG;
+  }
+  const f = (p.heading - piece.from.heading) / piece.turned;
+  if (f < 0 || f > 1) return false;
+  const q = rotateAbout(piece.from, piece.center, f * piece.turned, turns);
+  const ex = q.x - p.x;
+  const ey = q.y - p.y;
+  return ex * ex + ey * ey <= TOLERANCE_MM * TOLERANCE_MM;
+}
+
 /**
- * Pieces through the poses from index `from` to `to` (inclusive): a rigid
- * motion between key poses, a new one each time the robot has turned
- * KEY_DEG or moved KEY_MM, or its turning reverses. Between two key poses a
- * smooth simulated path stays within a fraction of a millimetre of the piece.
+ * Pieces through the poses from index `from` to `to` (inclusive): each piece
+ * the rigid motion from one kept pose to a later one, grown while it still
+ * passes near the poses between (checked at the newest and the middle one)
+ * and the robot keeps turning one way.
  */
 export function simplify(poses: PoseBuffer, from: number, to: number, turns: TurnDirection): PathPiece[] {
   const out: PathPiece[] = [];
-  const { x, y, h } = poses;
   let k = from;
-  let dir = 0;
-  for (let i = from + 1; i <= to; i++) {
-    const step = Math.sign(h[i] - h[i - 1]);
-    const reversed = step !== 0 && dir !== 0 && step !== dir;
-    if (step !== 0 && dir === 0) dir = step;
-    const far = Math.abs(h[i] - h[k]) >= KEY_DEG || Math.hypot(x[i] - x[k], y[i] - y[k]) >= KEY_MM;
-    if (i === to || far || reversed) {
-      const end = reversed ? i - 1 : i;
-      if (end > k) {
-        out.push(rigidPiece(poses.at(k), poses.at(end), turns));
-        k = end;
-      }
-      dir = reversed ? step : 0;
-      if (reversed && i === to) out.push(rigidPiece(poses.at(k), poses.at(i), turns));
+  while (k < to) {
+    let j = k + 1;
+    let piece = rigidPiece(poses.at(k), poses.at(j), turns);
+    const dir = Math.sign(poses.h[j] - poses.h[k]);
+    while (j < to) {
+      const next = j + 1;
+      const step = Math.sign(poses.h[next] - poses.h[j]);
+      if (step !== 0 && dir !== 0 && step !== dir) break;
+      const candidate = rigidPiece(poses.at(k), poses.at(next), turns);
+      if (!passesNear(candidate, poses.at(j), turns) || !passesNear(candidate, poses.at((k + next) >> 1), turns)) break;
+      piece = candidate;
+      j = next;
     }
+    out.push(piece);
+    k = j;
   }
   return out;
 }

@@ -1,14 +1,14 @@
 // Every motion of a run simulated in order, the state carried from one into
 // the next (the robot model, section 2): what the real robot does with the
 // plan, next to what the plan says.
-import type { DriveStmt, Pose, PlanSetup, Prediction, Segment, SquareStmt, TurnStmt } from '../types';
+import type { DriveStmt, PathPiece, Pose, PlanSetup, Prediction, Segment, SquareStmt, TurnStmt } from '../types';
 import type { EvaluatedMotion } from '../solve/runs';
 import type { Wall } from '../solve/square';
 import type { Footprint } from '../solve/frame';
 import { squareUp } from '../solve/square';
 import {
-  coastedHeading, copyState, readingOf, restState, simulateMotion, MOTION_CAP_S,
-  type MotionOutcome, type SimMotion, type SimRobot, type SimState, type TraceSink,
+  coastedHeading, copyState, readingOf, restState, simRobot, simulateMotion, MOTION_CAP_S,
+  type MotionOutcome, type PoseSink, type SimMotion, type SimRobot, type SimState, type TraceSink,
 } from './motion';
 import { PoseBuffer, poseDifference, rigidPiece, simplify } from './path';
 
@@ -35,7 +35,7 @@ export function simRobotOf(setup: PlanSetup): SimRobot | undefined {
   const r = setup.robot;
   if (r.wheelDiameter === undefined || r.motorSpeed === undefined || r.gear === undefined) return undefined;
   const fullSpeed = ((r.motorSpeed / r.gear) * Math.PI * r.wheelDiameter) / 360;
-  return {
+  return simRobot({
     fullSpeed,
     lag: r.motorLag ?? 0,
     stall: r.stall ?? 0,
@@ -48,7 +48,7 @@ export function simRobotOf(setup: PlanSetup): SimRobot | undefined {
     yawLo: setup.yawRange.lo,
     circumference: Math.PI * r.wheelDiameter,
     gear: r.gear,
-  };
+  });
 }
 
 /** A motion's settings the fixes may change. */
@@ -84,7 +84,7 @@ export function predictRun(
   const events: MotionEvent[] = [];
   if (!robot) return { events };
   let state: SimState | undefined;
-  const poses = new PoseBuffer(true);
+  const bounds = new BoundsSink();
   for (const seg of segments) {
     const m = motionOf(seg);
     if (!m) continue;
@@ -97,8 +97,7 @@ export function predictRun(
     if (!seg.complete && seg.kind !== 'mark' && seg.kind !== 'reset') return { events, duration: undefined };
     const before: Pose = { x: state.x, y: state.y, heading: state.h };
     const startT = state.t;
-    poses.clear();
-    poses.pose(state.t, state.x, state.y, state.h);
+    bounds.reset(state.x, state.y);
     let outcome: MotionOutcome = { finished: true, stalled: false, capped: false, peakRate: 0 };
     let motion: SimMotion | undefined;
     let pathEnd: Pose | undefined;
@@ -108,7 +107,7 @@ export function predictRun(
       if (!squared) return { events };
       motion = squared.motion;
       records.set(seg, { state: copyState(state), motion, robot });
-      outcome = simulateMotion(state, robot, motion, undefined, poses);
+      outcome = simulateMotion(state, robot, motion, undefined, bounds);
       if (outcome.finished) {
         // Pressed against the wall, the robot turns square to it and stops.
         state.x = squared.end.x;
@@ -123,9 +122,8 @@ export function predictRun(
       motion = motionFor(seg, m, state, robot);
       if (!motion) return { events };
       records.set(seg, { state: copyState(state), motion, robot });
-      outcome = simulateMotion(state, robot, motion, undefined, poses);
+      outcome = simulateMotion(state, robot, motion, undefined, bounds);
     }
-    poses.close();
     const end: Pose = { x: state.x, y: state.y, heading: state.h };
     const p: Prediction = {
       start: startT,
@@ -151,15 +149,56 @@ export function predictRun(
     const diffStart = poseDifference(before, seg.start);
     const diffEnd = poseDifference(end, seg.end);
     if (diffStart.mm > DIFFERS_MM || diffStart.deg > DIFFERS_DEG || diffEnd.mm > DIFFERS_MM || diffEnd.deg > DIFFERS_DEG) {
-      const pieces = poses.length > 1 ? simplify(poses, 0, poses.length - 1, robot.turns) : [];
-      if (pathEnd) pieces.push(rigidPiece(poses.at(poses.length - 1), pathEnd, robot.turns));
-      p.path = pieces;
+      // The pieces are worked out when first asked for (the drawing, or a check near an obstacle or the field's edge).
+      p.bounds = { minX: bounds.minX, minY: bounds.minY, maxX: bounds.maxX, maxY: bounds.maxY };
+      lazyPaths.set(seg, { rec: records.get(seg), pathEnd, before, robot });
     }
     seg.predicted = p;
     if (!outcome.finished) return { events, duration: Infinity };
   }
   const last = [...segments].reverse().find((s) => s.predicted);
   return { events, duration: last?.predicted ? last.predicted.start + last.predicted.duration : undefined };
+}
+
+const lazyPaths = new WeakMap<Segment, { rec?: SimRecord; pathEnd?: Pose; before: Pose; robot: SimRobot; pieces?: PathPiece[] }>();
+
+/**
+ * The predicted pieces of a segment whose predicted path leaves the planned
+ * one (by more than 2 mm or 0.5°); undefined where the two agree.
+ */
+export function predictedPath(seg: Segment): PathPiece[] | undefined {
+  const lazy = lazyPaths.get(seg);
+  if (!lazy) return undefined;
+  return (lazy.pieces ??= predictedPieces(lazy.rec, lazy.pathEnd, lazy.before, lazy.robot));
+}
+
+/** Keeps the box the axle midpoint passes through during a motion. */
+class BoundsSink implements PoseSink {
+  minX = 0;
+  minY = 0;
+  maxX = 0;
+  maxY = 0;
+
+  reset(x: number, y: number): void {
+    this.minX = this.maxX = x;
+    this.minY = this.maxY = y;
+  }
+
+  pose(_t: number, x: number, y: number): void {
+    if (x < this.minX) this.minX = x; else if (x > this.maxX) this.maxX = x;
+    if (y < this.minY) this.minY = y; else if (y > this.maxY) this.maxY = y;
+  }
+}
+
+/** The predicted pieces of a motion, simulated again from its recorded start. */
+function predictedPieces(rec: SimRecord | undefined, pathEnd: Pose | undefined, before: Pose, robot: SimRobot): PathPiece[] {
+  const poses = new PoseBuffer(true);
+  poses.pose(rec?.state.t ?? 0, before.x, before.y, before.heading);
+  if (rec) simulateMotion(copyState(rec.state), rec.robot, rec.motion, undefined, poses);
+  poses.close();
+  const pieces = poses.length > 1 ? simplify(poses, 0, poses.length - 1, robot.turns) : [];
+  if (pathEnd && poses.length > 0) pieces.push(rigidPiece(poses.at(poses.length - 1), pathEnd, robot.turns));
+  return pieces;
 }
 
 /** The simulated motion a segment's statement commands, from the state it really starts in. */

@@ -2,7 +2,7 @@
 // times; and the checks that follow from them (wrap point, swept footprint,
 // walls, time limit, marks).
 import type {
-  Diagnostic, DiagnosticCode, DriveStmt, MarkStmt, PathPiece, PlanSetup, Point, Pose, Range,
+  Diagnostic, DiagnosticCode, DriveStmt, Fix, MarkStmt, PathPiece, PlanSetup, Point, Pose, Range,
   ResetYawStmt, RunResult, Segment, Severity, SquareStmt, StartStmt, TurnDirection, TurnShape, TurnStmt, WaitStmt,
 } from '../types';
 import { footprintOf, forwardVector, rightVector, rotatePose, wrapReading, type Footprint } from './frame';
@@ -12,8 +12,8 @@ import { MOTION_CAP_S } from '../sim/motion';
 import { squareUp, wallsOf } from './square';
 import { sweepPiece, overlapsAt, type SweepHit } from './sweep';
 import { fmt } from '../units/evaluate';
-import { predictRun, type RunPrediction } from '../sim/run';
-import { describeTuning, tuneGyroTurn, tuningFix, unstallGyroTurn } from '../sim/tune';
+import { predictedPath, predictRun, type RunPrediction } from '../sim/run';
+import { tuneGyroTurn, tuningFix, unstallGyroTurn } from '../sim/tune';
 
 export type EvaluatedMotion =
   | { stmt: StartStmt; at?: Point; heading?: number }
@@ -53,6 +53,9 @@ const RAD = Math.PI / 180;
 export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Diagnostic[]): RunResult[] {
   const robot = setup.robot;
   const footprint = footprintOf(robot);
+  /** How far any part of the footprint reaches from the axle midpoint. */
+  const reach = footprint.kind === 'circle' ? footprint.radius
+    : Math.hypot(footprint.length / 2 + Math.abs(footprint.axle), footprint.width / 2);
   const walls = wallsOf(setup.field, setup.obstacles);
   const { lo, hi } = setup.yawRange;
   const turns = setup.turns;
@@ -115,8 +118,11 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
     }
 
     // What the real robot does: every motion simulated in order.
+    const T0 = performance.now();
     const prediction = predictRun(segments, (seg) => motionOf.get(seg), setup, footprint, walls);
+    const T1 = performance.now();
     reportPrediction(prediction);
+    (globalThis as any).PROF = { predict: T1 - T0, report: performance.now() - T1, sweep: performance.now() - (globalThis as any).PROF_T };
 
     function solveMotion(m: EvaluatedMotion): void {
       const s = m.stmt;
@@ -233,32 +239,60 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
           }
           continue;
         }
-        // Overshoot past the stop band.
+        // Overshoot past the stop band. What helps most follows from how the turn arrives: at its
+        // floor (`min` decides the speed it coasts from), a wider stop band lets it coast onto the
+        // target; on its gain, a lower gain slows it sooner. The fixes, each with the simulation's
+        // result in its title, are worked out when asked for (a search of simulations per turn).
         if (stmt.kind !== 'turn') continue;
-        const stop = p.overshoot !== undefined ? (simStop(seg) ?? MOTION_DEFAULTS.turnStop) : MOTION_DEFAULTS.turnStop;
+        const stop = simStop(seg) ?? MOTION_DEFAULTS.turnStop;
         const current = currentTurnSettings(seg, stmt);
-        const options = tuneGyroTurn(seg);
-        const best = options[0];
-        report(stmt.range, 'warning', 'overshoot',
-          `The robot overshoots: it is predicted to end ${fmt(p.overshoot!, 1)}° past the target once the wheels run down, more than the ${fmt(stop)}° stop band (it arrives at ${fmt(p.peakRate, 0)}°/s at most and the motors take time to stop). ${best ? `What helps most: ${describeTuning(best, current)} (predicted: ${fmt(Math.abs(best.overshoot), 1)}° ${best.overshoot >= 0 ? 'past' : 'short of'} the target, ${fmt(best.duration, 2)} s).` : 'Lower `min`, `speed` or `gain`.'}`,
-          { at, ...(options.length ? { fixes: options.map((t, i) => tuningFix(t, stmt, current, i === 0)) } : {}) });
+        const floorBound = (current.gain / 100) * stop <= current.min;
+        const helps = floorBound
+          ? `widen the stop band (\`stop\`), so the power stops earlier and the robot coasts onto the target, or lower \`min\``
+          : 'lower `gain`, so the robot slows down sooner, or add `ramp`';
+        const d = report(stmt.range, 'warning', 'overshoot',
+          `The robot overshoots: it is predicted to end ${fmt(p.overshoot!, 1)}° past the target once the wheels run down, more than the ${fmt(stop)}° stop band (it turns at up to ${fmt(p.peakRate, 0)}°/s and the motors take ${fmt((robot.motorLag ?? 0) * 1000, 0)} ms to stop). What helps most: ${helps}; the quick fixes give values the simulation shows work.`,
+          { at });
+        const first = floorBound ? ['stop', 'min'] : ['gain', 'ramp'];
+        lazyFixes(d, () => {
+          const options = tuneGyroTurn(seg).sort((a, b) => Number(first.indexOf(b.option) >= 0) - Number(first.indexOf(a.option) >= 0));
+          return options.map((t, i) => tuningFix(t, stmt, current, i === 0));
+        });
       }
-      // The predicted path, where it leaves the planned one, checked like it.
+      // The predicted path, where it leaves the planned one, checked like it
+      // (against what the planned path of the same line does not already hit).
+      (globalThis as any).PROF_T = performance.now();
+      const hitOnLine = new Map<number, Set<string>>();
+      for (const d of diagnostics) {
+        if (d.code !== 'collision' && d.code !== 'off-field') continue;
+        const set = hitOnLine.get(d.range.start.line) ?? new Set<string>();
+        set.add(d.code === 'off-field' ? 'field' : d.message);
+        hitOnLine.set(d.range.start.line, set);
+      }
       for (let i = 0; i < segments.length; i++) {
         const seg = segments[i];
-        const path = seg.predicted?.path;
-        if (!path || seg.kind === 'square') continue;
+        const bounds = seg.predicted?.bounds;
+        if (!bounds || seg.kind === 'square') continue;
         const stmt = stmtOf(seg);
         if (!stmt) continue;
-        const pressedAgainst = new Set([squareWall.get(seg), i > 0 ? squareWall.get(segments[i - 1]) : undefined]);
-        const already = new Set(diagnostics.filter((d) => (d.code === 'collision' || d.code === 'off-field') && d.range.start.line === seg.line).map((d) => d.code === 'off-field' ? 'field' : d.message));
+        const wallNow = squareWall.get(seg);
+        const wallBefore = i > 0 ? squareWall.get(segments[i - 1]) : undefined;
+        // Broad phase: only what lies near the box the robot passes through is swept against.
+        // (Samples are at most a control-loop step apart: the arcs between them bulge far less than BOUNDS_SLACK.)
+        const grow = reach + BOUNDS_SLACK;
+        const box = { minX: bounds.minX - grow, minY: bounds.minY - grow, maxX: bounds.maxX + grow, maxY: bounds.maxY + grow };
+        const obstacles = setup.obstacles.filter((o) => o !== wallNow && o !== wallBefore && nearBox(o, box));
+        const field = setup.field && !(box.minX > 0 && box.minY > 0 && box.maxX < setup.field.width && box.maxY < setup.field.height) ? setup.field : undefined;
+        if (obstacles.length === 0 && !field) continue;
+        const path = predictedPath(seg) ?? [];
+        const already = hitOnLine.get(seg.line);
         const seen = new Set<string>();
         for (const piece of path) {
-          for (const hit of sweepPiece(piece, footprint, turns, setup.obstacles.filter((o) => !pressedAgainst.has(o)), setup.field)) {
+          for (const hit of sweepPiece(piece, footprint, turns, obstacles, field)) {
             const key = hit.kind === 'field' ? 'field' : `o:${hit.obstacle?.name}`;
             if (seen.has(key)) continue;
             seen.add(key);
-            if (hit.kind === 'field' ? already.has('field') : [...already].some((m) => m.includes(`"${hit.obstacle!.name}"`))) continue;
+            if (already && (hit.kind === 'field' ? already.has('field') : [...already].some((m) => m.includes(`"${hit.obstacle!.name}"`)))) continue;
             const off = seg.predicted!.end;
             const drift = Math.hypot(off.x - seg.end.x, off.y - seg.end.y);
             const what = hit.kind === 'field' ? 'leaves the field' : `hits the ${hit.obstacle!.kind} "${hit.obstacle!.name}"`;
@@ -681,6 +715,29 @@ interface PieceCheck {
   name: string;
   obstacles: readonly Obstacle[];
   field?: PlanSetup['field'];
+}
+
+/** Margin (mm) around the sampled positions of a predicted motion for the quick test. */
+const BOUNDS_SLACK = 5;
+
+interface Box { minX: number; minY: number; maxX: number; maxY: number }
+
+function nearBox(o: Obstacle, b: Box): boolean {
+  if (o.kind === 'circle' && o.center && o.radius !== undefined) {
+    return o.center.x + o.radius >= b.minX && o.center.x - o.radius <= b.maxX && o.center.y + o.radius >= b.minY && o.center.y - o.radius <= b.maxY;
+  }
+  if (o.min && o.max) return o.max.x >= b.minX && o.min.x <= b.maxX && o.max.y >= b.minY && o.min.y <= b.maxY;
+  return true;
+}
+
+/** Fixes worked out on first use (the editor asks for those of the lines in view; `veer fix` and SARIF for all). */
+function lazyFixes(d: Diagnostic, make: () => Fix[]): void {
+  let made: Fix[] | undefined;
+  Object.defineProperty(d, 'fixes', {
+    enumerable: true, configurable: true,
+    get: () => (made ??= make()),
+    set: (v: Fix[] | undefined) => { made = v; },
+  });
 }
 
 /** How far (mm) a robot flush against a wall is lifted off it to tell touching from pressing in. */

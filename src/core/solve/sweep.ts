@@ -104,7 +104,8 @@ export function sweepPiece(piece: PathPiece, footprint: Footprint, turns: TurnDi
     if (s === NO_HIT) continue;
     hits.push({ kind: 'obstacle', obstacle: o, at: contactPoint(shapeAt(start, motion, s), obstacle), pose: poseAt(piece, motion, s, turns) });
   }
-  if (field) {
+  // A motion whose bounding circle lies inside the field cannot leave it.
+  if (field && !(bound.x - bound.r > TOUCH && bound.y - bound.r > TOUCH && bound.x + bound.r < field.width - TOUCH && bound.y + bound.r < field.height - TOUCH)) {
     const outside = farthestOutside(start, motion, field);
     if (outside) hits.push({ kind: 'field', at: outside });
   }
