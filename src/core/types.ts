@@ -361,6 +361,8 @@ export interface Segment {
   end: Pose;
   /** Signed angle turned, degrees, positive in the file's `turns` direction. */
   turned: number;
+  /** A `hold` drive's change of heading as the statement asks for it (its curve may end a little short of it). */
+  asked?: number;
   /** Yaw readings (wrapped into the sensor range) before and after. */
   yawStart: number;
   yawEnd: number;

@@ -3,6 +3,7 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import Ajv2020 from 'ajv/dist/2020';
 import { runCli } from '../../src/cli/main';
+import type { JsonDocument } from '../../src/core/report';
 
 // The JSON the command line prints, validated against the schemas in schema/
 // with Ajv (an independent, general-purpose JSON Schema validator), so robot
@@ -45,15 +46,17 @@ describe('JSON schemas', () => {
 
   it('check --json --trace adds each motion\'s samples, ending where the prediction says', () => {
     const plan = join(root, 'test', 'fixtures', 'yaw-lab.veer');
-    const doc = JSON.parse(run(['check', '--json', '--trace', plan]));
+    const doc = JSON.parse(run(['check', '--json', '--trace', plan])) as JsonDocument;
     assert.ok(checkSchema(doc), ajv.errorsText(checkSchema.errors));
-    const turn = doc.runs[0].segments.find((s: { sensing?: string; kind: string; trace?: unknown[] }) => s.kind === 'turn' && s.sensing === 'gyro' && s.trace);
+    const turn = doc.runs[0].segments.find((s) => s.kind === 'turn' && s.sensing === 'gyro' && s.trace)!;
     assert.ok(turn, 'a gyro turn with a trace');
-    const last = turn.trace[turn.trace.length - 1];
+    const trace = turn.trace!;
+    const predicted = turn.predicted!;
+    const last = trace[trace.length - 1];
     // The last row is the moment the code moves on: the prediction's end (both rounded to 0.001).
-    assert.equal(last.t_s, Math.round((turn.predicted.start_s + turn.predicted.duration_s) * 1000) / 1000);
-    assert.equal(last.yaw_deg, turn.predicted.yaw_end_deg);
-    assert.ok(turn.trace.every((r: { target_deg: number | null }) => r.target_deg !== null));
+    assert.equal(last.t_s, Math.round((predicted.start_s + predicted.duration_s!) * 1000) / 1000);
+    assert.equal(last.yaw_deg, predicted.yaw_end_deg);
+    assert.ok(trace.every((r) => r.target_deg !== null));
   });
 
   it('the schemas reject what they should (a heading of 360, a missing field)', () => {

@@ -1,4 +1,5 @@
 import { strict as assert } from 'node:assert';
+import { PATH_TOLERANCE } from '../../src/core/fix/prove';
 import fc from 'fast-check';
 import { checkPlan, fewestResets } from '../../src/core';
 import type { CheckResult, Pose, TextEdit } from '../../src/core/types';
@@ -30,9 +31,10 @@ function path(result: CheckResult): Pose[] {
   return result.runs.flatMap((r) => r.segments.filter((s) => s.kind !== 'reset').map((s) => s.end));
 }
 
+/** The same path within what a fix's proof allows (PATH_TOLERANCE: targets are written with six decimals). */
 function samePath(a: Pose[], b: Pose[]): boolean {
   return a.length === b.length && a.every((p, i) =>
-    Math.abs(p.x - b[i].x) < 1e-6 && Math.abs(p.y - b[i].y) < 1e-6 && Math.abs(p.heading - b[i].heading) < 1e-9);
+    Math.hypot(p.x - b[i].x, p.y - b[i].y) <= PATH_TOLERANCE.mm && Math.abs(p.heading - b[i].heading) <= PATH_TOLERANCE.deg);
 }
 
 function insertedResets(edits: readonly TextEdit[]): number {

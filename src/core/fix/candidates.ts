@@ -194,8 +194,9 @@ class FixContext {
     // Turning onto a target outside the range (or at its edge) first would itself cross the wrap point.
     if (this.yaw.inRange(hold) && !this.nearEdge(hold) && Math.abs(at.item.change) <= 180) {
       fixes.push({
-        title: `Turn onto ${writeNumber(hold)}° first: insert "turn to ${writeNumber(hold)}" before the drive`,
+        title: `Turn onto ${writeNumber(hold)}° first: insert "turn to ${writeNumber(hold)}" before the drive (the robot then turns in place and drives straight instead of swerving)`,
         edits: [insertLinesBefore(stmt.line, [`${this.indent(stmt)}turn to ${writeNumber(hold)}`], this.eol)],
+        changesPath: true,
       });
     }
     return fixes;

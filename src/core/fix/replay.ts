@@ -60,7 +60,7 @@ export function readingItems(run: RunResult, stmtAt: (line: number) => MotionStm
     const stmt = stmtAt(seg.line);
     if (!stmt || (stmt.kind !== 'turn' && stmt.kind !== 'drive')) return;
     const absolute = stmt.kind === 'drive' || stmt.to !== undefined;
-    items.push({ index, stmt, absolute, change: seg.turned, target: seg.yawTarget, gyro: seg.sensing === 'gyro' });
+    items.push({ index, stmt, absolute, change: seg.asked ?? seg.turned, target: seg.yawTarget, gyro: seg.sensing === 'gyro' });
   });
   return items;
 }

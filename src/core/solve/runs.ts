@@ -8,7 +8,8 @@ import type {
 import { footprintOf, forwardVector, rightVector, rotatePose, wrapReading, type Footprint } from './frame';
 import { shortWay, YawReadings } from './readings';
 import { encoderTurnTime, gyroTurnTime, profileTime } from './timing';
-import { MOTION_CAP_S } from '../sim/motion';
+import { MOTION_CAP_S, restState, simRobot, simulateMotion } from '../sim/motion';
+import { PoseBuffer, simplify } from '../sim/path';
 import { squareUp, wallsOf } from './square';
 import { sweepPiece, overlapsAt, type SweepHit } from './sweep';
 import { fmt } from '../units/evaluate';
@@ -328,6 +329,8 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       const path: PathPiece[] = [];
       let yawTarget: number | undefined;
       let turned = 0;
+      /** A `hold ... step` that changes the heading: its curve comes from the controller simulation. */
+      let stepFrom: { meant: number; jump: number } | undefined;
       if (s.hold && dm.hold !== undefined) {
         yawTarget = dm.hold;
         const holdRange = s.optionRanges.hold ?? s.range;
@@ -335,12 +338,11 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         const jump = yaw.absoluteChange(dm.hold, from.heading); // the change of heading the hold asks for
         checkTarget(dm.hold, jump, holdRange, s, 'hold', from);
         if (Math.abs(jump) > MOTION_DEFAULTS.headingJump) {
+          // With or without `step` the code steers the same way: the path is the hold's curve.
+          stepFrom = { meant, jump };
           if (!s.step) {
             report(holdRange, 'warning', 'heading-jump',
               `The drive starts with a sudden ${fmt(Math.abs(jump))}° swerve ${sideOf(jump)}: it holds the yaw reading at ${fmt(dm.hold)}°, but the reading is ${fmt(meant)}° when it starts. Add \`step\` if the change of heading is meant, or turn onto ${fmt(dm.hold)}° first.`);
-          } else {
-            report(holdRange, 'information', 'approximate',
-              'The curved path of a `hold ... step` drive comes from the controller simulation; until then it is drawn as a turn in place followed by the straight drive.');
           }
           turned = jump;
           const turnedPose = rotatePose(from, from, jump, turns);
@@ -380,10 +382,62 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         if (turned !== 0) seg.duration += Math.abs(turned) * RAD * ((robot.track ?? 0) / 2) / Math.max(v, 1e-9);
       } else seg.complete = false;
       if (s.gain && dm.gain !== undefined && dm.gain <= 0) report(s.optionRanges.gain ?? s.range, 'error', 'setup', 'the gain must be greater than zero.');
+      let finalPose = end;
+      if (stepFrom && dm.hold !== undefined) {
+        const curve = vMax !== undefined && seg.power !== undefined && seg.power > 0 && (dm.gain ?? MOTION_DEFAULTS.driveGain) > 0
+          ? stepCurve(from, stepFrom.meant, stepFrom.meant + stepFrom.jump, dist, seg.power, vMax, dm.gain ?? MOTION_DEFAULTS.driveGain, dm.ramp)
+          : undefined;
+        if (curve) {
+          seg.asked = stepFrom.jump;
+          seg.path = curve.path;
+          seg.end = finalPose = curve.end;
+          seg.turned = curve.end.heading - from.heading;
+          seg.yawEnd = reading(curve.end);
+          seg.duration = curve.duration;
+        } else {
+          report(s.optionRanges.hold ?? s.range, 'information', 'approximate',
+            'The curved path of this `hold ... step` drive needs the wheel, the track and a speed above zero; until they are known it is drawn as a turn in place followed by the straight drive.');
+        }
+      }
       segments.push(seg);
       // A drive whose length could not be read has no path to check.
       if (dm.distance !== undefined) sweep(seg, s.range, everything('drive'));
-      return end;
+      return finalPose;
+    }
+
+    /**
+     * The planned curve of a `hold ... step` drive: the heading hold simulated
+     * on an ideal robot (no lag, no stall, no delay, an exact sensor), from
+     * the reading the plan means to the one it asks for (spec section 8).
+     */
+    function stepCurve(from: Pose, meant: number, hold: number, dist: number, power: number, vMax: number, gain: number, ramp: number | undefined):
+      { path: PathPiece[]; end: Pose; duration: number } | undefined {
+      const track = robot.effectiveTrack ?? robot.track;
+      if (track === undefined || robot.wheelDiameter === undefined || dist === 0) return undefined;
+      // Both readings inside the ideal sensor's range (a change of heading of up to 315°).
+      const ideal = simRobot({
+        fullSpeed: vMax, lag: 0, stall: 0, mismatch: 1, track, sample: setup.gyro.sample, delay: 0, scale: 1, turns,
+        yawLo: Math.min(meant, hold) - 45, circumference: Math.PI * robot.wheelDiameter, gear: robot.gear ?? 1,
+      });
+      const state = restState(from.x, from.y, from.heading);
+      state.zero = from.heading - meant;
+      const poses = new PoseBuffer(true);
+      poses.pose(0, from.x, from.y, from.heading);
+      const out = simulateMotion(state, ideal, { kind: 'hold', target: hold, gain: gain / 100, distance: dist, power, ...(ramp !== undefined && ramp > 0 ? { accel: ramp } : {}) }, undefined, poses);
+      poses.close();
+      if (!out.finished) return undefined;
+      const path = simplify(poses, 0, poses.length - 1, turns);
+      let end: Pose = { x: state.x, y: state.y, heading: state.h };
+      // The hold approaches its heading without ever quite reaching it: the last hundredths of a
+      // degree (far below what the sensor tells apart) are drawn as a turn in place onto it, so the
+      // plan's later readings stay the round numbers it means.
+      const rest = meant + (end.heading - from.heading) - hold;
+      if (Math.abs(rest) < HOLD_SNAP_DEG && rest !== 0) {
+        const onto = rotatePose(end, end, -rest, turns);
+        path.push({ type: 'rotate', from: end, to: onto, center: { x: end.x, y: end.y }, turned: -rest });
+        end = onto;
+      }
+      return { path, end, duration: state.t };
     }
 
     function solveTurn(tm: Extract<EvaluatedMotion, { stmt: TurnStmt }>, from: Pose): Pose {
@@ -716,6 +770,9 @@ interface PieceCheck {
   obstacles: readonly Obstacle[];
   field?: PlanSetup['field'];
 }
+
+/** A `hold ... step` curve ending this close to its heading (degrees) is taken to end on it. */
+const HOLD_SNAP_DEG = 0.1;
 
 /** Margin (mm) around the sampled positions of a predicted motion for the quick test. */
 const BOUNDS_SLACK = 5;
