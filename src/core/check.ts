@@ -23,6 +23,8 @@ export interface CheckOptions {
   cache?: ExpressionCache;
   /** Called now and then with the fraction done, for progress on long files. */
   onProgress?: (fraction: number) => void;
+  /** Run the controller simulation (default true); without it no motion has `predicted` and gyro turns keep the closed-form time. */
+  simulate?: boolean;
 }
 
 /** Plans longer than this are refused with one diagnostic rather than checked. */
@@ -391,6 +393,7 @@ function checkPlanUnguarded(text: string, options: CheckOptions): CheckResult {
           nameList = undefined;
           names[s.name] = { line: s.line, range: s.nameRange, ...raw.info, display: raw.info?.display ?? '?' };
           if (raw.value !== undefined) ctx.scope.set(s.name, raw.value);
+          if (raw.info?.dimension === 'fraction') (ctx.percentNames ??= new Set()).add(s.name);
         }
         break;
       }
@@ -417,7 +420,7 @@ function checkPlanUnguarded(text: string, options: CheckOptions): CheckResult {
 
   if (robot.track !== undefined && robot.effectiveTrack === undefined) robot.effectiveTrack = robot.track;
 
-  const solved = solveRuns(runs, setup, diagnostics);
+  const solved = solveRuns(runs, setup, diagnostics, { simulate: options.simulate !== false });
   options.onProgress?.(1);
 
   diagnostics.sort(compareDiagnostics);

@@ -170,3 +170,13 @@ describe('evaluate: messages for mixed kinds', () => {
     assert.match(r.diagnostics[0].message, /quantities of different kinds/);
   });
 });
+
+describe('a let name holding a percentage', () => {
+  it('stays a percentage where a power is expected (`let top = 60%` then `speed top` is 60 %, not 0.6 %)', () => {
+    const r = checkPlan(['wheel 56 mm', 'track 120 mm', 'let top = 60%', 'let two = 2', 'start (0, 0) heading 0',
+      'drive 100 speed top', 'drive 100 speed top - 10%', 'drive 100 speed two', 'drive 100 speed 3% + 1%'].join('\n'));
+    // The values as written: 60 %, 60 % − 10 % = 50 % (a percent is always a hundredth, never a share of
+    // what stands before it), a bare 2 read as 2 % (docs/language.md, bare numbers), and 3 % + 1 % = 4 %.
+    assert.deepEqual(r.runs[0].segments.slice(1).map((s) => Math.round(s.power! * 1e6) / 1e6), [0.6, 0.5, 0.02, 0.04]);
+  });
+});

@@ -69,6 +69,20 @@ export interface RunPrediction {
   /** Predicted seconds (Infinity when a motion never ends); undefined when nothing could be simulated. */
   duration?: number;
   events: MotionEvent[];
+  /** The first segment left unsimulated because the check's budget ran out. */
+  budgetStop?: Segment;
+}
+
+/**
+ * Simulated time one check spends at most, over all its runs, seconds: about
+ * 25,000 typical motions. A plan longer than that (a generated one, or a
+ * hostile one) is predicted up to there, so that a check never takes long.
+ */
+export const SIMULATION_BUDGET_S = 20_000;
+
+/** What is left of a check's simulation budget, shared by its runs. */
+export interface SimBudget {
+  seconds: number;
 }
 
 /**
@@ -78,7 +92,7 @@ export interface RunPrediction {
  */
 export function predictRun(
   segments: readonly Segment[], motionOf: (seg: Segment) => EvaluatedMotion | undefined, setup: PlanSetup,
-  footprint: Footprint, walls: readonly Wall[],
+  footprint: Footprint, walls: readonly Wall[], budget: SimBudget = { seconds: SIMULATION_BUDGET_S },
 ): RunPrediction {
   const robot = simRobotOf(setup);
   const events: MotionEvent[] = [];
@@ -95,6 +109,10 @@ export function predictRun(
     }
     if (!state) return { events };
     if (!seg.complete && seg.kind !== 'mark' && seg.kind !== 'reset') return { events, duration: undefined };
+    if (state.t >= budget.seconds) {
+      budget.seconds = 0;
+      return { events, budgetStop: seg };
+    }
     const before: Pose = { x: state.x, y: state.y, heading: state.h };
     const startT = state.t;
     bounds.reset(state.x, state.y);
@@ -154,9 +172,13 @@ export function predictRun(
       lazyPaths.set(seg, { rec: records.get(seg), pathEnd, before, robot });
     }
     seg.predicted = p;
-    if (!outcome.finished) return { events, duration: Infinity };
+    if (!outcome.finished) {
+      budget.seconds -= state.t;
+      return { events, duration: Infinity };
+    }
   }
   const last = [...segments].reverse().find((s) => s.predicted);
+  budget.seconds -= state?.t ?? 0;
   return { events, duration: last?.predicted ? last.predicted.start + last.predicted.duration : undefined };
 }
 

@@ -13,7 +13,7 @@ import { PoseBuffer, simplify } from '../sim/path';
 import { squareUp, wallsOf } from './square';
 import { sweepPiece, overlapsAt, type SweepHit } from './sweep';
 import { fmt } from '../units/evaluate';
-import { predictedPath, predictRun, type RunPrediction } from '../sim/run';
+import { predictedPath, predictRun, SIMULATION_BUDGET_S, type RunPrediction, type SimBudget } from '../sim/run';
 import { tuneGyroTurn, tuningFix, unstallGyroTurn } from '../sim/tune';
 
 export type EvaluatedMotion =
@@ -51,7 +51,7 @@ export const MOTION_DEFAULTS = {
 
 const RAD = Math.PI / 180;
 
-export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Diagnostic[]): RunResult[] {
+export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Diagnostic[], options: { simulate?: boolean } = {}): RunResult[] {
   const robot = setup.robot;
   const footprint = footprintOf(robot);
   /** How far any part of the footprint reaches from the axle midpoint. */
@@ -93,6 +93,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
     robot.wheelDiameter === undefined ? undefined : (travel / (Math.PI * robot.wheelDiameter)) * 360;
 
   const results: RunResult[] = [];
+  const budget: SimBudget = { seconds: SIMULATION_BUDGET_S };
   for (const input of inputs) {
     const segments: Segment[] = [];
     let pose: Pose | undefined;
@@ -120,7 +121,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
 
     // What the real robot does: every motion simulated in order.
     const T0 = performance.now();
-    const prediction = predictRun(segments, (seg) => motionOf.get(seg), setup, footprint, walls);
+    const prediction: RunPrediction = options.simulate === false ? { events: [] } : predictRun(segments, (seg) => motionOf.get(seg), setup, footprint, walls, budget);
     const T1 = performance.now();
     reportPrediction(prediction);
     (globalThis as any).PROF = { predict: T1 - T0, report: performance.now() - T1, sweep: performance.now() - (globalThis as any).PROF_T };
@@ -206,16 +207,25 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
      */
     function reportPrediction(pr: RunPrediction): void {
       const crossed = new Set(diagnostics.filter((d) => d.code === 'wrap-cross').map((d) => d.range.start.line));
+      // A line with an error of its own (a speed of 0 %, a negative gain) is not reported again for what follows from it.
+      const erred = new Set(diagnostics.filter((d) => d.severity === 'error').map((d) => d.range.start.line));
       for (const seg of segments) {
         // The simulation gives a gyro turn's time (spec section 8); the closed form stays where it cannot.
         const p = seg.predicted;
         if (seg.kind === 'turn' && seg.sensing === 'gyro' && p && Number.isFinite(p.duration) && !p.capped && !p.stalled) seg.duration = p.duration;
       }
+      if (pr.budgetStop) {
+        const at = motionOf.get(pr.budgetStop)?.stmt;
+        if (at) {
+          report(at.range, 'information', 'approximate',
+            `The prediction of the real robot stops here: this plan is longer than the ${fmt(SIMULATION_BUDGET_S / 3600, 1)} hours of robot time each check simulates, so the motions from this line on have no predicted path, time or findings.`);
+        }
+      }
       for (const ev of pr.events) {
         const seg = ev.seg;
         const p = seg.predicted!;
         const stmt = stmtOf(seg);
-        if (!stmt) continue;
+        if (!stmt || erred.has(seg.line)) continue;
         const at = { x: p.end.x, y: p.end.y };
         if (ev.kind === 'capped') {
           if (crossed.has(seg.line)) continue; // reported once, at the crossing

@@ -151,13 +151,19 @@ function refuseText(text: string): string | undefined {
   return undefined;
 }
 
+/** A number written with a percent sign (`60%`, `2.5 %`, `1e1%`). */
+const PERCENT_LITERAL = /((?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*%/g;
+
 function compileExpression(text: string): Compiled | CompileError {
   const { math, parseExpression } = getSandbox();
   const refused = refuseText(text);
   if (refused) return { ok: false, message: refused };
   let node: MathNode;
+  // A percent sign after a number is that number over 100, always: math.js
+  // would read `a - 10%` as 10 % *of a* and `3% + 1%` as a remainder.
+  const percentText = text.replace(PERCENT_LITERAL, '($1 / 100)');
   try {
-    node = parseExpression(text);
+    node = parseExpression(percentText);
   } catch (e) {
     return { ok: false, message: (e as Error).message };
   }
@@ -166,7 +172,7 @@ function compileExpression(text: string): Compiled | CompileError {
   const freeNames = new Set<string>();
   // Names written right after a number (`10 furlongs`): read as units.
   const unitLike = new Set<string>();
-  let percent = false;
+  let percent = percentText !== text;
   // `min` is a function and a unit: where it is not called, it is the unit
   // (so `deg/min` works).
   const transformed = node.transform((n: MathNode, path: string) => {
@@ -269,6 +275,8 @@ export interface EvalContext {
    * same few expressions (`lane * 2`, `90`) many times.
    */
   memo?: Map<string, EvalOutcome>;
+  /** `let` names bound to a percentage (`let top = 60%`): an expression of them is a percentage too. */
+  percentNames?: Set<string>;
 }
 
 export type EvalOutcome =
@@ -363,7 +371,7 @@ function evaluateUncached(cache: ExpressionCache, text: string, expected: Expect
     return { ok: false, code: 'unit', message: `\`${showText(text)}\` is not a single number or quantity` };
   }
   let dim = dimensionOf(raw);
-  if (dim === 'number' && compiled.percent) dim = 'fraction';
+  if (dim === 'number' && (compiled.percent || (ctx.percentNames?.size && compiled.freeNames.some((n) => ctx.percentNames!.has(n))))) dim = 'fraction';
   if (typeof raw === 'number' && !Number.isFinite(raw)) {
     return { ok: false, code: 'unit', message: `\`${showText(text)}\` is not a finite number` };
   }
