@@ -57,9 +57,10 @@ class PlanCodeActions implements vscode.CodeActionProvider {
       // the problems can lag a moment behind the ones just published.
       const shownFor = (d: core.Diagnostic) => context.diagnostics.find((shown) => shown.source === DIAGNOSTIC_SOURCE && sameDiagnostic(d, shown));
       for (const d of result.diagnostics) {
-        if (!d.fixes?.length) continue;
+        // The range first: some fixes are worked out only when asked for (a search of simulations).
         const shown = shownFor(d);
         if (!shown && !toRange(d.range).intersection(range)) continue;
+        if (!d.fixes?.length) continue;
         for (const fix of d.fixes) {
           if (!proven(analysis, fix, d)) continue;
           actions.push(toCodeAction(document.uri, fix, vscode.CodeActionKind.QuickFix, [shown ?? toDiagnostic(document.uri, d)]));

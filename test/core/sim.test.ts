@@ -1,65 +1,14 @@
 import { strict as assert } from 'node:assert';
-import { plantStep, wheelStep, type PlantParams, type PlantState } from '../../src/core/sim/plant';
-import { coastedHeading, restState, simRobot as simRobotOf, simulateMotion, MOTION_CAP_S, type GyroTurnMotion, type SimRobot } from '../../src/core/sim/motion';
+import { advancePlant, coastedHeading, restState, simRobot as simRobotOf, simulateMotion, MOTION_CAP_S, type GyroTurnMotion, type SimRobot } from '../../src/core/sim/motion';
 import { checkPlan } from '../../src/core';
 import { DIFFERS_DEG, DIFFERS_MM } from '../../src/core/sim/run';
 import fc from 'fast-check';
 import { profileTime } from '../../src/core/solve/timing';
 
-// The controller simulation's first pieces (issue 9), against results that
-// need no code of ours: the second-order step response of a proportional
-// turn, the coast of a first-order lag, and the closed form of a turn held at
-// its minimum power.
-
-const rest = (): PlantState => ({ pose: { x: 0, y: 0, heading: 0 }, vLeft: 0, vRight: 0, time: 0 });
-
-/** A robot whose spin turns at `degPerSecond` at full power: ω = 2v/b, so v = ω · b/2. */
-function plant(degPerSecond: number, extra: Partial<PlantParams> = {}): PlantParams {
-  const track = 120;
-  return { fullSpeed: (degPerSecond * Math.PI) / 180 * (track / 2), lag: 0.06, stall: 0, track, mismatch: 1, sample: 0.01, turns: 'clockwise', ...extra };
-}
-
-describe('simulation: the plant', () => {
-  it('a first-order lag released at speed w coasts w·τ further (the lag\'s impulse response integrates to τ)', () => {
-    const w = 200;
-    let v = w;
-    let travel = 0;
-    for (let k = 0; k < 2000; k++) {
-      const step = wheelStep(v, 0, 0.08, 0.001);
-      v = step.v;
-      travel += step.travel;
-    }
-    assert.ok(Math.abs(travel - w * 0.08) < 1e-6, `${travel}`);
-  });
-
-  it('the zero-order-hold step is exact: one large step equals many small ones', () => {
-    const one = wheelStep(50, 300, 0.08, 0.1);
-    let v = 50;
-    let travel = 0;
-    for (let k = 0; k < 10000; k++) {
-      const s = wheelStep(v, 300, 0.08, 0.1 / 10000);
-      v = s.v;
-      travel += s.travel;
-    }
-    assert.ok(Math.abs(one.v - v) < 1e-9 && Math.abs(one.travel - travel) < 1e-9);
-  });
-
-  it('below the stall power the wheels do not move', () => {
-    const p = plant(300, { stall: 0.05 });
-    const s = plantStep(rest(), 0.04, 0.04, p);
-    assert.deepEqual([s.vLeft, s.vRight, s.pose.x, s.pose.y], [0, 0, 0, 0]);
-  });
-
-  it('equal wheel travel drives straight along the heading; opposite travel spins in place', () => {
-    const p = plant(300, { lag: 0 });
-    const straight = plantStep({ ...rest(), pose: { x: 0, y: 0, heading: 90 } }, 0.5, 0.5, p);
-    assert.ok(Math.abs(straight.pose.x - 0.5 * p.fullSpeed * p.sample) < 1e-12 && Math.abs(straight.pose.y) < 1e-12);
-    const spin = plantStep(rest(), 0.5, -0.5, p);
-    assert.ok(Math.hypot(spin.pose.x, spin.pose.y) < 1e-12);
-    // 150 deg/s (half of 300) for 10 ms: 1.5°.
-    assert.ok(Math.abs(spin.pose.heading - 1.5) < 1e-9);
-  });
-});
+// The controller simulation, against results that need no code of ours: the
+// second-order step response of a proportional turn, the coast of a
+// first-order lag, the closed form of a turn held at its minimum power, RK4 on
+// the wheel equations, and convergence to the planned path.
 
 /** A robot whose spin turns at `degPerSecond` at full power (ω = 2v/b), as the run simulation sees it. */
 function simRobot(degPerSecond: number, extra: Partial<Omit<SimRobot, 'decay' | 'decayLong' | 'longStep'>> = {}): SimRobot {
@@ -72,6 +21,47 @@ function simRobot(degPerSecond: number, extra: Partial<Omit<SimRobot, 'decay' | 
 
 const spin = (target: number, extra: Partial<GyroTurnMotion> = {}): GyroTurnMotion =>
   ({ kind: 'gyro-turn', target, gain: 0.01, min: 0.1, power: 0.5, stop: 1, ramp: false, shareL: 1, shareR: -1, ...extra });
+
+describe('simulation: the plant', () => {
+  it('a first-order lag released at speed w coasts w·τ further (the lag\'s impulse response integrates to τ)', () => {
+    const r = simRobot(300, { lag: 0.08 });
+    const s = restState(0, 0, 0);
+    s.vL = s.vR = 200; // driving straight at 200 mm/s, then no power
+    for (let k = 0; k < 2000; k++) advancePlant(s, r, 0, 0, 0.001);
+    assert.ok(Math.abs(s.y - 200 * 0.08) < 1e-6, `${s.y}`);
+  });
+
+  it('the zero-order-hold step is exact: one large step equals many small ones', () => {
+    const r = simRobot(300, { lag: 0.08 });
+    const one = restState(0, 0, 0);
+    one.vL = one.vR = 50;
+    const u = 300 / r.fullSpeed; // a command of 300 mm/s
+    advancePlant(one, r, u, u, 0.1);
+    const many = restState(0, 0, 0);
+    many.vL = many.vR = 50;
+    for (let k = 0; k < 10000; k++) advancePlant(many, r, u, u, 0.1 / 10000);
+    assert.ok(Math.abs(one.vL - many.vL) < 1e-9 && Math.abs(one.y - many.y) < 1e-9, `${one.y} vs ${many.y}`);
+  });
+
+  it('below the stall power the wheels do not move', () => {
+    const r = simRobot(300, { stall: 0.05 });
+    const s = restState(0, 0, 0);
+    advancePlant(s, r, 0.04, 0.04, 0.01);
+    assert.deepEqual([s.vL, s.vR, s.x, s.y], [0, 0, 0, 0]);
+  });
+
+  it('equal wheel travel drives straight along the heading; opposite travel spins in place', () => {
+    const r = simRobot(300, { lag: 0 });
+    const straight = restState(0, 0, 90);
+    advancePlant(straight, r, 0.5, 0.5, 0.01);
+    assert.ok(Math.abs(straight.x - 0.5 * r.fullSpeed * 0.01) < 1e-12 && Math.abs(straight.y) < 1e-12);
+    const spin = restState(0, 0, 0);
+    advancePlant(spin, r, 0.5, -0.5, 0.01);
+    assert.ok(Math.hypot(spin.x, spin.y) < 1e-12);
+    // 150 deg/s (half of 300) for 10 ms: 1.5°.
+    assert.ok(Math.abs(spin.h - 1.5) < 1e-9);
+  });
+});
 
 describe('simulation: gyro turns', () => {
   it('a linear proportional turn overshoots as the second-order formula says (Ogata, Modern Control Engineering)', () => {

@@ -135,6 +135,11 @@ export type SimMotion = EncoderMotion | GyroTurnMotion | HoldDriveMotion | WaitM
  * power, and only the pose's arc per step is approximate.
  */
 export const ENCODER_STEPS = 4;
+/** Wheel speeds in the ratio of their commands within this share (of the commands squared) move on one arc. */
+const STEADY_RATIO = 1e-4;
+/** How far (mm) an arc step may bulge off its chord, and how much it may turn (degrees). */
+export const STEADY_BULGE = 2;
+const STEADY_DEG = 30;
 
 /** The lowest power a ramped drive commands (or its top power when lower), so that it never creeps. */
 export const RAMP_FLOOR = 0.1;
@@ -183,10 +188,10 @@ function effective(u: number, stall: number): number {
  * exact first-order response, then the exact arc of the two travels.
  * Returns the two travels in `out`.
  */
-function advance(s: SimState, r: SimRobot, uL: number, uR: number, dt: number, out: { sL: number; sR: number }, regulated = false): void {
+function advance(s: SimState, r: SimRobot, uL: number, uR: number, dt: number, out: { sL: number; sR: number }, regulated = false, decay = -1): void {
   const cL = (regulated ? uL : effective(uL, r.stall)) * r.fullSpeed;
   const cR = (regulated ? uR : effective(uR, r.stall)) * r.fullSpeed * r.mismatch;
-  const a = decayOf(r, dt);
+  const a = decay >= 0 ? decay : decayOf(r, dt);
   const g = r.lag * (1 - a);
   const sL = g * s.vL + cL * (dt - g);
   const sR = g * s.vR + cR * (dt - g);
@@ -207,6 +212,13 @@ function advance(s: SimState, r: SimRobot, uL: number, uR: number, dt: number, o
   s.t += dt;
   out.sL = sL;
   out.sR = sR;
+}
+
+/** One plant step of `dt` with wheel powers uL, uR held (for tests and tools; the motion loops call `advance`). */
+export function advancePlant(s: SimState, r: SimRobot, uL: number, uR: number, dt: number): { sL: number; sR: number } {
+  const out = { sL: 0, sR: 0 };
+  advance(s, r, uL, uR, dt, out);
+  return out;
 }
 
 /** Travel of one wheel over `dt` from speed v under command c (mm/s), exact. */
@@ -303,51 +315,78 @@ function runEncoders(s: SimState, r: SimRobot, m: EncoderMotion, trace?: TraceSi
   const out = { sL: 0, sR: 0 };
   let peak = 0;
   const floor = Math.min(RAMP_FLOOR, m.power);
-  const held = m.accel === undefined && m.rampMin === undefined;
+  // Locals, so that the loop reads no optional field of the motion.
+  const accel = m.accel !== undefined && m.accel > 0 ? m.accel : 0;
+  const rampMin = m.rampMin ?? -1;
+  const power = m.power;
+  const left = m.left;
+  const right = m.right;
+  const held = accel === 0 && rampMin < 0;
+  const tracing = trace !== undefined;
   while (!(doneL && doneR)) {
     if (s.t - start >= MOTION_CAP_S) return { finished: false, stalled: false, capped: true, peakRate: peak };
     // The outer wheel's power now.
-    const progress = Math.max(Math.abs(encL) / (Math.abs(m.left) || Infinity), Math.abs(encR) / (Math.abs(m.right) || Infinity));
-    let p = m.power;
-    if (m.accel !== undefined && m.accel > 0) {
-      const remaining = Math.max(0, outer * (1 - progress));
-      const v = Math.min(m.power * r.fullSpeed, m.accel * (s.t - start) + floor * r.fullSpeed, Math.sqrt(2 * m.accel * remaining) + floor * r.fullSpeed);
-      p = v / r.fullSpeed;
-    } else if (m.rampMin !== undefined) {
-      p = m.rampMin + (m.power - m.rampMin) * Math.min(1, 2 * progress, 2 * (1 - progress));
-      p = Math.max(m.rampMin, Math.min(m.power, p));
+    let p = power;
+    if (!held) {
+      const progress = Math.max(left !== 0 ? Math.abs(encL / left) : 0, right !== 0 ? Math.abs(encR / right) : 0);
+      if (accel > 0) {
+        const remaining = Math.max(0, outer * (1 - progress));
+        const v = Math.min(power * r.fullSpeed, accel * (s.t - start) + floor * r.fullSpeed, Math.sqrt(2 * accel * remaining) + floor * r.fullSpeed);
+        p = v / r.fullSpeed;
+      } else {
+        p = rampMin + (power - rampMin) * Math.min(1, 2 * progress, 2 * (1 - progress));
+        p = Math.max(rampMin, Math.min(power, p));
+      }
     }
     // The motors' own regulation turns each wheel at its share of the power; below the stall power nothing moves.
     const moving = Math.abs(p) >= r.stall;
     const uL = doneL || !moving ? 0 : shareL * p;
     const uR = doneR || !moving ? 0 : shareR * p;
-    if (trace) trace.row(s, readingOf(s, r), null, uL, uR);
+    if (tracing) trace.row(s, readingOf(s, r), null, uL, uR);
     if (!moving && Math.abs(s.vL) < REST_SPEED && Math.abs(s.vR) < REST_SPEED) {
       return { finished: false, stalled: true, capped: false, peakRate: peak };
     }
     // Does a wheel reach its target within this sample?
     const cL = uL * r.fullSpeed;
     const cR = uR * r.fullSpeed * r.mismatch;
-    let dt = held && !trace ? r.longStep : r.sample;
-    let finishing: 'L' | 'R' | undefined;
+    let dt = held && !tracing ? r.longStep : r.sample;
+    // While the two wheels' speeds stand in the ratio of their commands (from
+    // rest, or once any earlier motion's coast has died away), both approach
+    // their commands in the same proportion: the robot follows one arc, and
+    // the step is exact at any length. Take steps whose arc bulges at most
+    // STEADY_BULGE off its chord, so the positions kept for the quick
+    // obstacle test stay close to the path between them.
+    const scale = Math.abs(cL) + Math.abs(cR);
+    if (held && !tracing && scale > 0 && Math.abs(s.vL * cR - s.vR * cL) <= STEADY_RATIO * scale * scale && s.vL * cL >= 0 && s.vR * cR >= 0) {
+      // A straight line in one step; an arc in steps whose bulge off their chord stays under STEADY_BULGE.
+      const turnRate = Math.abs(cL - cR) / r.track; // rad/s
+      if (turnRate === 0) dt = MOTION_CAP_S;
+      else {
+        const radius = (Math.abs(cL + cR) / 2) / turnRate;
+        const angle = radius > STEADY_BULGE ? 2 * Math.acos(1 - STEADY_BULGE / radius) : Math.PI;
+        dt = Math.max(dt, Math.min(angle, STEADY_DEG * RAD) / turnRate);
+      }
+    }
+    let finishing = 0; // 1: the left wheel arrives in this step, 2: the right
+    let decay = decayOf(r, dt);
     if (!doneL) {
-      const need = m.left - encL;
-      const d = wheelTravel(s.vL, cL, r.lag, dt, decayOf(r, dt));
-      if (Math.sign(need) * d >= Math.abs(need)) { dt = crossingTime(s.vL, cL, r.lag, dt, need); finishing = 'L'; }
+      const need = left - encL;
+      const d = wheelTravel(s.vL, cL, r.lag, dt, decay);
+      if (Math.sign(need) * d >= Math.abs(need)) { dt = crossingTime(s.vL, cL, r.lag, dt, need); finishing = 1; decay = decayOf(r, dt); }
     }
     if (!doneR) {
-      const need = (m.right - encR) * r.mismatch; // real travel the right wheel still needs
-      const d = wheelTravel(s.vR, cR, r.lag, dt, decayOf(r, dt));
-      if (Math.sign(need) * d >= Math.abs(need)) { dt = crossingTime(s.vR, cR, r.lag, dt, need); finishing = 'R'; }
+      const need = (right - encR) * r.mismatch; // real travel the right wheel still needs
+      const d = wheelTravel(s.vR, cR, r.lag, dt, decay);
+      if (Math.sign(need) * d >= Math.abs(need)) { dt = crossingTime(s.vR, cR, r.lag, dt, need); finishing = 2; decay = decayOf(r, dt); }
     }
     remember(s, r);
-    advance(s, r, uL, uR, dt, out, true);
+    advance(s, r, uL, uR, dt, out, true, decay);
     encL += out.sL;
     encR += out.sR / r.mismatch;
     peak = Math.max(peak, rate(s, r));
-    poses?.pose(s.t, s.x, s.y, s.h);
-    if (finishing === 'L' || (!doneL && Math.sign(m.left) * (encL - m.left) >= -1e-9)) { doneL = true; encL = m.left; }
-    if (finishing === 'R' || (!doneR && Math.sign(m.right) * (encR - m.right) >= -1e-9)) { doneR = true; encR = m.right; }
+    if (poses) poses.pose(s.t, s.x, s.y, s.h);
+    if (finishing === 1 || (!doneL && Math.sign(left) * (encL - left) >= -1e-9)) { doneL = true; encL = left; }
+    if (finishing === 2 || (!doneR && Math.sign(right) * (encR - right) >= -1e-9)) { doneR = true; encR = right; }
   }
   return { finished: true, stalled: false, capped: false, peakRate: peak };
 }
