@@ -324,7 +324,7 @@ function runEncoders(s: SimState, r: SimRobot, m: EncoderMotion, trace?: TraceSi
   const held = accel === 0 && rampMin < 0;
   const tracing = trace !== undefined;
   while (!(doneL && doneR)) {
-    if (s.t - start >= MOTION_CAP_S) return { finished: false, stalled: false, capped: true, peakRate: peak };
+    if (!(s.t - start < MOTION_CAP_S)) return { finished: false, stalled: false, capped: true, peakRate: peak };
     // The outer wheel's power now.
     let p = power;
     if (!held) {
@@ -367,6 +367,7 @@ function runEncoders(s: SimState, r: SimRobot, m: EncoderMotion, trace?: TraceSi
         dt = Math.max(dt, Math.min(angle, STEADY_DEG * RAD) / turnRate);
       }
     }
+    if (!(dt > 0 && dt <= MOTION_CAP_S)) dt = r.sample; // never a step of no time, or of none at all
     let finishing = 0; // 1: the left wheel arrives in this step, 2: the right
     let decay = decayOf(r, dt);
     if (!doneL) {
@@ -401,7 +402,7 @@ function runGyroTurn(s: SimState, r: SimRobot, m: GyroTurnMotion, trace?: TraceS
     const reading = readingOf(s, r);
     const e = m.target - reading;
     if (Math.abs(e) < m.stop) return { finished: true, stalled: false, capped: false, peakRate: peak, finalError: e };
-    if (s.t - start >= MOTION_CAP_S) return { finished: false, stalled: false, capped: true, peakRate: peak, finalError: e };
+    if (!(s.t - start < MOTION_CAP_S)) return { finished: false, stalled: false, capped: true, peakRate: peak, finalError: e };
     let u: number;
     if (m.ramp) {
       const progress = span === 0 ? 1 : (reading - first) / span;
@@ -431,7 +432,7 @@ function runHold(s: SimState, r: SimRobot, m: HoldDriveMotion, trace?: TraceSink
   const floor = Math.min(RAMP_FLOOR, m.power);
   let counted = 0; // mean of the two encoders, along the drive's direction
   while (counted < goal - 1e-9) {
-    if (s.t - start >= MOTION_CAP_S) return { finished: false, stalled: false, capped: true, peakRate: peak };
+    if (!(s.t - start < MOTION_CAP_S)) return { finished: false, stalled: false, capped: true, peakRate: peak };
     const reading = readingOf(s, r);
     const e = m.target - reading;
     let p = m.power;

@@ -33,14 +33,17 @@ export function simRecordOf(seg: Segment): SimRecord | undefined {
 /** The robot as the simulation sees it; undefined while the wheel (or, for turns, the track) is unknown. */
 export function simRobotOf(setup: PlanSetup): SimRobot | undefined {
   const r = setup.robot;
-  if (r.wheelDiameter === undefined || r.motorSpeed === undefined || r.gear === undefined) return undefined;
+  // Without the track no heading can be predicted (a drive turns a little on unequal wheels).
+  const track = r.effectiveTrack ?? r.track;
+  if (r.wheelDiameter === undefined || r.motorSpeed === undefined || r.gear === undefined || track === undefined || !(track > 0)) return undefined;
+  if (!(r.wheelDiameter > 0) || !(r.motorSpeed > 0) || !(r.gear > 0)) return undefined;
   const fullSpeed = ((r.motorSpeed / r.gear) * Math.PI * r.wheelDiameter) / 360;
   return simRobot({
     fullSpeed,
     lag: r.motorLag ?? 0,
     stall: r.stall ?? 0,
     mismatch: r.mismatch ?? 1,
-    track: r.effectiveTrack ?? r.track ?? NaN,
+    track,
     sample: setup.gyro.sample,
     delay: setup.gyro.delay,
     scale: setup.gyro.scale,
