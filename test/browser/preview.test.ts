@@ -7,6 +7,7 @@ import { join } from 'node:path';
 import { checkPlan } from '../../src/core';
 import { summariseSegments, type RenderMessage } from '../../src/shared/messages';
 import { fixture, openStandIn, renderFor, type StandIn } from './standInHost';
+import { TARGET_COLUMNS } from '../../src/core/targets';
 
 const CHROMIUM_ARGS = ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--no-first-run',
   '--disable-component-update', '--disable-sync'];
@@ -263,7 +264,8 @@ describe('path preview webview (Chromium)', function () {
     const cells = await row.locator('td').allTextContents();
     assert.strictEqual(cells[0], String(LINE_FIRST_DRIVE + 1));
     assert.strictEqual(cells[1], drive.motion);
-    assert.strictEqual(Number(cells[4]), Math.round(drive.left_wheel_deg! * 10) / 10);
+    const wheelColumn = TARGET_COLUMNS.findIndex((c) => c.key === 'left_wheel_deg');
+    assert.strictEqual(Number(cells[wheelColumn]), Math.round(drive.left_wheel_deg! * 10) / 10);
     // Cursor to row, and row to plan line.
     await host.send({ type: 'cursor', uri: URI, version: 1, line: LINE_SPIN });
     await page.waitForSelector(`.targets tr.is-current[data-line="${LINE_SPIN}"]`);
