@@ -53,7 +53,7 @@ describe('veer command line', () => {
       assert.equal(rows.length, 5);
       const header = rows[0];
       const first = Object.fromEntries(header.map((h, i) => [h, rows[1][i]]));
-      assert.equal(first.motion, 'drive 3 * lane speed 60% hold 0');
+      assert.equal(first.motion, 'drive 3 * lane speed 60% hold 0 ramp 800 mm/s^2');
       // 750 mm on a 58 mm wheel: 750 / (π · 58) · 360 = 1481.787 (arc length over circumference).
       assert.equal(Number(first.left_wheel_deg), Math.round((750 / (Math.PI * 58)) * 360 * 1000) / 1000);
       assert.equal(first.yaw_target_deg, '0');

@@ -63,17 +63,29 @@ export function tuneGyroTurn(seg: Segment): Tuning[] {
   const speeds = range(Math.floor(Math.max(m.min, stall) * 20 + 1e-9) * 5 + 5, Math.ceil(m.power * 20 - 1e-9) * 5 - 5, 5);
   const bySpeed = speeds.length ? largest(speeds, (pct) => ({ power: pct / 100 })) : undefined;
   if (bySpeed) found.push({ option: 'speed', value: bySpeed.v / 100, overshoot: bySpeed.r.overshoot, duration: bySpeed.r.duration });
-  // Stopping the power earlier lets the robot coast onto the target: start from the band the
-  // coast needs (the present band plus the overshoot), then look half a degree either side.
+  // Stopping the power earlier lets the robot coast onto the target. The overshoot falls as the
+  // band widens (by less than the widening when the robot arrives fast): aim it at zero by the
+  // secant method over half-degree bands, starting from the band the coast alone would need.
   const widest = Math.min(MAX_STOP, Math.abs(seg.turned) / 3);
-  const base = seg.predicted?.overshoot ?? 0;
-  const guess = Math.round((m.stop + base) * 2) / 2;
+  const half = (v: number) => Math.min(widest, Math.max(m.stop + 0.5, Math.round(v * 2) / 2));
   let bestStop: Tuning | undefined;
-  for (const stop of [guess - 0.5, guess, guess + 0.5]) {
-    if (stop <= m.stop || stop > widest) continue;
+  const tryStop = (stop: number) => {
     const r = tried({ stop });
-    if (r && good(r, stop) && Math.abs(r.overshoot) < m.stop && (!bestStop || Math.abs(r.overshoot) < Math.abs(bestStop.overshoot) - 0.05)) {
+    if (r && r.outcome.finished && good(r, stop) && Math.abs(r.overshoot) < m.stop
+      && (!bestStop || Math.abs(r.overshoot) < Math.abs(bestStop.overshoot) - 0.05)) {
       bestStop = { option: 'stop', value: stop, overshoot: r.overshoot, duration: r.duration };
+    }
+    return r?.overshoot;
+  };
+  if (widest > m.stop) {
+    let [a, fa] = [m.stop, seg.predicted?.overshoot ?? 0];
+    let b = half(m.stop + fa);
+    let fb = tryStop(b);
+    for (let k = 0; k < 5 && fb !== undefined && Math.abs(fb) > 0.2 && fb !== fa; k++) {
+      const c = half(b - (fb * (b - a)) / (fb - fa));
+      if (c === b) break;
+      [a, fa, b] = [b, fb, c];
+      fb = tryStop(b);
     }
   }
   if (bestStop) found.push(bestStop);
