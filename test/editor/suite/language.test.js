@@ -121,6 +121,24 @@ describe('Veer language features', () => {
     });
   }
 
+  it('an overshooting gyro turn gets a quick fix the simulation shows works, and applying it clears the warning', async () => {
+    // The default motor (80 ms lag) at 50 % power coasts past a 1° stop band.
+    const content = ['# An invented bench test: one gyro turn.', 'wheel 56 mm', 'track 120 mm', 'start (500, 500) heading 0', 'turn 90 by gyro', ''].join('\n');
+    const scratch = await vscode.workspace.openTextDocument({ language: 'veer', content });
+    await vscode.window.showTextDocument(scratch);
+    const hasOvershoot = (d) => d.some((x) => codeOf(x) === 'overshoot');
+    const [warning] = (await diagnosticsWhere(scratch.uri, hasOvershoot)).filter((x) => codeOf(x) === 'overshoot');
+    assert.match(warning.message, /overshoots: it is predicted to end [\d.]+° past the target/);
+    const actions = await codeActions(scratch.uri, warning.range, vscode.CodeActionKind.QuickFix.value);
+    const preferred = actions.find((a) => a.isPreferred);
+    assert.ok(preferred, `no preferred fix among ${actions.map((a) => a.title).join(' | ')}`);
+    assert.match(preferred.title, /\(predicted: [\d.]+° (past|short of) the target, [\d.]+ s\)$/);
+    assert.ok(await vscode.workspace.applyEdit(preferred.edit));
+    assert.match(scratch.lineAt(4).text, /^turn 90 by gyro (stop [\d.]+ deg|min [\d.]+%|gain [\d.]+|speed [\d.]+%|ramp)$/);
+    await diagnosticsWhere(scratch.uri, (d) => !hasOvershoot(d));
+    await vscode.commands.executeCommand('workbench.action.revertAndCloseActiveEditor');
+  });
+
   it('source action inserts the fewest yaw resets', async () => {
     const scratch = await scratchCopy(FIXTURE);
     await diagnosticsWhere(scratch.uri, hasWrapCross);
