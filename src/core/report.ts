@@ -29,6 +29,10 @@ export interface JsonSegment {
   predicted?: JsonPrediction;
   /** With `--trace`: the simulation's samples, one row each. */
   trace?: JsonTraceRow[];
+  /** Where the robot really ends up: the pose's covariance (mm, degrees; field frame), its 95 % ellipse and the heading's sd. */
+  spread?: { cov: number[][]; ellipse95: { a_mm: number; b_mm: number; tilt_deg: number }; heading_sd_deg: number };
+  /** A mark: the probability of meeting it (0..1). */
+  hit_probability?: number;
 }
 
 export interface JsonPrediction {
@@ -147,6 +151,15 @@ export function jsonSegment(s: Segment, withTrace = false): JsonSegment {
   if (s.motorDeg) out.motor_deg = pair(s.motorDeg);
   if (s.label !== undefined) out.label = s.label;
   if (s.predicted) out.predicted = jsonPrediction(s.predicted);
+  if (s.spread) {
+    const r6 = (v: number) => Math.round(v * 1e6) / 1e6;
+    out.spread = {
+      cov: s.spread.cov.map((row) => row.map(r6)),
+      ellipse95: { a_mm: round3(s.spread.ellipse95.a), b_mm: round3(s.spread.ellipse95.b), tilt_deg: round3(s.spread.ellipse95.tilt) },
+      heading_sd_deg: round3(s.spread.headingSd),
+    };
+  }
+  if (s.hitProbability !== undefined) out.hit_probability = Math.round(s.hitProbability * 1e6) / 1e6;
   if (withTrace && s.kind !== 'start') {
     const trace = jsonTrace(s);
     if (trace) out.trace = trace;

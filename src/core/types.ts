@@ -323,6 +323,13 @@ export interface WheelPair {
   right: number;
 }
 
+/** The pose's spread at a segment's end: covariance (mm, degrees, field frame), its 95 % ellipse and the heading's standard deviation. */
+export interface SegmentSpread {
+  cov: [[number, number, number], [number, number, number], [number, number, number]];
+  ellipse95: { a: number; b: number; tilt: number };
+  headingSd: number;
+}
+
 /** What the controller simulation predicts for one motion (the robot model, section 2). */
 export interface Prediction {
   /** Predicted start time from the run's start, s. */
@@ -391,6 +398,10 @@ export interface Segment {
   label?: string;
   /** The controller simulation's prediction; absent when the motion could not be simulated (an earlier motion never ends, or a value is missing). */
   predicted?: Prediction;
+  /** Where the robot really ends up: the pose's spread at the end of the segment (robot model, section 3). */
+  spread?: SegmentSpread;
+  /** A `mark`: the probability of meeting it (inside its zone, or within `within` of its point). */
+  hitProbability?: number;
 }
 
 export interface RunResult {

@@ -1,7 +1,9 @@
 import { strict as assert } from 'node:assert';
-import { bivariateNormalCdf, ellipse95, normalCdf, rectangleProbability } from '../../src/core/spread/gaussian';
+import { bivariateNormalCdf, discProbability, ellipse95, normalCdf, rectangleProbability } from '../../src/core/spread/gaussian';
 import { odometryStep, propagateTravel, ZERO_COV } from '../../src/core/spread/propagate';
 import { mulberry32 } from '../support/random';
+import { propagateRun } from '../../src/core/spread/run';
+import { checkPlan } from '../../src/core';
 
 // The two-dimensional normal behind the spread of where the robot ends up
 // (robot model, section 3), against values computed outside the project.
@@ -33,6 +35,20 @@ describe('spread: the 2-D normal', () => {
     assert.ok(Math.abs(p - 0.787349) < 1e-6, `${p}`);
     const q = rectangleProbability({ x: 0, y: 0 }, { xx: 4, xy: 0, yy: 2 }, -3, 5, -2, 2);
     assert.ok(Math.abs(q - 0.781169) < 1e-6, `${q}`);
+  });
+});
+
+describe('spread: the probability of reaching a point', () => {
+  it('an isotropic spread centred on the point: 1 − exp(−D²/2σ²) (the Rayleigh distribution)', () => {
+    for (const [sd, d] of [[10, 20], [20, 20], [5, 3]]) {
+      const p = discProbability({ x: 100, y: 50 }, { xx: sd * sd, xy: 0, yy: sd * sd }, { x: 100, y: 50 }, d);
+      assert.ok(Math.abs(p - (1 - Math.exp(-(d * d) / (2 * sd * sd)))) < 1e-6, `${sd}, ${d}: ${p}`);
+    }
+  });
+
+  it('far from the point the probability is nearly zero; a thin spread on it, nearly one', () => {
+    assert.ok(discProbability({ x: 0, y: 0 }, { xx: 4, xy: 1, yy: 2 }, { x: 100, y: 0 }, 20) < 1e-12);
+    assert.ok(discProbability({ x: 0, y: 0 }, { xx: 1, xy: 0.5, yy: 1 }, { x: 0, y: 0 }, 20) > 1 - 1e-9);
   });
 });
 
@@ -90,5 +106,40 @@ describe('spread: the linear model against sampling', () => {
     for (const [name, sampled, lin] of [['xx', cov(xs, xs), linear.xx], ['yy', cov(ys, ys), linear.yy], ['hh', cov(hs, hs), linear.hh]] as const) {
       assert.ok(Math.abs(sampled / lin - 1) < 0.08, `${name}: sampled ${sampled} vs linear ${lin}`);
     }
+  });
+});
+
+describe('spread: along a run (robot model section 3 rules)', () => {
+  const noise = { drive: 0.01, turn: 0.015, gyro: 1, drift: 0.5 / 60 };
+  const robot = ['wheel 56 mm', 'track 120 mm', 'motor 900 deg/s lag 20 ms', 'field 3000 by 3000'];
+  /** The final heading's standard deviation (degrees) of a plan; turns written with `reset` zero the yaw first. */
+  const finalHeadingSd = (motions: string[]) => {
+    const lines = [...robot, 'start (1500, 500) heading 0', ...motions];
+    const r = checkPlan(lines.join('\n'), { simulate: false });
+    const segs = r.runs[0].segments;
+    const resets = new Set(segs.filter((s) => /\breset$/.test(lines[s.line])));
+    const { bySegment } = propagateRun(segs, noise, 120, 'clockwise', resets);
+    return bySegment.get(segs[segs.length - 1])!.headingSd;
+  };
+
+  it('resetting the yaw before every gyro turn lets the errors add up; keeping one reference does not', () => {
+    const legs = (reset: boolean) => [0, 1, 2, 3].flatMap(() => ['drive 400', `turn 90 by gyro${reset ? ' reset' : ''}`]);
+    const every = finalHeadingSd(legs(true));
+    const kept = finalHeadingSd(legs(false));
+    // Kept: the last turn ends on the start's reference: the gyro's 1° (and a few seconds of drift).
+    assert.ok(Math.abs(kept - 1) < 0.05, `${kept}`);
+    // Reset each time: every drive's heading error (wheel noise over 400 mm) becomes the next reference's.
+    assert.ok(every > kept + 0.5, `${every} vs ${kept}`);
+  });
+
+  it("a reset just after squaring on a wall removes the earlier reference's error", () => {
+    // An error in the reference first (a reset after a long encoder drive), then a square against the top wall.
+    const before = ['drive 1000', 'reset yaw', 'drive 500', 'square front'];
+    const without = finalHeadingSd([...before, 'drive -300', 'turn 90 by gyro']);
+    const withReset = finalHeadingSd([...before, 'reset yaw', 'drive -300', 'turn 90 by gyro']);
+    // After the square the heading's error is the square's 0.5°; the turn then ends on it plus the gyro's 1°
+    // (robot model section 3: √(0.5² + 1²) = 1.118°, and a second of drift).
+    assert.ok(Math.abs(withReset - Math.hypot(0.5, 1)) < 0.02, `${withReset}`);
+    assert.ok(without > withReset + 0.3, `${without} vs ${withReset}`);
   });
 });

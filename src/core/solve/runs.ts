@@ -10,6 +10,8 @@ import { shortWay, YawReadings } from './readings';
 import { encoderTurnTime, gyroTurnTime, profileTime } from './timing';
 import { MOTION_CAP_S, restState, simRobot, simulateMotion } from '../sim/motion';
 import { PoseBuffer, simplify } from '../sim/path';
+import { propagateRun } from '../spread/run';
+import { discProbability, rectangleProbability } from '../spread/gaussian';
 import { squareUp, wallsOf } from './square';
 import { sweepPiece, overlapsAt, type SweepHit } from './sweep';
 import { fmt } from '../units/evaluate';
@@ -124,6 +126,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
     const prediction: RunPrediction = options.simulate === false ? { events: [] } : predictRun(segments, (seg) => motionOf.get(seg), setup, footprint, walls, budget);
     const T1 = performance.now();
     reportPrediction(prediction);
+    spreadRun();
     (globalThis as any).PROF = { predict: T1 - T0, report: performance.now() - T1, sweep: performance.now() - (globalThis as any).PROF_T };
 
     function solveMotion(m: EvaluatedMotion): void {
@@ -312,6 +315,28 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
               { at: hit.at, ...(hit.pose ? { pose: hit.pose } : {}) });
           }
         }
+      }
+    }
+
+    /**
+     * The spread of where the robot ends up at every segment (robot model,
+     * section 3), and the chance of meeting each mark. (`miss` does not use
+     * it yet: issue 10.)
+     */
+    function spreadRun(): void {
+      const width = robot.effectiveTrack ?? robot.track;
+      if (width === undefined || !(width > 0)) return;
+      const resetsAt = new Set(segments.filter((sg) => sg.kind === 'turn' && (motionOf.get(sg)?.stmt as TurnStmt | undefined)?.reset === true));
+      const { bySegment } = propagateRun(segments, setup.noise, width, turns, resetsAt);
+      for (const [seg, sp] of bySegment) seg.spread = sp;
+      for (const seg of segments) {
+        const m = motionOf.get(seg);
+        if (seg.kind !== 'mark' || !seg.spread || !m) continue;
+        const mm = m as Extract<EvaluatedMotion, { stmt: MarkStmt }>;
+        const c = { xx: seg.spread.cov[0][0], xy: seg.spread.cov[0][1], yy: seg.spread.cov[1][1] };
+        const zone = mm.stmt.inZone ? setup.zones.find((z) => z.name === mm.stmt.inZone!.value) : undefined;
+        if (zone) seg.hitProbability = rectangleProbability(seg.end, c, zone.min.x, zone.max.x, zone.min.y, zone.max.y);
+        else if (mm.at) seg.hitProbability = discProbability(seg.end, c, mm.at, mm.within ?? MOTION_DEFAULTS.markWithin);
       }
     }
 

@@ -90,3 +90,33 @@ export function rectangleProbability(mean: { x: number; y: number }, c: Cov2, x0
   const F = (x: number, y: number) => bivariateNormalCdf((x - mean.x) / sx, (y - mean.y) / sy, rho);
   return Math.max(0, Math.min(1, F(x1, y1) - F(x0, y1) - F(x1, y0) + F(x0, y0)));
 }
+
+const GL32 = gaussLegendre(32);
+
+/**
+ * The probability that N(mean, cov) lies within `radius` of `center`: the
+ * density integrated over the disc in polar coordinates (Gauss–Legendre in
+ * both the radius and the angle).
+ */
+export function discProbability(mean: { x: number; y: number }, c: Cov2, center: { x: number; y: number }, radius: number): number {
+  const det = c.xx * c.yy - c.xy * c.xy;
+  if (!(det > 0)) {
+    // A degenerate spread: the mean itself decides.
+    return Math.hypot(mean.x - center.x, mean.y - center.y) <= radius ? 1 : 0;
+  }
+  const ixx = c.yy / det;
+  const ixy = -c.xy / det;
+  const iyy = c.xx / det;
+  const norm = 1 / (2 * Math.PI * Math.sqrt(det));
+  let sum = 0;
+  for (let i = 0; i < GL32.x.length; i++) {
+    const rho = (radius / 2) * (GL32.x[i] + 1);
+    for (let j = 0; j < GL32.x.length; j++) {
+      const phi = Math.PI * (GL32.x[j] + 1);
+      const dx = center.x + rho * Math.cos(phi) - mean.x;
+      const dy = center.y + rho * Math.sin(phi) - mean.y;
+      sum += GL32.w[i] * GL32.w[j] * rho * Math.exp(-0.5 * (ixx * dx * dx + 2 * ixy * dx * dy + iyy * dy * dy));
+    }
+  }
+  return Math.max(0, Math.min(1, norm * sum * (radius / 2) * Math.PI));
+}
