@@ -143,3 +143,25 @@ describe('spread: along a run (robot model section 3 rules)', () => {
     assert.ok(without > withReset + 0.3, `${without} vs ${withReset}`);
   });
 });
+
+describe('spread: marks', () => {
+  it('a mark the planned pose meets but most runs miss gets a miss warning naming the biggest source', () => {
+    // 2 m by encoders with a 5 % distance scale: about 100 mm along the track (robot model section 3,
+    // distScale × D), more than the wheels' random error across it (√(k D³ / 3b²) = 61 mm with k = 0.02 mm).
+    const text = ['wheel 56 mm', 'track 120 mm', 'noise drive 5%', 'start (500, 500) heading 0', 'drive 2000', 'mark "far" at (500, 2500) within 20 mm'].join('\n');
+    const r = checkPlan(text, { simulate: false });
+    const mark = r.runs[0].segments.find((s) => s.kind === 'mark')!;
+    assert.ok(mark.hitProbability! < 0.2, `${mark.hitProbability}`);
+    const miss = r.diagnostics.find((d) => d.code === 'miss')!;
+    assert.match(miss.message, /^Only \d+ % of runs end within 20 mm of \(500, 2500\) \(95 % wanted\)/);
+    assert.match(miss.message, /Most of it comes from the distance error of encoder drives \(±5 %/);
+    // The along-track spread: sd 100 mm (5 % of 2 m) dominates the oval's long axis: √5.991 × 100 = 244.8 mm.
+    assert.ok(Math.abs(mark.spread!.ellipse95.a - Math.sqrt(5.991 * (100 ** 2 + 0))) < 1, `${mark.spread!.ellipse95.a}`);
+  });
+
+  it('a mark met in almost every run gets no warning', () => {
+    const r = checkPlan(['wheel 56 mm', 'track 120 mm', 'zone "bay" (300, 300) to (700, 1100)', 'start (500, 500) heading 0', 'drive 200', 'mark "in" in "bay"'].join('\n'), { simulate: false });
+    assert.ok(r.runs[0].segments.find((s) => s.kind === 'mark')!.hitProbability! > 0.999);
+    assert.equal(r.diagnostics.filter((d) => d.code === 'miss').length, 0);
+  });
+});

@@ -10,7 +10,7 @@ import { shortWay, YawReadings } from './readings';
 import { encoderTurnTime, gyroTurnTime, profileTime } from './timing';
 import { MOTION_CAP_S, restState, simRobot, simulateMotion } from '../sim/motion';
 import { PoseBuffer, simplify } from '../sim/path';
-import { propagateRun } from '../spread/run';
+import { propagateRun, shares, type SpreadSource } from '../spread/run';
 import { discProbability, rectangleProbability } from '../spread/gaussian';
 import { squareUp, wallsOf } from './square';
 import { sweepPiece, overlapsAt, type SweepHit } from './sweep';
@@ -337,6 +337,16 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         const zone = mm.stmt.inZone ? setup.zones.find((z) => z.name === mm.stmt.inZone!.value) : undefined;
         if (zone) seg.hitProbability = rectangleProbability(seg.end, c, zone.min.x, zone.max.x, zone.min.y, zone.max.y);
         else if (mm.at) seg.hitProbability = discProbability(seg.end, c, mm.at, mm.within ?? MOTION_DEFAULTS.markWithin);
+        if (seg.hitProbability === undefined || seg.hitProbability >= MARK_LEVEL) continue;
+        // The planned pose itself missing is reported already; this is the spread making it a gamble.
+        if (diagnostics.some((d) => d.code === 'miss' && d.range.start.line === seg.line)) continue;
+        const share = shares(segments, seg, setup.noise, width, turns, resetsAt);
+        const top = (Object.keys(share) as SpreadSource[]).reduce((a, b) => (share[b] > share[a] ? b : a));
+        const lastReset = [...segments.slice(0, segments.indexOf(seg))].reverse().find((sg) => sg.kind === 'reset' || resetsAt.has(sg));
+        const target = zone ? `inside the zone "${zone.name}"` : `within ${fmt(mm.within ?? MOTION_DEFAULTS.markWithin, 0)} mm of (${fmt(mm.at!.x, 0)}, ${fmt(mm.at!.y, 0)})`;
+        report(mm.stmt.range, 'warning', 'miss',
+          `Only ${fmt(seg.hitProbability * 100, 0)} % of runs end ${target} (${fmt(MARK_LEVEL * 100, 0)} % wanted): the planned pose meets the mark, but where the robot really ends spreads over an oval of ${fmt(seg.spread.ellipse95.a, 0)} × ${fmt(seg.spread.ellipse95.b, 0)} mm (19 runs in 20). Most of it comes from ${SOURCE_WORDS[top](setup.noise, lastReset ? lastReset.line + 1 : undefined)}.`,
+          { at: { x: seg.end.x, y: seg.end.y } });
       }
     }
 
@@ -805,6 +815,18 @@ interface PieceCheck {
   obstacles: readonly Obstacle[];
   field?: PlanSetup['field'];
 }
+
+/** A mark is met in at least this share of runs, or `miss` says how often it is. */
+const MARK_LEVEL = 0.95;
+
+/** What each source of spread is, and what helps, in a miss's message. */
+const SOURCE_WORDS: Record<SpreadSource, (n: PlanSetup['noise'], resetLine?: number) => string> = {
+  drive: (n) => `the distance error of encoder drives (±${fmt(n.drive * 100)} %, \`noise drive\`): square on a wall shortly before the mark, or measure the wheel more exactly`,
+  turn: (n) => `the angle error of encoder turns (±${fmt(n.turn * 100)} %, \`noise turn\`): turn by gyro instead, or calibrate the effective track`,
+  gyro: (n) => `the gyro's error at the end of each gyro motion (${fmt(n.gyro)}°, \`noise gyro\`): square on a wall shortly before the mark`,
+  drift: (_n, line) => `the gyro's drift since ${line ? `the reset on line ${line}` : 'the start'}: reset the yaw just after squaring on a wall`,
+  wheel: () => 'the wheels\' random slip over the distance driven: square on a wall shortly before the mark',
+};
 
 /** A `hold ... step` curve ending this close to its heading (degrees) is taken to end on it. */
 const HOLD_SNAP_DEG = 0.1;

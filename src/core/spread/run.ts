@@ -87,7 +87,7 @@ export interface RunSpread {
  * reference.
  */
 export function propagateRun(segments: readonly Segment[], noise: NoiseModel, track: number, turns: TurnDirection,
-  resetsAt: ReadonlySet<Segment> = new Set()): RunSpread {
+  resetsAt: ReadonlySet<Segment> = new Set(), wheel: number = SPREAD_DEFAULTS.wheel, squareSpread = true): RunSpread {
   const P = new Cov();
   const bySegment = new Map<Segment, Spread>();
   const flip = turns === 'clockwise' ? 1 : -1;
@@ -114,16 +114,17 @@ export function propagateRun(segments: readonly Segment[], noise: NoiseModel, tr
       P.copy(H, REF, gyroVar);
     }
     if (seg.kind === 'drive' || seg.kind === 'turn' || seg.kind === 'square') {
-      for (const piece of seg.path) travel(P, piece, compass, track, seg.kind === 'turn' && !gyro, seg.kind !== 'turn' || !gyro);
+      // A gyro motion steers its heading all along: the wheels' random error then moves it along its path only.
+      for (const piece of seg.path) travel(P, piece, compass, track, seg.kind === 'turn' && !gyro, seg.kind !== 'turn' || !gyro, wheel, gyro);
     }
     // A gyro motion ends on its target as the sensor reads it: the heading's error is the reference's, plus the sensor's noise
     // (a hold keeps correcting it all along the drive).
     if (gyro && (seg.kind === 'turn' || seg.kind === 'drive')) P.copy(H, REF, gyroVar);
     if (seg.kind === 'square') {
-      P.replace(H, (SPREAD_DEFAULTS.squareHeading * RAD) ** 2);
+      P.replace(H, squareSpread ? (SPREAD_DEFAULTS.squareHeading * RAD) ** 2 : 0);
       // The robot faces the wall: the error along its heading is the error across the wall.
       const h = compass(seg.end.heading);
-      P.replace(Math.abs(Math.sin(h)) > Math.abs(Math.cos(h)) ? X : Y, SPREAD_DEFAULTS.squareAcross ** 2);
+      P.replace(Math.abs(Math.sin(h)) > Math.abs(Math.cos(h)) ? X : Y, squareSpread ? SPREAD_DEFAULTS.squareAcross ** 2 : 0);
     }
     bySegment.set(seg, spreadOf(P, flip));
   }
@@ -136,7 +137,8 @@ export function propagateRun(segments: readonly Segment[], noise: NoiseModel, tr
  * (drives) and the track scale (encoder turns) add their share; each wheel's
  * random error adds k·|travel|.
  */
-function travel(P: Cov, piece: PathPiece, compass: (deg: number) => number, track: number, encoderTurn: boolean, scaled: boolean): void {
+function travel(P: Cov, piece: PathPiece, compass: (deg: number) => number, track: number, encoderTurn: boolean, scaled: boolean, k: number,
+  steered: boolean): void {
   const h0 = compass(piece.from.heading);
   let dTheta: number;
   let ds: number;
@@ -178,14 +180,39 @@ function travel(P: Cov, piece: PathPiece, compass: (deg: number) => number, trac
     }
     if (encoderTurn) P.applyOne(H, TRACK, -turn);
     // Random wheel error (Chong & Kleeman): variance k·|travel| per wheel, through the step's Jacobian.
-    const k = SPREAD_DEFAULTS.wheel;
-    addWheelNoise(P, k * Math.abs(l), sin / 2 + (step * cos) / (2 * track), cos / 2 - (step * sin) / (2 * track), 1 / track);
-    addWheelNoise(P, k * Math.abs(rr), sin / 2 - (step * cos) / (2 * track), cos / 2 + (step * sin) / (2 * track), -1 / track);
+    if (steered) {
+      // Along the path only: each wheel's error moves the midpoint by half of it.
+      addWheelNoise(P, k * Math.abs(l), sin / 2, cos / 2, 0);
+      addWheelNoise(P, k * Math.abs(rr), sin / 2, cos / 2, 0);
+    } else {
+      addWheelNoise(P, k * Math.abs(l), sin / 2 + (step * cos) / (2 * track), cos / 2 - (step * sin) / (2 * track), 1 / track);
+      addWheelNoise(P, k * Math.abs(rr), sin / 2 - (step * cos) / (2 * track), cos / 2 + (step * sin) / (2 * track), -1 / track);
+    }
     h += turn;
   }
 }
 
 /** Adds q·g gᵀ to the pose block, for one wheel's random error of variance q with the step's Jacobian column g. */
+/** The sources of spread a plan's `noise` and the robot model name, for saying which one matters most. */
+export type SpreadSource = 'drive' | 'turn' | 'gyro' | 'drift' | 'wheel';
+
+/**
+ * The position variance (mm², along its worst direction) each source alone
+ * leaves at segment `at`: the model is linear, so the sources' shares add up.
+ */
+export function shares(segments: readonly Segment[], at: Segment, noise: NoiseModel, track: number, turns: TurnDirection,
+  resetsAt: ReadonlySet<Segment>): Record<SpreadSource, number> {
+  const only = (src: SpreadSource): number => {
+    const n: NoiseModel = { drive: 0, turn: 0, gyro: 0, drift: 0 };
+    if (src !== 'wheel') n[src] = noise[src];
+    const sp = propagateRun(segments, n, track, turns, resetsAt, src === 'wheel' ? SPREAD_DEFAULTS.wheel : 0, false).bySegment.get(at);
+    return sp ? (sp.ellipse95.a ** 2) / CHI2 : 0;
+  };
+  return { drive: only('drive'), turn: only('turn'), gyro: only('gyro'), drift: only('drift'), wheel: only('wheel') };
+}
+
+const CHI2 = -2 * Math.log(0.05);
+
 function addWheelNoise(P: Cov, q: number, gx: number, gy: number, gh: number): void {
   if (q === 0) return;
   P.add(X, X, q * gx * gx);
