@@ -1,5 +1,6 @@
 import { strict as assert } from 'node:assert';
-import { bivariateNormalCdf, discProbability, ellipse95, normalCdf, rectangleProbability } from '../../src/core/spread/gaussian';
+import { bivariateNormalCdf, discProbability, ellipse95, erfc, normalCdf, rectangleProbability } from '../../src/core/spread/gaussian';
+import * as mathjs from 'mathjs';
 import { odometryStep, propagateTravel, ZERO_COV } from '../../src/core/spread/propagate';
 import { mulberry32 } from '../support/random';
 import { propagateRun } from '../../src/core/spread/run';
@@ -18,6 +19,12 @@ describe('spread: the 2-D normal', () => {
 
   it('the standard normal distribution function at 1.96 is 0.975 (any statistics table)', () => {
     assert.ok(Math.abs(normalCdf(1.96) - 0.9750021) < 1e-6);
+  });
+
+  it('the error function agrees with math.js\'s erf (an independent implementation) to 1e-13, in and out of the series\' range', () => {
+    for (let x = -6; x <= 6; x += 0.173) {
+      assert.ok(Math.abs(1 - erfc(x) - mathjs.erf(x)) < 1e-13, `${x}: ${1 - erfc(x)} vs ${mathjs.erf(x)}`);
+    }
   });
 
   it('independent coordinates: the bivariate distribution function is the product of the two (ρ = 0)', () => {

@@ -710,16 +710,31 @@ function drawAnnotations(out: string[], d: Drawing, run: RunResult, runIndex: nu
     if (seg.kind === 'mark' && seg.label !== undefined && finite(seg.end)) {
       const s = 5 * px;
       const p = seg.end;
+      // Where the real robot ends in 19 runs out of 20 (the spread's 95 % oval), and how often it meets the mark.
+      const e = seg.spread?.ellipse95;
+      const oval = e && Number.isFinite(e.a) && Number.isFinite(e.b) && e.a > 0
+        ? `<ellipse class="spread" cx="${num(d.view.x(p.x))}" cy="${num(d.view.y(p.y))}" rx="${num(e.a)}" ry="${num(Math.max(e.b, 0.01))}" transform="rotate(${num(-e.tilt)} ${num(d.view.x(p.x))} ${num(d.view.y(p.y))})" fill="currentColor" fill-opacity="0.08" stroke-width="${d.px(1)}" stroke-dasharray="${d.px(3)} ${d.px(2)}"/>`
+        : '';
+      const chance = seg.hitProbability !== undefined ? ` · ${formatChance(seg.hitProbability)}` : '';
       out.push(
-        `<g class="mark"${attrs}><title>${escapeXml(`mark ${seg.label}`)}</title>`,
+        `<g class="mark"${attrs}><title>${escapeXml(`mark ${seg.label}${seg.hitProbability !== undefined ? `: met in ${formatChance(seg.hitProbability)} of runs; the oval holds 19 runs in 20` : ''}`)}</title>`,
+        oval,
         `<path d="M${d.xy({ x: p.x, y: p.y + s })}L${d.xy({ x: p.x + s, y: p.y })}L${d.xy({ x: p.x, y: p.y - s })}L${d.xy({ x: p.x - s, y: p.y })}Z" fill="currentColor"/>`,
-        d.label('label', { x: p.x + 8 * px, y: p.y }, seg.label, SIZE.labelFont, 'start'),
+        d.label('label', { x: p.x + 8 * px, y: p.y }, `${seg.label}${chance}`, SIZE.labelFont, 'start'),
         '</g>\n',
       );
     }
   });
   drawStartEnd(out, d, run, runIndex);
   out.push('</g>\n');
+}
+
+/** A share of runs as people say it: "99 %", and never "100 %" for what is only nearly sure. */
+function formatChance(p: number): string {
+  const pct = p * 100;
+  if (pct > 99.5 && pct < 100) return '> 99 %';
+  if (pct < 0.5 && pct > 0) return '< 1 %';
+  return `${Math.round(pct)} %`;
 }
 
 function drawStartEnd(out: string[], d: Drawing, run: RunResult, runIndex: number): void {
