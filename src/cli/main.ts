@@ -5,6 +5,7 @@ import { parseArgs } from 'node:util';
 import { checkPlan, fixPlan, proveFix, renderSvg, targetsCsv, targetsDocument, targetsText, toSarif, ExpressionCache, MAX_PLAN_CHARS, type CheckResult, type Diagnostic, type Fix } from '../core';
 import { pathToFileURL } from 'node:url';
 import { diagnosticLine, runSummaryLine, toJsonDocument } from '../core/report';
+import { sampleRun, sampleStats } from '../core/spread/sample';
 import { version } from '../../package.json';
 
 const HELP = `veer ${version}: check and draw plans for two-wheeled robot runs
@@ -28,6 +29,9 @@ Options:
   --strict     count warnings as errors
   --trace      with \`check --json\`: each motion's simulated samples (time, yaw reading, target, error,
                powers, wheel speeds, pose), one row per control-loop sample
+  --samples N  with \`check --json\`: sample each run N times on the error model (\`noise\`) and add each
+               motion's sampled mean and covariance, and each mark's share of runs that meet it
+  --seed S     the sampling's seed (default 1): the same seed gives the same samples
   -o, --output where \`render\` writes the SVG
   --run NAME   draw (or list the targets of) only this run (name or 1-based number)
   --csv        \`targets\` as CSV (RFC 4180, a header row)
@@ -82,6 +86,8 @@ function dispatch(argv: string[], io: CliIo): number {
         csv: { type: 'boolean' },
         format: { type: 'string' },
         trace: { type: 'boolean' },
+        samples: { type: 'string' },
+        seed: { type: 'string' },
       },
     });
   } catch (e) {
@@ -102,6 +108,7 @@ function dispatch(argv: string[], io: CliIo): number {
   if (command !== 'targets' && values.csv) throw new UsageError('`--csv` belongs to `veer targets`');
   if (command !== 'check' && values.format !== undefined) throw new UsageError('`--format` belongs to `veer check`');
   if (command !== 'check' && values.trace) throw new UsageError('`--trace` belongs to `veer check --json`');
+  if (command !== 'check' && (values.samples !== undefined || values.seed !== undefined)) throw new UsageError('`--samples` and `--seed` belong to `veer check --json`');
   if (command === 'targets') {
     if (values.output !== undefined || values.strict) throw new UsageError('`veer targets` takes a plan file, `--run`, and `--csv` or `--json`');
     if (values.csv && values.json) throw new UsageError('choose one of `--csv` and `--json`');
@@ -120,7 +127,13 @@ function dispatch(argv: string[], io: CliIo): number {
     if (!['text', 'json', 'sarif'].includes(format)) throw new UsageError(`unknown format \`${format}\`: use text, json or sarif`);
     if (values.json && format !== 'json') throw new UsageError('choose one of `--json` and `--format`');
     if (values.trace && format !== 'json') throw new UsageError('`--trace` adds the simulation\'s samples to the JSON document: use it with `--json`');
-    return check(files, { format: format as 'text' | 'json' | 'sarif', strict: !!values.strict, trace: !!values.trace }, io);
+    const samples = values.samples === undefined ? undefined : Number(values.samples);
+    const seed = values.seed === undefined ? 1 : Number(values.seed);
+    if (samples !== undefined && (!Number.isInteger(samples) || samples < 2 || samples > 1_000_000)) throw new UsageError('`--samples` takes a whole number of runs from 2 to 1000000, e.g. `--samples 1000`');
+    if (values.seed !== undefined && (!Number.isInteger(seed) || seed < 0 || seed > 0xffffffff)) throw new UsageError('`--seed` takes a whole number from 0 to 4294967295');
+    if (values.seed !== undefined && samples === undefined) throw new UsageError('`--seed` goes with `--samples N`');
+    if (samples !== undefined && format !== 'json') throw new UsageError('`--samples` adds the sampled runs to the JSON document: use it with `--json`');
+    return check(files, { format: format as 'text' | 'json' | 'sarif', strict: !!values.strict, trace: !!values.trace, samples, seed }, io);
   }
   if (command === 'render') {
     if (values.json) throw new UsageError('`--json` belongs to `veer check`');
@@ -215,18 +228,74 @@ function checkOne(file: string, cache: ExpressionCache, io: CliIo): { result: Ch
   return { result: checkPlan(text, { fileName: file, cache, onProgress }), text };
 }
 
+/**
+ * `--samples N`: each run sampled N times on the error model with the full
+ * kinematics (seeded); each segment gets the samples' mean and covariance,
+ * each mark the share of samples that meet it.
+ */
+function addSamples(doc: ReturnType<typeof toJsonDocument>, result: CheckResult, count: number, seed: number, onProgress?: (f: number) => void): void {
+  const width = result.setup.robot.effectiveTrack ?? result.setup.robot.track;
+  if (width === undefined) return;
+  result.runs.forEach((run, r) => {
+    const resets = new Set(run.segments.filter((s) => s.kind === 'turn' && turnResets(result, s.line)));
+    const samples = sampleRun(run.segments, result.setup.noise, width, result.setup.turns, count, seed + r, resets,
+      onProgress && ((f) => onProgress((r + f) / result.runs.length)));
+    run.segments.forEach((seg, i) => {
+      const { mean, cov } = sampleStats(samples, i);
+      const r6 = (v: number) => Math.round(v * 1e6) / 1e6;
+      const out = doc.runs[r].segments[i];
+      out.sampled = { count, mean: { x_mm: r6(mean[0]), y_mm: r6(mean[1]), heading_deg: r6(mean[2]) }, cov: cov.map((row) => row.map(r6)) };
+      if (seg.kind === 'mark') {
+        const hit = markHits(result, seg, samples.x[i], samples.y[i]);
+        if (hit !== undefined) out.sampled_hit_probability = hit;
+      }
+    });
+  });
+  onProgress?.(1);
+}
+
+function turnResets(result: CheckResult, line: number): boolean {
+  const stmt = result.ast.statements.find((s) => s.line === line);
+  return stmt?.kind === 'turn' && stmt.reset;
+}
+
+/** The share of sampled end points that meet a mark (its zone, or within `within` of its point). */
+function markHits(result: CheckResult, seg: CheckResult['runs'][number]['segments'][number], xs: Float64Array, ys: Float64Array): number | undefined {
+  const stmt = result.ast.statements.find((s) => s.line === seg.line);
+  if (stmt?.kind !== 'mark') return undefined;
+  let inside: (x: number, y: number) => boolean;
+  if (stmt.inZone) {
+    const zone = result.setup.zones.find((z) => z.name === stmt.inZone!.value);
+    if (!zone) return undefined;
+    inside = (x, y) => x >= zone.min.x && x <= zone.max.x && y >= zone.min.y && y <= zone.max.y;
+  } else if (stmt.at) {
+    const at = result.values.find((v) => v.range.start.line === stmt.at!.x.range.start.line && v.range.start.character === stmt.at!.x.range.start.character);
+    const aty = result.values.find((v) => v.range.start.line === stmt.at!.y.range.start.line && v.range.start.character === stmt.at!.y.range.start.character);
+    const within = stmt.within ? result.values.find((v) => v.range.start.character === stmt.within!.range.start.character && v.range.start.line === stmt.within!.range.start.line)?.value : 20;
+    if (!at || !aty || within === undefined) return undefined;
+    inside = (x, y) => Math.hypot(x - at.value, y - aty.value) <= within;
+  } else return undefined;
+  let hits = 0;
+  for (let i = 0; i < xs.length; i++) if (inside(xs[i], ys[i])) hits++;
+  return hits / xs.length;
+}
+
 function failed(result: CheckResult, strict: boolean): boolean {
   return result.diagnostics.some((d) => d.severity === 'error' || (strict && d.severity === 'warning'));
 }
 
-function check(files: string[], opts: { format: 'text' | 'json' | 'sarif'; strict: boolean; trace?: boolean }, io: CliIo): number {
+function check(files: string[], opts: { format: 'text' | 'json' | 'sarif'; strict: boolean; trace?: boolean; samples?: number; seed?: number }, io: CliIo): number {
   // Read every file first, so an unreadable one stops the command before any output.
   const cache = new ExpressionCache();
   const results: Array<{ file: string; result: CheckResult; text: string }> = [];
   for (const file of files) results.push({ file, ...checkOne(file, cache, io) });
   let status = 0;
   if (opts.format === 'json') {
-    const docs = results.map(({ file, result }) => toJsonDocument(file, result, opts.trace));
+    const docs = results.map(({ file, result }) => {
+      const doc = toJsonDocument(file, result, opts.trace);
+      if (opts.samples !== undefined) addSamples(doc, result, opts.samples, opts.seed ?? 1, progressReporter(io, `sampling ${opts.samples} runs of ${file}`));
+      return doc;
+    });
     io.out(JSON.stringify(docs.length === 1 ? docs[0] : docs, null, 2) + '\n');
   } else if (opts.format === 'sarif') {
     // The reference beside the installed command (dist/ in a package, src/cli/ in the repository).

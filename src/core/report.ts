@@ -33,6 +33,10 @@ export interface JsonSegment {
   spread?: { cov: number[][]; ellipse95: { a_mm: number; b_mm: number; tilt_deg: number }; heading_sd_deg: number };
   /** A mark: the probability of meeting it (0..1). */
   hit_probability?: number;
+  /** With `--samples N`: the sampled runs' mean end pose and covariance (mm, degrees). */
+  sampled?: { count: number; mean: JsonPose; cov: number[][] };
+  /** With `--samples N`, on marks: the share of sampled runs that meet it. */
+  sampled_hit_probability?: number;
 }
 
 export interface JsonPrediction {

@@ -73,6 +73,13 @@ describe('veer command line', () => {
       assert.match(e.err, /some targets may be missing or wrong/);
       assert.equal(run(['targets', '--csv', '--json', example]).status, 2);
       assert.equal(run(['check', '--csv', example]).status, 2);
+      // The sampled runs go only into `check --json`, with a sensible count.
+      for (const args of [['check', '--samples', '100', example], ['check', '--json', '--samples', '1', example], ['check', '--json', '--samples', 'many', example],
+        ['check', '--json', '--seed', '3', example], ['targets', '--samples', '10', example]]) {
+        const r = run(args);
+        assert.equal(r.status, 2, args.join(' '));
+        assert.match(r.err, /--samples|--seed/);
+      }
       // The simulation's samples go only into `check --json`.
       for (const args of [['check', '--trace', example], ['check', '--format', 'sarif', '--trace', example], ['targets', '--trace', example], ['render', example, '-o', '/dev/null', '--trace']]) {
         const r = run(args);

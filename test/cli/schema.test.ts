@@ -59,6 +59,21 @@ describe('JSON schemas', () => {
     assert.ok(trace.every((r) => r.target_deg !== null));
   });
 
+  it('check --json --samples N: each mark\'s sampled share agrees with the linear model\'s probability (3 binomial σ), repeatably', () => {
+    const plan = join(root, 'test', 'fixtures', 'parcel-round.veer');
+    const doc = JSON.parse(run(['check', '--json', '--samples', '2000', '--seed', '7', plan])) as JsonDocument;
+    assert.ok(checkSchema(doc), ajv.errorsText(checkSchema.errors));
+    const marks = doc.runs.flatMap((r) => r.segments.filter((s) => s.kind === 'mark' && s.hit_probability !== undefined));
+    assert.ok(marks.length >= 2);
+    for (const m of marks) {
+      const p = m.hit_probability!;
+      // The binomial sampling error of a share from 2,000 runs: √(p(1−p)/2000).
+      assert.ok(Math.abs(m.sampled_hit_probability! - p) <= 3 * Math.sqrt((p * (1 - p)) / 2000) + 1e-9, `${m.label}: ${m.sampled_hit_probability} vs ${p}`);
+    }
+    // The same seed gives the same samples.
+    assert.equal(run(['check', '--json', '--samples', '2000', '--seed', '7', plan]), JSON.stringify(doc, null, 2) + '\n');
+  });
+
   it('the schemas reject what they should (a heading of 360, a missing field)', () => {
     const doc = JSON.parse(run(['check', '--json', plans[0]]));
     const seg = doc.runs[0].segments[0];

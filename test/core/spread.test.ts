@@ -4,6 +4,7 @@ import * as mathjs from 'mathjs';
 import { odometryStep, propagateTravel, ZERO_COV } from '../../src/core/spread/propagate';
 import { mulberry32 } from '../support/random';
 import { propagateRun } from '../../src/core/spread/run';
+import { sampleRun, sampleStats } from '../../src/core/spread/sample';
 import { checkPlan } from '../../src/core';
 
 // The two-dimensional normal behind the spread of where the robot ends up
@@ -170,5 +171,34 @@ describe('spread: marks', () => {
     const r = checkPlan(['wheel 56 mm', 'track 120 mm', 'zone "bay" (300, 300) to (700, 1100)', 'start (500, 500) heading 0', 'drive 200', 'mark "in" in "bay"'].join('\n'), { simulate: false });
     assert.ok(r.runs[0].segments.find((s) => s.kind === 'mark')!.hitProbability! > 0.999);
     assert.equal(r.diagnostics.filter((d) => d.code === 'miss').length, 0);
+  });
+});
+
+describe('spread: the linear model against the Monte Carlo', () => {
+  it('mean and covariance of 4,000 sampled runs agree with the linear model within sampling error (3 σ), for small noise', () => {
+    // Sampling error of a variance from N samples: σ²·√(2/N) (2.2 % at N = 4,000); of a mean: σ/√N.
+    const noise = { drive: 0.005, turn: 0.005, gyro: 0.5, drift: 0.5 / 60 };
+    const lines = ['wheel 56 mm', 'track 120 mm', 'field 3000 by 3000', 'start (800, 600) heading 0', 'drive 600', 'turn 90',
+      'drive 400 hold 90', 'turn -45 arc 300', 'turn 45 by gyro', 'reset yaw', 'drive 300', 'turn -90 by gyro', 'drive 500'];
+    const r = checkPlan(lines.join('\n'), { simulate: false });
+    const segs = r.runs[0].segments;
+    const linear = propagateRun(segs, noise, 120, 'clockwise').bySegment;
+    const samples = sampleRun(segs, noise, 120, 'clockwise', 4000, 12345);
+    for (let i = 1; i < segs.length; i++) {
+      const { mean, cov } = sampleStats(samples, i);
+      const lin = linear.get(segs[i])!.cov;
+      const end = segs[i].end;
+      for (const [k, planned] of [[0, end.x], [1, end.y]] as const) {
+        const sd = Math.sqrt(lin[k][k]);
+        assert.ok(Math.abs(mean[k] - planned) <= 3 * sd / Math.sqrt(4000) + 0.05, `line ${segs[i].line + 1} mean ${k}: ${mean[k]} vs ${planned} (sd ${sd})`);
+      }
+      for (let a = 0; a < 3; a++) {
+        for (let b = a; b < 3; b++) {
+          // A covariance's sampling sd: √((σa²σb² + σab²)/N).
+          const tol = 3 * Math.sqrt((lin[a][a] * lin[b][b] + lin[a][b] ** 2) / 4000) + 1e-9;
+          assert.ok(Math.abs(cov[a][b] - lin[a][b]) <= tol, `line ${segs[i].line + 1} cov[${a}][${b}]: sampled ${cov[a][b]} vs linear ${lin[a][b]} (± ${tol})`);
+        }
+      }
+    }
   });
 });

@@ -175,8 +175,10 @@ function travel(P: Cov, piece: PathPiece, compass: (deg: number) => number, trac
     P.applyOne(X, H, step * cos);
     P.applyOne(Y, H, -step * sin);
     if (scaled) {
+      // A wheel a little larger or smaller scales every travel, a turn's too.
       P.applyOne(X, DIST, step * sin);
       P.applyOne(Y, DIST, step * cos);
+      P.applyOne(H, DIST, turn);
     }
     if (encoderTurn) P.applyOne(H, TRACK, -turn);
     // Random wheel error (Chong & Kleeman): variance k·|travel| per wheel, through the step's Jacobian.
