@@ -5,6 +5,7 @@ import { odometryStep, propagateTravel, ZERO_COV } from '../../src/core/spread/p
 import { mulberry32 } from '../support/random';
 import { propagateRun } from '../../src/core/spread/run';
 import { sampleRun, sampleStats } from '../../src/core/spread/sample';
+import { hoverAt } from '../../src/core/insight/hover';
 import { checkPlan } from '../../src/core';
 
 // The two-dimensional normal behind the spread of where the robot ends up
@@ -200,5 +201,19 @@ describe('spread: the linear model against the Monte Carlo', () => {
         }
       }
     }
+  });
+});
+
+describe('spread: what a reset does', () => {
+  it('the hover of a reset compares the spread at the run\'s end with and without it', () => {
+    // Every turn zeroed versus one reference (the rule the tests above check): the hover shows the two figures side by side.
+    const text = ['wheel 56 mm', 'track 120 mm', 'start (500, 500) heading 0', 'drive 800', 'turn 90 by gyro', 'drive 800', 'reset yaw', 'turn 90 by gyro', 'drive 800'].join('\n');
+    const r = checkPlan(text, { simulate: false });
+    const md = hoverAt(r, text, { line: 6, character: 7 })!.markdown;
+    const m = /at the run's end ([\d.]+) mm with it, ([\d.]+) mm without it/.exec(md);
+    assert.ok(m, md);
+    // Zeroing after a drive hands that drive's heading error on to the next gyro turn: the end spreads wider with it.
+    assert.ok(Number(m[1]) > Number(m[2]), md);
+    assert.match(md, /heading at the end \(±2 sd\): [\d.]+° with it, [\d.]+° without it/);
   });
 });
