@@ -358,6 +358,10 @@ function checkPlanUnguarded(text: string, options: CheckOptions): CheckResult {
         const turn = ev(s.turn, 'fraction');
         const gyro = ev(s.gyro, 'angle');
         const drift = ev(s.drift, 'angularSpeed');
+        const wheel = ev(s.wheel, 'length');
+        if (wheel !== undefined && s.wheel && (wheel < 0 || wheel > 10)) {
+          report(s.wheel.range, 'error', 'setup', `a wheel noise of ${fmt(wheel, 3)} mm is ${wheel < 0 ? 'negative' : 'far beyond any wheel on a table (a metre of driving would spread the heading by tens of degrees)'}: it is the variance, per millimetre driven, of each wheel's random travel error, about 0.01 mm for small rubber wheels, e.g. \`noise wheel 0.01 mm\`.`);
+        } else if (wheel !== undefined) setup.noise.wheel = wheel;
         for (const [v, e, what] of [[drive, s.drive, 'drive'], [turn, s.turn, 'turn'], [gyro, s.gyro, 'gyro'], [drift, s.drift, 'drift']] as const) {
           if (v !== undefined && e && v < 0) report(e.range, 'error', 'setup', `the ${what} noise cannot be negative.`);
         }

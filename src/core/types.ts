@@ -81,6 +81,7 @@ export interface NoiseStmt extends StatementBase {
   turn?: ExprNode;
   gyro?: ExprNode;
   drift?: ExprNode;
+  wheel?: ExprNode;
 }
 /** `gyro [sample T] [delay T] [scale F]`: the yaw sensor as the robot's control loop reads it (at least one option). */
 export interface GyroStmt extends StatementBase { kind: 'gyro'; sample?: ExprNode; delay?: ExprNode; scale?: ExprNode }
@@ -236,6 +237,8 @@ export interface NoiseModel {
   gyro: number;
   /** degrees per second */
   drift: number;
+  /** Random wheel travel error, mm: variance wheel·|travel| per wheel (`noise wheel K`; the robot model's 0.01 mm when absent). */
+  wheel?: number;
 }
 
 export interface Obstacle {

@@ -259,7 +259,7 @@ describe('insight: completion', () => {
   it('offers the simulation options: `stall`, `mismatch`, and the gyro\'s own options right after `gyro`', () => {
     assert.deepEqual(labels('gyro '), ['sample', 'delay', 'scale']);
     assert.deepEqual(labels('gyro sample 10 ms '), ['delay', 'scale']);
-    assert.deepEqual(labels('noise '), ['drive', 'turn', 'gyro', 'drift']);
+    assert.deepEqual(labels('noise '), ['drive', 'turn', 'gyro', 'drift', 'wheel']);
     assert.deepEqual(labels('motor 900 deg/s '), ['lag', 'stall']);
     assert.deepEqual(labels('wheel 56 mm '), ['mismatch']);
     assert.ok(labels('g').includes('gyro'));

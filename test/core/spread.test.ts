@@ -217,3 +217,24 @@ describe('spread: what a reset does', () => {
     assert.match(md, /heading at the end \(±2 sd\): [\d.]+° with it, [\d.]+° without it/);
   });
 });
+
+describe('spread: noise wheel', () => {
+  it('`noise wheel K` sets the wheels\' random error: twice K, twice the heading variance of a straight encoder drive (k D / b², Chong & Kleeman)', () => {
+    const headingVar = (extra: string[]) => {
+      const r = checkPlan(['wheel 56 mm', 'track 120 mm', 'noise drive 0% turn 0% gyro 0 deg drift 0 deg/s', ...extra, 'start (500, 500) heading 0', 'drive 1000'].join('\n'), { simulate: false });
+      assert.deepEqual(r.diagnostics.filter((d) => d.severity === 'error').map((d) => d.message), []);
+      return r.runs[0].segments[1].spread!.cov[2][2];
+    };
+    const base = headingVar([]);
+    // k = kL + kR = 0.02 mm, D = 1000 mm, b = 120 mm: 0.02·1000/120² rad² = 1.3889e-3 rad² = 4.5595 deg².
+    assert.ok(Math.abs(base - 1.3889e-3 * (180 / Math.PI) ** 2) < 0.01, `${base}`);
+    const r2 = checkPlan(['wheel 56 mm', 'track 120 mm', 'noise drive 0% turn 0% gyro 0 deg drift 0 deg/s wheel 0.02 mm', 'start (500, 500) heading 0', 'drive 1000'].join('\n'), { simulate: false });
+    assert.ok(Math.abs(r2.runs[0].segments[1].spread!.cov[2][2] / base - 2) < 1e-9);
+  });
+
+  it('a wheel noise outside 0 to 10 mm is refused with a clear message', () => {
+    const r = checkPlan(['wheel 56 mm', 'track 120 mm', 'noise wheel 50 mm', 'start (500, 500) heading 0'].join('\n'));
+    const e = r.diagnostics.find((d) => d.code === 'setup')!;
+    assert.match(e.message, /wheel noise of 50 mm is far beyond any wheel on a table/);
+  });
+});

@@ -22,8 +22,10 @@ function quarterSpin(result: CheckResult, track: number): string | undefined {
 }
 
 export const WORD_EXPLANATIONS: Record<string, Explain> = {
-  wheel: (r) => `**wheel**: the wheel's diameter, measured across the tyre. Every wheel and motor degree comes from it: one wheel turn drives π × diameter` +
-    (r.setup.robot.wheelDiameter !== undefined ? ` (here ${formatLength(Math.PI * r.setup.robot.wheelDiameter, r.setup.lengthUnit)}).` : '.'),
+  wheel: (r, s) => s.kind === 'noise'
+    ? '**noise wheel**: each wheel\'s random travel error, as its variance per millimetre driven (about 0.01 mm for small rubber wheels): it spreads the heading, and so where the robot ends, more the farther it drives by encoders.'
+    : `**wheel**: the wheel's diameter, measured across the tyre. Every wheel and motor degree comes from it: one wheel turn drives π × diameter` +
+      (r.setup.robot.wheelDiameter !== undefined ? ` (here ${formatLength(Math.PI * r.setup.robot.wheelDiameter, r.setup.lengthUnit)}).` : '.'),
   track: (r) => {
     const t = r.setup.robot.track;
     const spin = t !== undefined ? quarterSpin(r, t) : undefined;

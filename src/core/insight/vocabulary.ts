@@ -32,7 +32,7 @@ export const STATEMENTS: StatementWords[] = [
   { keyword: 'box', group: 'setup', summary: 'a rectangular obstacle', options: ['to'] },
   { keyword: 'circle', group: 'setup', summary: 'a round obstacle', options: ['radius'] },
   { keyword: 'zone', group: 'setup', summary: 'a named area (not an obstacle)', options: ['to'] },
-  { keyword: 'noise', group: 'setup', summary: 'error model', options: ['drive', 'turn', 'gyro', 'drift'], optionsOnly: true },
+  { keyword: 'noise', group: 'setup', summary: 'error model', options: ['drive', 'turn', 'gyro', 'drift', 'wheel'], optionsOnly: true },
   { keyword: 'limit', group: 'setup', summary: 'time allowed for each run', options: [] },
   { keyword: 'let', group: 'setup', summary: 'bind a name to a value', options: [] },
   { keyword: 'run', group: 'run', summary: 'begin a run', options: [] },

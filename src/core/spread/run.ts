@@ -87,7 +87,7 @@ export interface RunSpread {
  * reference.
  */
 export function propagateRun(segments: readonly Segment[], noise: NoiseModel, track: number, turns: TurnDirection,
-  resetsAt: ReadonlySet<Segment> = new Set(), wheel: number = SPREAD_DEFAULTS.wheel, squareSpread = true): RunSpread {
+  resetsAt: ReadonlySet<Segment> = new Set(), wheel: number = noise.wheel ?? SPREAD_DEFAULTS.wheel, squareSpread = true): RunSpread {
   const P = new Cov();
   const bySegment = new Map<Segment, Spread>();
   const flip = turns === 'clockwise' ? 1 : -1;
@@ -207,7 +207,7 @@ export function shares(segments: readonly Segment[], at: Segment, noise: NoiseMo
   const only = (src: SpreadSource): number => {
     const n: NoiseModel = { drive: 0, turn: 0, gyro: 0, drift: 0 };
     if (src !== 'wheel') n[src] = noise[src];
-    const sp = propagateRun(segments, n, track, turns, resetsAt, src === 'wheel' ? SPREAD_DEFAULTS.wheel : 0, false).bySegment.get(at);
+    const sp = propagateRun(segments, n, track, turns, resetsAt, src === 'wheel' ? noise.wheel ?? SPREAD_DEFAULTS.wheel : 0, false).bySegment.get(at);
     return sp ? (sp.ellipse95.a ** 2) / CHI2 : 0;
   };
   return { drive: only('drive'), turn: only('turn'), gyro: only('gyro'), drift: only('drift'), wheel: only('wheel') };

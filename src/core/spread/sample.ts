@@ -55,7 +55,7 @@ export function sampleRun(segments: readonly Segment[], noise: NoiseModel, track
     x: segments.map(() => new Float64Array(count)), y: segments.map(() => new Float64Array(count)), heading: segments.map(() => new Float64Array(count)),
   };
   const gauss = normalSource(seed);
-  const k = SPREAD_DEFAULTS.wheel;
+  const k = noise.wheel ?? SPREAD_DEFAULTS.wheel;
   const planned = (deg: number) => flip * deg * RAD;
   const pose = { x: 0, y: 0, h: 0 };
   for (let s = 0; s < count; s++) {

@@ -35,7 +35,7 @@ export const OPTIONS: Record<Statement['kind'], readonly string[]> = {
   box: ['to'],
   circle: ['radius'],
   zone: ['to'],
-  noise: ['drive', 'turn', 'gyro', 'drift'],
+  noise: ['drive', 'turn', 'gyro', 'drift', 'wheel'],
   gyro: ['sample', 'delay', 'scale'],
   limit: [],
   let: [],

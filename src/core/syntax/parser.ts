@@ -148,6 +148,7 @@ const NOISE_OPTIONS: OptionSpecs = {
   turn: { value: EXPR, example: 'turn 1.5%' },
   gyro: { value: EXPR, example: 'gyro 1 deg' },
   drift: { value: EXPR, example: 'drift 0.5 deg/min' },
+  wheel: { value: EXPR, example: 'wheel 0.01 mm' },
 };
 
 const SQUARE_OPTIONS: OptionSpecs = { speed: { value: EXPR, example: 'speed 30%' } };
@@ -402,7 +403,7 @@ class LineReader {
     this.optionWords = OPTIONS.noise;
     const options = this.options(NOISE_OPTIONS);
     const fields: StatementFields<NoiseStmt> = { kind: 'noise' };
-    copyExprs(fields, options, ['drive', 'turn', 'gyro', 'drift']);
+    copyExprs(fields, options, ['drive', 'turn', 'gyro', 'drift', 'wheel']);
     return this.finish<NoiseStmt>(keyword, keyword, fields);
   }
 
