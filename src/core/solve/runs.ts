@@ -122,12 +122,9 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
     }
 
     // What the real robot does: every motion simulated in order.
-    const T0 = performance.now();
     const prediction: RunPrediction = options.simulate === false ? { events: [] } : predictRun(segments, (seg) => motionOf.get(seg), setup, footprint, walls, budget);
-    const T1 = performance.now();
     reportPrediction(prediction);
     spreadRun();
-    (globalThis as any).PROF = { predict: T1 - T0, report: performance.now() - T1, sweep: performance.now() - (globalThis as any).PROF_T };
 
     function solveMotion(m: EvaluatedMotion): void {
       const s = m.stmt;
@@ -275,7 +272,6 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       }
       // The predicted path, where it leaves the planned one, checked like it
       // (against what the planned path of the same line does not already hit).
-      (globalThis as any).PROF_T = performance.now();
       const hitOnLine = new Map<number, Set<string>>();
       for (const d of diagnostics) {
         if (d.code !== 'collision' && d.code !== 'off-field') continue;
