@@ -6,6 +6,7 @@ import { checkPlan, fixPlan, proveFix, renderSvg, targetsCsv, targetsDocument, t
 import { pathToFileURL } from 'node:url';
 import { diagnosticLine, runSummaryLine, toJsonDocument } from '../core/report';
 import { sampleRun, sampleStats } from '../core/spread/sample';
+import { meetsMark } from '../core/spread/gaussian';
 import { version } from '../../package.json';
 
 const HELP = `veer ${version}: check and draw plans for two-wheeled robot runs
@@ -237,47 +238,20 @@ function addSamples(doc: ReturnType<typeof toJsonDocument>, result: CheckResult,
   const width = result.setup.robot.effectiveTrack ?? result.setup.robot.track;
   if (width === undefined) return;
   result.runs.forEach((run, r) => {
-    const resets = new Set(run.segments.filter((s) => s.kind === 'turn' && turnResets(result, s.line)));
-    const samples = sampleRun(run.segments, result.setup.noise, width, result.setup.turns, count, seed + r, resets,
+    const samples = sampleRun(run.segments, result.setup.noise, width, result.setup.turns, count, seed + r,
       onProgress && ((f) => onProgress((r + f) / result.runs.length)));
     run.segments.forEach((seg, i) => {
       const { mean, cov } = sampleStats(samples, i);
       const r6 = (v: number) => Math.round(v * 1e6) / 1e6;
       const out = doc.runs[r].segments[i];
       out.sampled = { count, mean: { x_mm: r6(mean[0]), y_mm: r6(mean[1]), heading_deg: r6(mean[2]) }, cov: cov.map((row) => row.map(r6)) };
-      if (seg.kind === 'mark') {
-        const hit = markHits(result, seg, samples.x[i], samples.y[i]);
-        if (hit !== undefined) out.sampled_hit_probability = hit;
+      if (seg.markTarget) {
+        const target = seg.markTarget;
+        out.sampled_hit_probability = samples.x[i].filter((x, j) => meetsMark(target, x, samples.y[i][j])).length / count;
       }
     });
   });
   onProgress?.(1);
-}
-
-function turnResets(result: CheckResult, line: number): boolean {
-  const stmt = result.ast.statements.find((s) => s.line === line);
-  return stmt?.kind === 'turn' && stmt.reset;
-}
-
-/** The share of sampled end points that meet a mark (its zone, or within `within` of its point). */
-function markHits(result: CheckResult, seg: CheckResult['runs'][number]['segments'][number], xs: Float64Array, ys: Float64Array): number | undefined {
-  const stmt = result.ast.statements.find((s) => s.line === seg.line);
-  if (stmt?.kind !== 'mark') return undefined;
-  let inside: (x: number, y: number) => boolean;
-  if (stmt.inZone) {
-    const zone = result.setup.zones.find((z) => z.name === stmt.inZone!.value);
-    if (!zone) return undefined;
-    inside = (x, y) => x >= zone.min.x && x <= zone.max.x && y >= zone.min.y && y <= zone.max.y;
-  } else if (stmt.at) {
-    const at = result.values.find((v) => v.range.start.line === stmt.at!.x.range.start.line && v.range.start.character === stmt.at!.x.range.start.character);
-    const aty = result.values.find((v) => v.range.start.line === stmt.at!.y.range.start.line && v.range.start.character === stmt.at!.y.range.start.character);
-    const within = stmt.within ? result.values.find((v) => v.range.start.character === stmt.within!.range.start.character && v.range.start.line === stmt.within!.range.start.line)?.value : 20;
-    if (!at || !aty || within === undefined) return undefined;
-    inside = (x, y) => Math.hypot(x - at.value, y - aty.value) <= within;
-  } else return undefined;
-  let hits = 0;
-  for (let i = 0; i < xs.length; i++) if (inside(xs[i], ys[i])) hits++;
-  return hits / xs.length;
 }
 
 function failed(result: CheckResult, strict: boolean): boolean {

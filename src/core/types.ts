@@ -371,6 +371,8 @@ export interface Segment {
   end: Pose;
   /** Signed angle turned, degrees, positive in the file's `turns` direction. */
   turned: number;
+  /** A turn written with `reset`: the yaw reads zero just before it. */
+  zeroesYaw?: boolean;
   /** A `hold` drive's change of heading as the statement asks for it (its curve may end a little short of it). */
   asked?: number;
   /** Yaw readings (wrapped into the sensor range) before and after. */
@@ -405,6 +407,8 @@ export interface Segment {
   spread?: SegmentSpread;
   /** A `mark`: the probability of meeting it (inside its zone, or within `within` of its point). */
   hitProbability?: number;
+  /** A `mark` with a zone or a point: what it asks for. */
+  markTarget?: import('./spread/gaussian').MarkTarget;
 }
 
 export interface RunResult {

@@ -126,8 +126,7 @@ describe('spread: along a run (robot model section 3 rules)', () => {
     const lines = [...robot, 'start (1500, 500) heading 0', ...motions];
     const r = checkPlan(lines.join('\n'), { simulate: false });
     const segs = r.runs[0].segments;
-    const resets = new Set(segs.filter((s) => /\breset$/.test(lines[s.line])));
-    const { bySegment } = propagateRun(segs, noise, 120, 'clockwise', resets);
+    const { bySegment } = propagateRun(segs, noise, 120, 'clockwise');
     return bySegment.get(segs[segs.length - 1])!.headingSd;
   };
 

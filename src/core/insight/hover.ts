@@ -1,7 +1,7 @@
 // Hover text for a plan: a `let` name's value, an expression's value in the
 // file's units, or everything computed for a motion line.
 import { propagateRun } from '../spread/run';
-import { discProbability, rectangleProbability } from '../spread/gaussian';
+import { markProbability } from '../spread/gaussian';
 import type { CheckResult, LengthUnitName, MotionStmt, Pos, Range, Segment, Statement } from '../types';
 import { formatAngle, formatHeading, formatLength, formatNumber, formatTime, formatWheels } from './format';
 import { identifierAt, rangeContains, rangeSize, splitLines } from './text';
@@ -64,7 +64,7 @@ function motionHover(result: CheckResult, pos: Pos): HoverInfo | undefined {
   if (segments.length === 0) return undefined;
   const markdown = describeSegments(segments, result.setup.lengthUnit, robotNotes(result, segments));
   const reset = statement.kind === 'resetYaw' || (statement.kind === 'turn' && statement.reset);
-  return { markdown: reset ? `${markdown}\n\n${resetEffect(result, segments[0], statement.kind === 'turn')}` : markdown, range: statement.range };
+  return { markdown: reset ? `${markdown}\n\n${resetEffect(result, segments[0])}` : markdown, range: statement.range };
 }
 
 /**
@@ -72,15 +72,12 @@ function motionHover(result: CheckResult, pos: Pos): HoverInfo | undefined {
  * the run's end and the chance of meeting each later mark, with the zero and
  * without it (the spread model, robot model section 3).
  */
-function resetEffect(result: CheckResult, seg: Segment, onTurn: boolean): string {
+function resetEffect(result: CheckResult, seg: Segment): string {
   const run = result.runs.find((r) => r.segments.includes(seg));
   const width = result.setup.robot.effectiveTrack ?? result.setup.robot.track;
   if (!run || width === undefined) return '';
-  const resets = new Set(run.segments.filter((s) => s.kind === 'turn' && s.line !== seg.line && result.ast.statements.some((st) => st.line === s.line && st.kind === 'turn' && st.reset)));
-  const withIt = propagateRun(run.segments, result.setup.noise, width, result.setup.turns, onTurn ? new Set([...resets, seg]) : resets);
-  // Without it: the same run with this zero taken out.
-  const others = onTurn ? run.segments : run.segments.filter((s) => s !== seg);
-  const without = propagateRun(others, result.setup.noise, width, result.setup.turns, resets);
+  const withIt = propagateRun(run.segments, result.setup.noise, width, result.setup.turns);
+  const without = propagateRun(run.segments, result.setup.noise, width, result.setup.turns, { without: seg });
   const last = run.segments[run.segments.length - 1];
   const size = (sp: { ellipse95: { a: number } } | undefined) => (sp ? formatLength(sp.ellipse95.a, result.setup.lengthUnit) : '?');
   const lines = [`**this zero of the yaw** (19 runs in 20 end within the oval): at the run's end ${size(withIt.bySegment.get(last))} with it, ${size(without.bySegment.get(last))} without it`];
@@ -89,7 +86,7 @@ function resetEffect(result: CheckResult, seg: Segment, onTurn: boolean): string
   // Each later mark's chance, both ways.
   const from = run.segments.indexOf(seg);
   for (const mark of run.segments.slice(from).filter((s) => s.kind === 'mark').slice(0, 3)) {
-    const chance = (sp: Segment['spread']) => (sp ? markChance(result, mark, sp) : undefined);
+    const chance = (sp: Segment['spread']) => (sp && mark.markTarget ? markProbability(mark.markTarget, mark.end, { xx: sp.cov[0][0], xy: sp.cov[0][1], yy: sp.cov[1][1] }) : undefined);
     const a = chance(withIt.bySegment.get(mark));
     const b = chance(without.bySegment.get(mark));
     if (a !== undefined && b !== undefined) lines.push(`"${mark.label}" met in ${Math.round(a * 100)} % of runs with it, ${Math.round(b * 100)} % without it`);
@@ -109,24 +106,6 @@ function robotNotes(result: CheckResult, segments: Segment[]): string[] {
     notes.push(`this encoder turn's motor degrees use the effective track, ${formatLength(robot.effectiveTrack, result.setup.lengthUnit)} (measured: ${formatLength(robot.track, result.setup.lengthUnit)}), which is what the robot really needs to turn; the wheel degrees use the measured track`);
   }
   return notes;
-}
-
-/** The chance that a run meets a mark, for a given spread at it. */
-function markChance(result: CheckResult, mark: Segment, sp: NonNullable<Segment['spread']>): number | undefined {
-  const stmt = result.ast.statements.find((st) => st.line === mark.line);
-  if (stmt?.kind !== 'mark') return undefined;
-  const c = { xx: sp.cov[0][0], xy: sp.cov[0][1], yy: sp.cov[1][1] };
-  if (stmt.inZone) {
-    const zone = result.setup.zones.find((z) => z.name === stmt.inZone!.value);
-    return zone ? rectangleProbability(mark.end, c, zone.min.x, zone.max.x, zone.min.y, zone.max.y) : undefined;
-  }
-  // A point: its probability as the check worked it out scales with the spread; recompute from the drawn values.
-  if (mark.hitProbability === undefined || !mark.spread) return undefined;
-  const value = (e?: { range: Range }) => (e ? result.values.find((v) => v.range.start.line === e.range.start.line && v.range.start.character === e.range.start.character)?.value : undefined);
-  const x = value(stmt.at?.x);
-  const y = value(stmt.at?.y);
-  const within = stmt.within ? value(stmt.within) : 20;
-  return x !== undefined && y !== undefined && within !== undefined ? discProbability(mark.end, c, { x, y }, within) : undefined;
 }
 
 /**

@@ -3,7 +3,7 @@
 // rotation about the point it leaves fixed) wherever one such motion passes
 // every pose between within a tolerance.
 import type { PathPiece, Pose, TurnDirection } from '../types';
-import { forwardVector, rotateAbout } from '../solve/frame';
+import { rotateAbout } from '../solve/frame';
 
 /** Growable columns of poses. */
 export class PoseBuffer {
@@ -81,7 +81,7 @@ const KEY_MM = 50;
 /** The rigid motion from `a` to `b`: a rotation about its fixed point, or a slide. */
 export function rigidPiece(a: Pose, b: Pose, turns: TurnDirection): PathPiece {
   const turned = b.heading - a.heading;
-  if (Math.abs(turned) < 1e-9) return { type: 'line', from: a, to: b };
+  if (Math.abs(turned) < 1e-12) return { type: 'line', from: a, to: b };
   // The fixed point c solves b − c = R(a − c): (I − R) c = b − R a.
   const ang = (turns === 'clockwise' ? -1 : 1) * turned * (Math.PI / 180);
   const cos = Math.cos(ang);
@@ -92,6 +92,7 @@ export function rigidPiece(a: Pose, b: Pose, turns: TurnDirection): PathPiece {
   const m12 = sin;
   const det = m11 * m11 + m12 * m12;
   const center = { x: (rx * m11 - m12 * ry) / det, y: (m11 * ry + m12 * rx) / det };
+  // A hair of a turn has its fixed point far away: it is the slide it nearly is.
   if (!Number.isFinite(center.x) || !Number.isFinite(center.y) || Math.hypot(center.x - a.x, center.y - a.y) > 1e5) {
     return { type: 'line', from: a, to: b };
   }
@@ -154,6 +155,3 @@ export function poseDifference(a: Pose, b: Pose): { mm: number; deg: number } {
   const d = ((((a.heading - b.heading) % 360) + 540) % 360) - 180;
   return { mm: Math.hypot(a.x - b.x, a.y - b.y), deg: Math.abs(d) };
 }
-
-/** The unit vector a pose faces (re-exported for the run's checks). */
-export { forwardVector };

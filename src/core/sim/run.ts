@@ -4,6 +4,7 @@
 import type { DriveStmt, PathPiece, Pose, PlanSetup, Prediction, Segment, SquareStmt, TurnStmt } from '../types';
 import type { EvaluatedMotion } from '../solve/runs';
 import type { Wall } from '../solve/square';
+import type { TraceColumns } from '../../shared/messages';
 import type { Footprint } from '../solve/frame';
 import { squareUp } from '../solve/square';
 import {
@@ -159,10 +160,7 @@ export function predictRun(
       const gm = motion;
       p.settle = outcome.finished ? p.duration : undefined;
       // Degrees past the target once the wheels have run down, on the reading's own scale.
-      const first = readingOf(records.get(seg)!.state, robot);
-      const rest = first + robot.scale * (coastedHeading(state, robot) - records.get(seg)!.state.h);
-      const way = Math.sign(gm.target - first) || 1;
-      p.overshoot = way * (rest - gm.target);
+      p.overshoot = overshootOf(records.get(seg)!.state, state, robot, gm.target);
       if (outcome.finished && p.overshoot > gm.stop) events.push({ seg, kind: 'overshoot' });
     }
     if (outcome.stalled) events.push({ seg, kind: 'stall' });
@@ -227,7 +225,7 @@ function predictedPieces(rec: SimRecord | undefined, pathEnd: Pose | undefined, 
 }
 
 /** The simulated motion a segment's statement commands, from the state it really starts in. */
-export function motionFor(seg: Segment, m: EvaluatedMotion, state: SimState, robot: SimRobot, patch: Partial<GyroSettings> = {}): SimMotion | undefined {
+export function motionFor(seg: Segment, m: EvaluatedMotion, state: SimState, robot: SimRobot): SimMotion | undefined {
   const s = m.stmt;
   if (s.kind === 'wait') return { kind: 'wait', time: Math.max(0, seg.duration) };
   if (s.kind === 'drive') {
@@ -251,11 +249,11 @@ export function motionFor(seg: Segment, m: EvaluatedMotion, state: SimState, rob
       if (target === undefined) return undefined;
       return {
         kind: 'gyro-turn', target,
-        gain: patch.gain ?? (tm.gain ?? 1) / 100,
-        min: patch.min ?? seg.minPower ?? 0.1,
-        power: patch.power ?? seg.power,
+        gain: (tm.gain ?? 1) / 100,
+        min: seg.minPower ?? 0.1,
+        power: seg.power,
         stop: tm.stop ?? 1,
-        ramp: patch.ramp ?? s.ramp,
+        ramp: s.ramp,
         shareL: (way * seg.wheelDeg.left) / outer,
         shareR: (way * seg.wheelDeg.right) / outer,
       };
@@ -278,15 +276,7 @@ function squareFrom(state: SimState, seg: Segment, s: SquareStmt, setup: PlanSet
 }
 
 /** The rows of one motion's trace (the robot model's outputs), simulated again from its recorded start. */
-export interface TraceRows {
-  t: number[];
-  reading: number[];
-  target: (number | null)[];
-  error: (number | null)[];
-  powerLeft: number[];
-  powerRight: number[];
-  speedLeft: number[];
-  speedRight: number[];
+export interface TraceRows extends TraceColumns {
   x: number[];
   y: number[];
   heading: number[];
@@ -324,14 +314,20 @@ export function traceOf(seg: Segment): TraceRows | undefined {
 export function retryGyroTurn(seg: Segment, patch: Partial<GyroSettings>): { outcome: MotionOutcome; duration: number; overshoot: number } | undefined {
   const rec = records.get(seg);
   if (!rec || rec.motion.kind !== 'gyro-turn') return undefined;
-  const motion = { ...rec.motion, ...(patch.min !== undefined ? { min: patch.min } : {}), ...(patch.gain !== undefined ? { gain: patch.gain } : {}),
-    ...(patch.power !== undefined ? { power: patch.power } : {}), ...(patch.ramp !== undefined ? { ramp: patch.ramp } : {}),
-    ...(patch.stop !== undefined ? { stop: patch.stop } : {}) };
+  const motion = { ...rec.motion, ...patch };
   const state = copyState(rec.state);
   const outcome = simulateMotion(state, rec.robot, motion);
-  const first = readingOf(rec.state, rec.robot);
-  const rest = first + rec.robot.scale * (coastedHeading(state, rec.robot) - rec.state.h);
-  const way = Math.sign(motion.target - first) || 1;
-  return { outcome, duration: state.t - rec.state.t, overshoot: way * (rest - motion.target) };
+  return { outcome, duration: state.t - rec.state.t, overshoot: overshootOf(rec.state, state, rec.robot, motion.target) };
+}
+
+/**
+ * Signed degrees past a gyro turn's target once the wheels have run down
+ * (positive: beyond it), on the reading's own scale, from the state the turn
+ * started in and the one it ended in.
+ */
+function overshootOf(start: SimState, end: SimState, robot: SimRobot, target: number): number {
+  const first = readingOf(start, robot);
+  const rest = first + robot.scale * (coastedHeading(end, robot) - start.h);
+  return (Math.sign(target - first) || 1) * (rest - target);
 }
 

@@ -3,15 +3,15 @@
 // walls, time limit, marks).
 import type {
   Diagnostic, DiagnosticCode, DriveStmt, Fix, MarkStmt, PathPiece, PlanSetup, Point, Pose, Range,
-  ResetYawStmt, RunResult, Segment, Severity, SquareStmt, StartStmt, TurnDirection, TurnShape, TurnStmt, WaitStmt,
+  ResetYawStmt, RunResult, Segment, Severity, SquareStmt, StartStmt, TurnShape, TurnStmt, WaitStmt,
 } from '../types';
 import { footprintOf, forwardVector, rightVector, rotatePose, wrapReading, type Footprint } from './frame';
 import { shortWay, YawReadings } from './readings';
 import { encoderTurnTime, gyroTurnTime, profileTime } from './timing';
 import { MOTION_CAP_S, restState, simRobot, simulateMotion } from '../sim/motion';
-import { PoseBuffer, simplify } from '../sim/path';
-import { propagateRun, shares, type SpreadSource } from '../spread/run';
-import { discProbability, rectangleProbability } from '../spread/gaussian';
+import { PoseBuffer, rigidPiece, simplify } from '../sim/path';
+import { propagateRun, shares, zeroes, type SpreadSource } from '../spread/run';
+import { markProbability } from '../spread/gaussian';
 import { squareUp, wallsOf } from './square';
 import { sweepPiece, overlapsAt, type SweepHit } from './sweep';
 import { fmt } from '../units/evaluate';
@@ -167,6 +167,9 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
           const mm = m as Extract<EvaluatedMotion, { stmt: MarkStmt }>;
           const seg = baseSegment(s.line, 'mark', pose, pose, yawBefore, yawBefore);
           seg.label = s.name.value;
+          const zone = s.inZone ? setup.zones.find((z) => z.name === s.inZone!.value) : undefined;
+          if (zone) seg.markTarget = { kind: 'zone', name: zone.name, min: zone.min, max: zone.max };
+          else if (mm.at) seg.markTarget = { kind: 'point', at: mm.at, within: mm.within ?? MOTION_DEFAULTS.markWithin };
           segments.push(seg);
           checkMark(mm, pose);
           break;
@@ -239,7 +242,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
           if (stmt.kind === 'turn' && seg.sensing === 'gyro') {
             const short = Math.abs(p.overshoot ?? 0);
             const fix = unstallGyroTurn(seg);
-            const current = currentTurnSettings(seg, stmt);
+            const current = currentTurnSettings(seg);
             report(stmt.range, 'error', 'stall',
               `The robot stops ${fmt(short, 1)}° short of the target and waits for ever: near the target the controller gives ${fmt(current.min * 100)} % power (\`min\`), below the ${fmt(stall * 100)} % the wheels need to move (the stall power). ${fix ? `Raise \`min\` to ${fmt(fix.value! * 100)} % (predicted: ${fmt(fix.duration, 2)} s, ${fmt(Math.abs(fix.overshoot), 1)}° ${fix.overshoot >= 0 ? 'past' : 'short of'} the target).` : 'Raise `min` above the stall power.'}`,
               { at, ...(fix ? { fixes: [tuningFix(fix, stmt, current, true)] } : {}) });
@@ -256,7 +259,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         // result in its title, are worked out when asked for (a search of simulations per turn).
         if (stmt.kind !== 'turn') continue;
         const stop = simStop(seg) ?? MOTION_DEFAULTS.turnStop;
-        const current = currentTurnSettings(seg, stmt);
+        const current = currentTurnSettings(seg);
         const floorBound = (current.gain / 100) * stop <= current.min;
         const helps = floorBound
           ? `widen the stop band (\`stop\`), so the power stops earlier and the robot coasts onto the target, or lower \`min\``
@@ -322,26 +325,23 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
     function spreadRun(): void {
       const width = robot.effectiveTrack ?? robot.track;
       if (width === undefined || !(width > 0)) return;
-      const resetsAt = new Set(segments.filter((sg) => sg.kind === 'turn' && (motionOf.get(sg)?.stmt as TurnStmt | undefined)?.reset === true));
-      const { bySegment } = propagateRun(segments, setup.noise, width, turns, resetsAt);
+      const { bySegment } = propagateRun(segments, setup.noise, width, turns);
       for (const [seg, sp] of bySegment) seg.spread = sp;
       for (const seg of segments) {
         const m = motionOf.get(seg);
-        if (seg.kind !== 'mark' || !seg.spread || !m) continue;
+        const target = seg.markTarget;
+        if (seg.kind !== 'mark' || !seg.spread || !m || !target) continue;
         const mm = m as Extract<EvaluatedMotion, { stmt: MarkStmt }>;
-        const c = { xx: seg.spread.cov[0][0], xy: seg.spread.cov[0][1], yy: seg.spread.cov[1][1] };
-        const zone = mm.stmt.inZone ? setup.zones.find((z) => z.name === mm.stmt.inZone!.value) : undefined;
-        if (zone) seg.hitProbability = rectangleProbability(seg.end, c, zone.min.x, zone.max.x, zone.min.y, zone.max.y);
-        else if (mm.at) seg.hitProbability = discProbability(seg.end, c, mm.at, mm.within ?? MOTION_DEFAULTS.markWithin);
-        if (seg.hitProbability === undefined || seg.hitProbability >= MARK_LEVEL) continue;
+        seg.hitProbability = markProbability(target, seg.end, { xx: seg.spread.cov[0][0], xy: seg.spread.cov[0][1], yy: seg.spread.cov[1][1] });
+        if (seg.hitProbability >= MARK_LEVEL) continue;
         // The planned pose itself missing is reported already; this is the spread making it a gamble.
         if (diagnostics.some((d) => d.code === 'miss' && d.range.start.line === seg.line)) continue;
-        const share = shares(segments, seg, setup.noise, width, turns, resetsAt);
+        const share = shares(segments, seg, setup.noise, width, turns);
         const top = (Object.keys(share) as SpreadSource[]).reduce((a, b) => (share[b] > share[a] ? b : a));
-        const lastReset = [...segments.slice(0, segments.indexOf(seg))].reverse().find((sg) => sg.kind === 'reset' || resetsAt.has(sg));
-        const target = zone ? `inside the zone "${zone.name}"` : `within ${fmt(mm.within ?? MOTION_DEFAULTS.markWithin, 0)} mm of (${fmt(mm.at!.x, 0)}, ${fmt(mm.at!.y, 0)})`;
+        const lastReset = [...segments.slice(0, segments.indexOf(seg))].reverse().find(zeroes);
+        const where = target.kind === 'zone' ? `inside the zone "${target.name}"` : `within ${fmt(target.within, 0)} mm of (${fmt(target.at.x, 0)}, ${fmt(target.at.y, 0)})`;
         report(mm.stmt.range, 'warning', 'miss',
-          `Only ${fmt(seg.hitProbability * 100, 0)} % of runs end ${target} (${fmt(MARK_LEVEL * 100, 0)} % wanted): the planned pose meets the mark, but where the robot really ends spreads over an oval of ${fmt(seg.spread.ellipse95.a, 0)} × ${fmt(seg.spread.ellipse95.b, 0)} mm (19 runs in 20). Most of it comes from ${SOURCE_WORDS[top](setup.noise, lastReset ? lastReset.line + 1 : undefined)}.`,
+          `Only ${fmt(seg.hitProbability * 100, 0)} % of runs end ${where} (${fmt(MARK_LEVEL * 100, 0)} % wanted): the planned pose meets the mark, but where the robot really ends spreads over an oval of ${fmt(seg.spread.ellipse95.a, 0)} × ${fmt(seg.spread.ellipse95.b, 0)} mm (19 runs in 20). Most of it comes from ${SOURCE_WORDS[top](setup.noise, lastReset ? lastReset.line + 1 : undefined)}.`,
           { at: { x: seg.end.x, y: seg.end.y } });
       }
     }
@@ -356,9 +356,8 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       return m?.stop;
     }
 
-    function currentTurnSettings(seg: Segment, stmt: TurnStmt): { min: number; gain: number; power: number } {
+    function currentTurnSettings(seg: Segment): { min: number; gain: number; power: number } {
       const m = motionOf.get(seg) as Extract<EvaluatedMotion, { stmt: TurnStmt }>;
-      void stmt;
       return { min: m.min ?? MOTION_DEFAULTS.turnMin, gain: m.gain ?? MOTION_DEFAULTS.turnGain, power: m.speed ?? MOTION_DEFAULTS.turnPower };
     }
 
@@ -558,6 +557,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       const seg = baseSegment(s.line, 'turn', from, end, yawStart, reading(end));
       seg.shape = shape;
       seg.sensing = gyro ? 'gyro' : 'encoders';
+      if (s.reset) seg.zeroesYaw = true;
       seg.turned = turned;
       seg.radius = Math.abs(offset);
       seg.center = center;
@@ -635,7 +635,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       seg.distance = out.travel;
       // The drive along the heading to the first contact, then the turn onto the wall there.
       seg.path = [{ type: 'line', from, to: out.atContact }];
-      if (end !== out.atContact) seg.path.push(rigidMotion(out.atContact, end, turns));
+      if (end !== out.atContact) seg.path.push(rigidPiece(out.atContact, end, turns));
       const vMax = fullSpeed();
       if (needWheel(s.keywordRange) && vMax !== undefined) {
         checkPower(qm.speed, s.optionRanges.speed ?? s.range, 'speed');
@@ -860,27 +860,6 @@ function shiftPiece(piece: PathPiece, dir: Point, d: number): PathPiece {
     : { type: 'rotate', from: move(piece.from), to: move(piece.to), center: move(piece.center), turned: piece.turned };
 }
 
-/** The rigid motion taking one pose to another: a rotation about the point it leaves fixed, or a translation. */
-function rigidMotion(from: Pose, to: Pose, turns: TurnDirection): PathPiece {
-  const turned = to.heading - from.heading;
-  if (Math.abs(turned) < 1e-12) return { type: 'line', from, to };
-  // rotateAbout turns by a mathematical angle a; the fixed point c solves to − c = R(a)(from − c).
-  const a = (turns === 'clockwise' ? -1 : 1) * turned * RAD;
-  const cos = Math.cos(a);
-  const sin = Math.sin(a);
-  // (I − R) c = to − R from
-  const rx = to.x - (cos * from.x - sin * from.y);
-  const ry = to.y - (sin * from.x + cos * from.y);
-  const m11 = 1 - cos;
-  const m12 = sin;
-  const m21 = -sin;
-  const m22 = 1 - cos;
-  const det = m11 * m22 - m12 * m21;
-  const center = { x: (rx * m22 - m12 * ry) / det, y: (m11 * ry - m21 * rx) / det };
-  // A hair of a turn has its fixed point far away: sweep it as the slide it nearly is.
-  if (!Number.isFinite(center.x) || !Number.isFinite(center.y) || Math.hypot(center.x - from.x, center.y - from.y) > 1e5) return { type: 'line', from, to };
-  return { type: 'rotate', from, to, center, turned };
-}
 
 function describeShape(shape: string): string {
   switch (shape) {

@@ -157,3 +157,18 @@ export function discProbability(mean: { x: number; y: number }, c: Cov2, center:
   }
   return Math.max(0, Math.min(1, norm * sum * (radius / 2) * Math.PI));
 }
+
+/** What a `mark` asks for: to be inside a zone, or within a distance of a point. */
+export type MarkTarget =
+  | { kind: 'zone'; name: string; min: { x: number; y: number }; max: { x: number; y: number } }
+  | { kind: 'point'; at: { x: number; y: number }; within: number };
+
+/** Whether a position meets the mark. */
+export function meetsMark(t: MarkTarget, x: number, y: number): boolean {
+  return t.kind === 'zone' ? x >= t.min.x && x <= t.max.x && y >= t.min.y && y <= t.max.y : Math.hypot(x - t.at.x, y - t.at.y) <= t.within;
+}
+
+/** The chance that N(mean, c) meets the mark. */
+export function markProbability(t: MarkTarget, mean: { x: number; y: number }, c: Cov2): number {
+  return t.kind === 'zone' ? rectangleProbability(mean, c, t.min.x, t.max.x, t.min.y, t.max.y) : discProbability(mean, c, t.at, t.within);
+}

@@ -87,7 +87,9 @@ export interface RunSpread {
  * reference.
  */
 export function propagateRun(segments: readonly Segment[], noise: NoiseModel, track: number, turns: TurnDirection,
-  resetsAt: ReadonlySet<Segment> = new Set(), wheel: number = noise.wheel ?? SPREAD_DEFAULTS.wheel, squareSpread = true): RunSpread {
+  options: { wheel?: number; squareSpread?: boolean; without?: Segment } = {}): RunSpread {
+  const wheel = options.wheel ?? noise.wheel ?? SPREAD_DEFAULTS.wheel;
+  const squareSpread = options.squareSpread ?? true;
   const P = new Cov();
   const bySegment = new Map<Segment, Spread>();
   const flip = turns === 'clockwise' ? 1 : -1;
@@ -107,7 +109,7 @@ export function propagateRun(segments: readonly Segment[], noise: NoiseModel, tr
     if (!started) continue;
     // The sensor's reference drifts while time passes.
     if (seg.duration > 0 && Number.isFinite(seg.duration)) P.applyOne(REF, DRIFT, seg.duration);
-    if (seg.kind === 'reset' || resetsAt.has(seg)) P.copy(REF, H);
+    if (zeroes(seg) && seg !== options.without) P.copy(REF, H);
     const gyro = seg.sensing === 'gyro';
     if (seg.kind === 'drive' && gyro) {
       // The hold steers the heading to the reference's error (and the sensor's noise) at once.
@@ -195,6 +197,11 @@ function travel(P: Cov, piece: PathPiece, compass: (deg: number) => number, trac
 }
 
 /** Adds q·g gᵀ to the pose block, for one wheel's random error of variance q with the step's Jacobian column g. */
+/** Whether the yaw reads zero at this segment: a `reset yaw`, or a turn written with `reset`. */
+export function zeroes(seg: Segment): boolean {
+  return seg.kind === 'reset' || seg.zeroesYaw === true;
+}
+
 /** The sources of spread a plan's `noise` and the robot model name, for saying which one matters most. */
 export type SpreadSource = 'drive' | 'turn' | 'gyro' | 'drift' | 'wheel';
 
@@ -203,11 +210,11 @@ export type SpreadSource = 'drive' | 'turn' | 'gyro' | 'drift' | 'wheel';
  * leaves at segment `at`: the model is linear, so the sources' shares add up.
  */
 export function shares(segments: readonly Segment[], at: Segment, noise: NoiseModel, track: number, turns: TurnDirection,
-  resetsAt: ReadonlySet<Segment>): Record<SpreadSource, number> {
+): Record<SpreadSource, number> {
   const only = (src: SpreadSource): number => {
     const n: NoiseModel = { drive: 0, turn: 0, gyro: 0, drift: 0 };
     if (src !== 'wheel') n[src] = noise[src];
-    const sp = propagateRun(segments, n, track, turns, resetsAt, src === 'wheel' ? noise.wheel ?? SPREAD_DEFAULTS.wheel : 0, false).bySegment.get(at);
+    const sp = propagateRun(segments, n, track, turns, { wheel: src === 'wheel' ? noise.wheel ?? SPREAD_DEFAULTS.wheel : 0, squareSpread: false }).bySegment.get(at);
     return sp ? (sp.ellipse95.a ** 2) / CHI2 : 0;
   };
   return { drive: only('drive'), turn: only('turn'), gyro: only('gyro'), drift: only('drift'), wheel: only('wheel') };

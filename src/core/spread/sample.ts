@@ -4,7 +4,7 @@
 // seeded so that a run of it can be repeated. It checks the linear model
 // (spread/run.ts) and gives the cloud of end points.
 import type { NoiseModel, PathPiece, Segment, TurnDirection } from '../types';
-import { SPREAD_DEFAULTS } from './run';
+import { SPREAD_DEFAULTS, zeroes } from './run';
 
 const RAD = Math.PI / 180;
 /** Pieces of wheel travel (mm) each sampled with its own random error. */
@@ -44,11 +44,10 @@ export interface RunSamples {
 }
 
 /**
- * Samples `count` runs. `resetsAt` are the turns written with `reset`;
- * `onProgress` is called now and then with the share done.
+ * Samples `count` runs; `onProgress` is called now and then with the share done.
  */
 export function sampleRun(segments: readonly Segment[], noise: NoiseModel, track: number, turns: TurnDirection, count: number, seed: number,
-  resetsAt: ReadonlySet<Segment> = new Set(), onProgress?: (done: number) => void): RunSamples {
+  onProgress?: (done: number) => void): RunSamples {
   const flip = turns === 'clockwise' ? 1 : -1;
   const n = segments.length;
   const out: RunSamples = {
@@ -80,7 +79,7 @@ export function sampleRun(segments: readonly Segment[], noise: NoiseModel, track
         started = true;
       } else if (started) {
         if (seg.duration > 0 && Number.isFinite(seg.duration)) refErr += drift * seg.duration;
-        if (seg.kind === 'reset' || resetsAt.has(seg)) refErr = h - flip * seg.start.heading * RAD;
+        if (zeroes(seg)) refErr = h - flip * seg.start.heading * RAD;
         const gyro = seg.sensing === 'gyro';
         if (seg.kind === 'drive' && gyro) h = planned(seg.start.heading) + refErr + noise.gyro * RAD * gauss();
         if (seg.kind === 'drive' || seg.kind === 'turn' || seg.kind === 'square') {
