@@ -101,6 +101,7 @@ describe('fix engine: every fix offered keeps its promises', function () {
       assert.match(kinds, expected);
     }
     assert.ok(fixesTried > PLANS, `only ${fixesTried} fixes tried`);
+    // A guard, not a measured value (common practice, no published source): refusals for later effects stay rare.
     assert.ok(refusedDownstream < fixesTried / 50, `${refusedDownstream} of ${fixesTried} tunings refused for what they do later`);
     assert.ok(wholeFile > PLANS / 20, `only ${wholeFile} whole-file fixes tried`);
   });
