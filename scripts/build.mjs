@@ -2,6 +2,7 @@
 //   dist/cli.js        the `veer` command (Node)
 //   dist/extension.js  the VS Code extension host code (`vscode` external)
 //   media/preview.js   the path preview's own browser bundle
+//   dist/sampleWorker.js  the Monte Carlo worker of "Veer: Sample the Runs"
 //   media/uplot.css    the chart library's own style sheet, copied for the preview
 import * as esbuild from 'esbuild';
 import { copyFileSync, existsSync } from 'node:fs';
@@ -47,6 +48,8 @@ const targets = [
   { entryPoints: ['src/cli/main.ts'], outfile: 'dist/cli.js', platform: 'node', format: 'cjs', target: 'node20' },
   { entryPoints: ['src/extension/activate.ts'], outfile: 'dist/extension.js', platform: 'node', format: 'cjs', target: 'node20', external: ['vscode'] },
   { entryPoints: ['src/preview/main.ts'], outfile: 'media/preview.js', platform: 'browser', format: 'iife', target: 'es2022' },
+  // The Monte Carlo of "Veer: Sample the Runs", run in a worker thread off the extension host's.
+  { entryPoints: ['src/extension/sampleWorker.ts'], outfile: 'dist/sampleWorker.js', platform: 'node', format: 'cjs', target: 'node20' },
 ];
 
 for (const t of targets) {

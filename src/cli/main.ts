@@ -7,6 +7,7 @@ import { pathToFileURL } from 'node:url';
 import { diagnosticLine, runSummaryLine, toJsonDocument } from '../core/report';
 import { sampleRun, sampleStats } from '../core/spread/sample';
 import { meetsMark } from '../core/spread/gaussian';
+import { sampleCloud, SPREAD_CHOICES, type SpreadShown } from '../core/render/cloud';
 import { version } from '../../package.json';
 
 const HELP = `veer ${version}: check and draw plans for two-wheeled robot runs
@@ -16,6 +17,9 @@ Usage:
                                            check plans; one line per problem, a summary per run
   veer check --format sarif FILE...        the problems as a SARIF 2.1.0 log, with the path-keeping fixes
   veer render FILE -o OUT.svg [--run NAME] draw the field, the path and the problems as SVG
+        [--spread marks|all|off] [--no-spread] [--samples N [--seed S]]
+                                           with where the real robot ends up: the 95 % ovals, heading
+                                           wedges and each mark's chance, and a cloud of sampled end points
   veer targets FILE [--run NAME] [--csv|--json]
                                            the numbers the robot's code needs, one row per motion:
                                            start time, time, wheel and motor degrees, yaw target, power
@@ -32,7 +36,13 @@ Options:
                powers, wheel speeds, pose), one row per control-loop sample
   --samples N  with \`check --json\`: sample each run N times on the error model (\`noise\`) and add each
                motion's sampled mean and covariance, and each mark's share of runs that meet it
+               with \`render\`: draw the N sampled end points of each run (at its end and its marks)
+               as dots, and each mark's sampled share beside its chance
   --seed S     the sampling's seed (default 1): the same seed gives the same samples
+  --spread S   \`render\`: where to draw the 95 % ovals (the real robot ends inside in 19 runs out of 20)
+               and heading wedges: marks (default, with each mark's chance), all (after every motion
+               too), or off
+  --no-spread  \`render\`: no ovals, wedges or chances (the same as \`--spread off\`)
   -o, --output where \`render\` writes the SVG
   --run NAME   draw (or list the targets of) only this run (name or 1-based number)
   --csv        \`targets\` as CSV (RFC 4180, a header row)
@@ -89,6 +99,8 @@ function dispatch(argv: string[], io: CliIo): number {
         trace: { type: 'boolean' },
         samples: { type: 'string' },
         seed: { type: 'string' },
+        spread: { type: 'string' },
+        'no-spread': { type: 'boolean' },
       },
     });
   } catch (e) {
@@ -109,7 +121,8 @@ function dispatch(argv: string[], io: CliIo): number {
   if (command !== 'targets' && values.csv) throw new UsageError('`--csv` belongs to `veer targets`');
   if (command !== 'check' && values.format !== undefined) throw new UsageError('`--format` belongs to `veer check`');
   if (command !== 'check' && values.trace) throw new UsageError('`--trace` belongs to `veer check --json`');
-  if (command !== 'check' && (values.samples !== undefined || values.seed !== undefined)) throw new UsageError('`--samples` and `--seed` belong to `veer check --json`');
+  if (command !== 'check' && command !== 'render' && (values.samples !== undefined || values.seed !== undefined)) throw new UsageError('`--samples` and `--seed` belong to `veer check --json` and `veer render`');
+  if (command !== 'render' && (values.spread !== undefined || values['no-spread'])) throw new UsageError('`--spread` and `--no-spread` belong to `veer render`');
   if (command === 'targets') {
     if (values.output !== undefined || values.strict) throw new UsageError('`veer targets` takes a plan file, `--run`, and `--csv` or `--json`');
     if (values.csv && values.json) throw new UsageError('choose one of `--csv` and `--json`');
@@ -140,7 +153,7 @@ function dispatch(argv: string[], io: CliIo): number {
     if (values.json) throw new UsageError('`--json` belongs to `veer check`');
     if (files.length !== 1) throw new UsageError('`veer render` takes exactly one plan file');
     if (!values.output) throw new UsageError('`veer render` needs `-o OUT.svg`');
-    return render(files[0], values.output, values.run, !!values.strict, io);
+    return render(files[0], values.output, values.run, !!values.strict, io, renderSpread(values));
   }
   throw new UsageError(`unknown command \`${command}\`: use \`check\`, \`render\`, \`targets\` or \`fix\``);
 }
@@ -290,11 +303,28 @@ function check(files: string[], opts: { format: 'text' | 'json' | 'sarif'; stric
   return status;
 }
 
-function render(file: string, output: string, run: string | undefined, strict: boolean, io: CliIo): number {
+/** `render`'s spread options: which ovals to draw, and how many runs to sample for the cloud (none without `--samples`). */
+function renderSpread(values: { spread?: string; 'no-spread'?: boolean; samples?: string; seed?: string }): { spread: SpreadShown; samples?: number; seed: number } {
+  if (values.spread !== undefined && values['no-spread']) throw new UsageError('choose one of `--spread` and `--no-spread`');
+  const spread = values['no-spread'] ? 'off' : values.spread ?? 'marks';
+  if (!(SPREAD_CHOICES as readonly string[]).includes(spread)) throw new UsageError(`unknown \`--spread ${spread}\`: use marks (ovals at marks), all (after every motion too) or off`);
+  const samples = values.samples === undefined ? undefined : Number(values.samples);
+  const seed = values.seed === undefined ? 1 : Number(values.seed);
+  if (samples !== undefined && (!Number.isInteger(samples) || samples < 2 || samples > 1_000_000)) throw new UsageError('`--samples` takes a whole number of runs from 2 to 1000000, e.g. `--samples 1000`');
+  if (values.seed !== undefined && (!Number.isInteger(seed) || seed < 0 || seed > 0xffffffff)) throw new UsageError('`--seed` takes a whole number from 0 to 4294967295');
+  if (values.seed !== undefined && samples === undefined) throw new UsageError('`--seed` goes with `--samples N`');
+  return { spread: spread as SpreadShown, ...(samples !== undefined ? { samples } : {}), seed };
+}
+
+function render(file: string, output: string, run: string | undefined, strict: boolean, io: CliIo,
+  spread: { spread: SpreadShown; samples?: number; seed: number } = { spread: 'marks', seed: 1 }): number {
   if (sameFile(file, output)) throw new UsageError(`\`-o ${output}\` is the plan itself: writing the drawing there would destroy the plan. Choose another name, e.g. \`-o ${basename(file).replace(/\.veer$/i, '')}.svg\``);
   const { result } = checkOne(file, new ExpressionCache(), io);
   const runSel = selectRun(file, result, run);
-  const svg = renderSvg(result, { run: runSel, standalone: true });
+  const cloud = spread.samples !== undefined
+    ? sampleCloud(result, spread.samples, spread.seed, progressReporter(io, `sampling ${spread.samples} runs of ${file}`))
+    : undefined;
+  const svg = renderSvg(result, { run: runSel, standalone: true, spread: spread.spread, ...(cloud ? { cloud } : {}) });
   writeAtomically(output, svg);
   for (const d of result.diagnostics) io.err(diagnosticLine(file, d) + '\n');
   io.err(`wrote ${output}\n`);

@@ -10,6 +10,7 @@ import { registerHover } from './hover';
 import { registerInlayHints } from './inlayHints';
 import { registerNewPlan } from './newPlan';
 import { registerPreview } from './preview';
+import { registerSampling } from './sampling';
 import { registerStatusBar } from './statusBar';
 import { registerSymbols } from './symbols';
 
@@ -21,6 +22,7 @@ export async function activate(context: vscode.ExtensionContext): Promise<void> 
   registerInlayHints(context);
   registerStatusBar(context);
   registerPreview(context);
+  registerSampling(context);
   registerHover(context);
   registerSymbols(context);
   registerCompletion(context);

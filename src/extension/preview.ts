@@ -17,6 +17,8 @@ import {
   type PreviewMessage,
 } from '../shared/messages';
 import { getAnalysis, isPlan, onDidAnalyse } from './analysis';
+import type { SpreadCloud, SpreadShown } from '../core/render/cloud';
+import { SPREAD_SHOWN } from '../shared/messages';
 
 export const PREVIEW_VIEW_TYPE = 'veer.preview';
 export const OPEN_PREVIEW_COMMAND = 'veer.openPreview';
@@ -65,6 +67,7 @@ export function registerPreview(context: vscode.ExtensionContext): void {
         current?.dispose();
         current = new PathPreview(panel, mediaRoot);
         const restored = restoredState(state);
+        if (restored?.spread) current.spread = restored.spread;
         const document = restored ? await openDocument(restored.uri) : undefined;
         if (document) current.show(document, restored?.run);
       },
@@ -105,11 +108,30 @@ async function openDocument(uri: string): Promise<vscode.TextDocument | undefine
 }
 
 /** The webview's saved state is untrusted data: keep only the fields the host needs. */
-function restoredState(state: unknown): { uri: string; run: number } | undefined {
+function restoredState(state: unknown): { uri: string; run: number; spread?: SpreadShown } | undefined {
   if (typeof state !== 'object' || state === null) return undefined;
   const s = state as Record<string, unknown>;
   if (typeof s.uri !== 'string' || s.uri === '') return undefined;
-  return { uri: s.uri, run: typeof s.run === 'number' && Number.isInteger(s.run) ? s.run : -1 };
+  const spread = SPREAD_SHOWN.find((v) => v === s.spread);
+  return { uri: s.uri, run: typeof s.run === 'number' && Number.isInteger(s.run) ? s.run : -1, ...(spread ? { spread } : {}) };
+}
+
+/** How long the sampling command waits for the preview to say it drew the cloud, ms. */
+const CLOUD_SHOWN_TIMEOUT_MS = 15000;
+
+/**
+ * Hands a Monte Carlo cloud of `document` at `version` to the preview, which
+ * draws it until the plan's next edit. Resolves with the number of dots the
+ * webview reports on screen, or undefined when no preview shows this document
+ * (or it did not answer in time).
+ */
+export function showCloud(document: vscode.TextDocument, version: number, cloud: SpreadCloud): Promise<number | undefined> {
+  return current ? current.showCloud(document, version, cloud) : Promise.resolve(undefined);
+}
+
+/** Whether the preview is open on this document. */
+export function isPreviewing(document: vscode.TextDocument): boolean {
+  return current?.previewing(document.uri) ?? false;
 }
 
 export function previewHtml(webview: vscode.Webview, mediaRoot: vscode.Uri): string {
@@ -150,6 +172,12 @@ class PathPreview implements vscode.Disposable {
   private traced: { result: CheckResult; line: number; stamp: DocumentStamp } | undefined;
   /** The line the scrubber reached (-1: none), marked in the document's visible editors. */
   private scrubLine = -1;
+  /** Where the drawing shows the 95 % ovals (the toolbar's choice). */
+  spread: SpreadShown = 'marks';
+  /** The last Monte Carlo cloud, for one version of one document: cleared by the next edit. */
+  private cloud: { uri: string; version: number; cloud: SpreadCloud } | undefined;
+  /** Sampling commands waiting for the webview to draw their cloud. */
+  private cloudWaiters: { uri: string; version: number; resolve: (dots: number | undefined) => void }[] = [];
 
   constructor(private readonly panel: vscode.WebviewPanel, mediaRoot: vscode.Uri) {
     panel.webview.html = previewHtml(panel.webview, mediaRoot);
@@ -214,8 +242,38 @@ class PathPreview implements vscode.Disposable {
     if (this.renderTimer) clearTimeout(this.renderTimer);
     if (this.cursorTimer) clearTimeout(this.cursorTimer);
     this.setScrub(-1);
+    for (const waiter of [...this.cloudWaiters]) waiter.resolve(undefined);
     this.disposables.forEach((d) => d.dispose());
     this.panel.dispose();
+  }
+
+  previewing(uri: vscode.Uri): boolean {
+    return this.isPreviewing(uri);
+  }
+
+  showCloud(document: vscode.TextDocument, version: number, cloud: SpreadCloud): Promise<number | undefined> {
+    if (!this.isPreviewing(document.uri) || document.version !== version) return Promise.resolve(undefined);
+    const uri = document.uri.toString();
+    this.cloud = { uri, version, cloud };
+    return new Promise((resolve) => {
+      const waiter = {
+        uri, version,
+        resolve: (dots: number | undefined) => {
+          clearTimeout(timer);
+          this.cloudWaiters = this.cloudWaiters.filter((w) => w !== waiter);
+          resolve(dots);
+        },
+      };
+      const timer = setTimeout(() => waiter.resolve(undefined), CLOUD_SHOWN_TIMEOUT_MS);
+      this.cloudWaiters.push(waiter);
+      this.renderNow();
+    });
+  }
+
+  /** The cloud of this version of the document, if it has one; an older document version's cloud is dropped. */
+  private cloudFor(uri: string, version: number): SpreadCloud | undefined {
+    if (this.cloud && (this.cloud.uri !== uri || this.cloud.version < version)) this.cloud = undefined;
+    return this.cloud?.version === version ? this.cloud.cloud : undefined;
   }
 
   private isPreviewing(uri: vscode.Uri): boolean {
@@ -240,9 +298,12 @@ class PathPreview implements vscode.Disposable {
     if (!document || this.disposed) return;
     const { result, version, text } = getAnalysis(document);
     if (this.run >= result.runs.length) this.run = -1;
-    const svg = renderSvg(result, { standalone: false, width: this.viewWidth, ...runOption(this.run) });
+    const cloud = this.cloudFor(document.uri.toString(), version);
+    const svg = renderSvg(result, { standalone: false, width: this.viewWidth, ...runOption(this.run), spread: this.spread, ...(cloud ? { cloud } : {}) });
     const message = buildRenderMessage(result, { uri: document.uri.toString(), version }, this.run, svg, targetTables(result, text), this.viewWidth,
       buildTimeline(result, this.run));
+    message.spread = this.spread;
+    if (cloud) message.cloud = { count: cloud.count, dots: cloud.spots.filter((s) => this.run < 0 || s.run === this.run).reduce((n, s) => n + s.x.length, 0) };
     this.posted = { uri: message.uri, version: message.version };
     this.post(message);
     this.postTrace();
@@ -284,6 +345,7 @@ class PathPreview implements vscode.Disposable {
   private async onMessage(message: PreviewMessage): Promise<void> {
     if (message.type === 'ready') {
       // The webview (re)loaded, e.g. after being hidden: it has nothing drawn.
+      if (message.spread) this.spread = message.spread;
       this.posted = undefined;
       this.traced = undefined;
       this.setScrub(-1);
@@ -305,6 +367,15 @@ class PathPreview implements vscode.Disposable {
         this.run = message.run;
         this.renderNow();
         return;
+      case 'setSpread':
+        if (message.spread !== this.spread) {
+          this.spread = message.spread;
+          this.renderNow();
+        }
+        return;
+      case 'cloudShown':
+        for (const waiter of this.cloudWaiters.filter((w) => w.uri === message.uri && w.version === message.version)) waiter.resolve(message.dots);
+        return;
       case 'viewSize':
         // Text and strokes are sized for the panel's width: a narrow panel gets the same readable labels.
         if (message.width !== this.viewWidth) {
@@ -313,7 +384,9 @@ class PathPreview implements vscode.Disposable {
         }
         return;
       case 'exportSvg': {
-        const svg = renderSvg(getAnalysis(document).result, { standalone: true, ...runOption(this.run) });
+        const { result, version } = getAnalysis(document);
+        const cloud = this.cloudFor(document.uri.toString(), version);
+        const svg = renderSvg(result, { standalone: true, ...runOption(this.run), spread: this.spread, ...(cloud ? { cloud } : {}) });
         await this.save(document, 'svg', new TextEncoder().encode(svg));
         return;
       }

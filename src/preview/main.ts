@@ -8,6 +8,7 @@ import {
   MAX_VIEW_WIDTH,
   MIN_VIEW_WIDTH,
   parseHostMessage,
+  SPREAD_SHOWN,
   type CursorMessage,
   type PreviewMessage,
   type RenderMessage,
@@ -33,7 +34,12 @@ interface PreviewState {
   tab?: 'drawing' | 'targets';
   /** Sections under the drawing the user folded away ('timeline', 'trace'). */
   folded?: string[];
+  /** Where the drawing shows the 95 % ovals, once the user chose (absent: at marks). */
+  spread?: (typeof SPREAD_SHOWN)[number];
 }
+
+/** The spread select's choices, in the toolbar's words. */
+const SPREAD_LABELS: Record<(typeof SPREAD_SHOWN)[number], string> = { marks: 'Spread: marks', all: 'Spread: every motion', off: 'Spread: off' };
 
 const SECTIONS = ['timeline', 'trace'] as const;
 
@@ -64,7 +70,13 @@ function readState(value: unknown): PreviewState | undefined {
     uri: s.uri, version: s.version, run: s.run, ...(isViewBox(s.view) ? { view: s.view } : {}),
     ...(s.tab === 'targets' ? { tab: 'targets' as const } : {}),
     ...(Array.isArray(s.folded) ? { folded: SECTIONS.filter((name) => (s.folded as unknown[]).includes(name)) } : {}),
+    ...spreadOf(s.spread),
   };
+}
+
+function spreadOf(value: unknown): { spread?: (typeof SPREAD_SHOWN)[number] } {
+  const spread = SPREAD_SHOWN.find((v) => v === value);
+  return spread ? { spread } : {};
 }
 
 function element<K extends keyof HTMLElementTagNameMap>(tag: K, props: Partial<HTMLElementTagNameMap[K]> = {}): HTMLElementTagNameMap[K] {
@@ -84,6 +96,12 @@ class Preview {
   private readonly title = element('span', { className: 'title' });
   private readonly counts = element('span', { className: 'counts' });
   private readonly runSelect = element('select', { className: 'run-select', title: 'Run to draw' });
+  private readonly spreadSelect = element('select', {
+    className: 'spread-select',
+    title: 'Where the real robot ends up: the oval that holds it in 19 runs out of 20 and the heading\'s band, at marks, after every motion, or not at all',
+  });
+  /** Says when the drawing holds a Monte Carlo cloud (Veer: Sample the Runs). */
+  private readonly cloudNote = element('span', { className: 'cloud-note' });
   private readonly stage = element('div', { className: 'stage' });
   private readonly tooltip = element('div', { className: 'tooltip' });
   private readonly status = element('div', { className: 'status', textContent: 'Waiting for the plan…' });
@@ -120,10 +138,20 @@ class Preview {
     this.runSelect.hidden = true;
     this.runSelect.setAttribute('aria-label', 'Run to draw');
     this.runSelect.addEventListener('change', () => this.post({ type: 'selectRun', ...this.stamp(), run: Number(this.runSelect.value) }));
+    this.spreadSelect.setAttribute('aria-label', 'Spread to draw');
+    this.spreadSelect.append(...SPREAD_SHOWN.map((v) => element('option', { value: v, textContent: SPREAD_LABELS[v] })));
+    this.spreadSelect.value = this.state.spread ?? 'marks';
+    this.spreadSelect.addEventListener('change', () => {
+      const spread = SPREAD_SHOWN.find((v) => v === this.spreadSelect.value) ?? 'marks';
+      this.state.spread = spread;
+      this.saveState();
+      this.post({ type: 'setSpread', ...this.stamp(), spread });
+    });
+    this.cloudNote.hidden = true;
     const toolbar = element('div', { className: 'toolbar' });
     toolbar.setAttribute('role', 'toolbar');
     toolbar.append(
-      this.title, this.runSelect, this.counts, this.notice, element('span', { className: 'spacer' }), this.readout,
+      this.title, this.runSelect, this.spreadSelect, this.cloudNote, this.counts, this.notice, element('span', { className: 'spacer' }), this.readout,
       button('Fit', 'Fit the drawing to the panel', () => this.setView(undefined)),
       button('+', 'Zoom in', () => this.zoomCentre(BUTTON_ZOOM_FACTOR)),
       button('−', 'Zoom out', () => this.zoomCentre(1 / BUTTON_ZOOM_FACTOR)),
@@ -158,7 +186,7 @@ class Preview {
     this.stage.addEventListener('pointerdown', (event) => this.onPointerDown(event));
     this.stage.addEventListener('pointermove', (event) => this.onHover(event));
     this.stage.addEventListener('pointerleave', () => { this.tooltip.hidden = true; this.readout.textContent = ''; });
-    this.post({ type: 'ready', uri: this.state.uri, version: this.state.version });
+    this.post({ type: 'ready', uri: this.state.uri, version: this.state.version, ...(this.state.spread ? { spread: this.state.spread } : {}) });
   }
 
   /** A foldable section under the drawing; whether it is folded survives a reload. */
@@ -239,6 +267,7 @@ class Preview {
     this.state = {
       uri: message.uri, version: message.version, run: message.run, ...(keepView ? { view: keepView } : {}),
       ...(this.state.tab ? { tab: this.state.tab } : {}), ...(this.state.folded ? { folded: this.state.folded } : {}),
+      ...(this.state.spread ? { spread: this.state.spread } : {}),
     };
     this.fit = parseViewBox(svg.getAttribute('viewBox')) ?? undefined;
     this.svg?.remove();
@@ -261,6 +290,7 @@ class Preview {
     ].filter(Boolean).join(', ');
     this.counts.classList.toggle('has-errors', message.errorCount > 0);
     this.fillRunSelect(message);
+    this.showSpread(message);
     this.targets.show(message.run >= 0 ? message.targets.slice(message.run, message.run + 1) : message.targets);
     if (!sameDocument) this.currentLine = undefined;
     this.timeline.show(message, sameDocument);
@@ -270,6 +300,21 @@ class Preview {
     // A drawing sized for another width (the first one, or one from before a resize): ask for this
     // panel's, once the frame is laid out (reading a width here would force a layout of the new drawing).
     requestAnimationFrame(() => this.reportWidth());
+  }
+
+  /** The spread choice the drawing was made with, and its Monte Carlo cloud (whose dots are counted back to the host). */
+  private showSpread(message: RenderMessage): void {
+    if (message.spread) this.spreadSelect.value = message.spread;
+    this.cloudNote.hidden = !message.cloud;
+    if (!message.cloud || !this.svg) {
+      this.cloudNote.textContent = '';
+      return;
+    }
+    let dots = 0;
+    for (const path of Array.from(this.svg.querySelectorAll('.cloud path'))) dots += (path.getAttribute('d')?.match(/M/g) ?? []).length;
+    this.cloudNote.textContent = `${message.cloud.count.toLocaleString('en')} sampled runs`;
+    this.cloudNote.title = 'The dots are where sampled runs end (at each run\'s end and each mark); they clear at the next edit of the plan';
+    this.post({ type: 'cloudShown', ...this.stamp(), dots });
   }
 
   private fillRunSelect(message: RenderMessage): void {

@@ -4,6 +4,14 @@
 import type { CheckResult, RunResult, SegmentKind, TurnDirection, TurnShape, WheelPair } from '../core/types';
 import type { TargetTable } from '../core/targets';
 import { footprintOf, normaliseHeading } from '../core/solve/frame';
+import type { SpreadShown } from '../core/render/cloud';
+
+/** The preview's spread choices (render/cloud.ts): 95 % ovals at marks, after every motion too, or none. */
+export const SPREAD_SHOWN: readonly SpreadShown[] = ['marks', 'all', 'off'];
+
+function isSpreadShown(value: unknown): value is SpreadShown {
+  return typeof value === 'string' && (SPREAD_SHOWN as readonly string[]).includes(value);
+}
 
 export interface DocumentStamp {
   uri: string;
@@ -51,6 +59,10 @@ export interface RenderMessage extends DocumentStamp {
   /** The robot's footprint in its own frame, and the file's turn direction, for drawing it at a scrubbed pose. */
   footprint: FootprintShape;
   turns: TurnDirection;
+  /** Where the drawing shows the 95 % ovals (absent: at marks). */
+  spread?: SpreadShown;
+  /** Present when the drawing holds a Monte Carlo cloud: runs sampled per plan run, and the dots drawn. */
+  cloud?: { count: number; dots: number };
 }
 
 /** The robot's outline: a rectangle (`axle` mm ahead of its centre sits the axle midpoint) or a circle about the axle midpoint. */
@@ -131,9 +143,22 @@ export type HostMessage = RenderMessage | CursorMessage | TraceMessage;
 // ---------------------------------------------------------------------------
 // Webview -> host
 
-/** Sent once the script runs; `uri` is the restored document or '' when unknown. */
+/** Sent once the script runs; `uri` is the restored document or '' when unknown; `spread` the restored choice, when one was made. */
 export interface ReadyMessage extends DocumentStamp {
   type: 'ready';
+  spread?: SpreadShown;
+}
+
+/** The spread choice in the toolbar changed. */
+export interface SetSpreadMessage extends DocumentStamp {
+  type: 'setSpread';
+  spread: SpreadShown;
+}
+
+/** The webview drew a drawing with a Monte Carlo cloud: `dots` sampled end points are on screen. */
+export interface CloudShownMessage extends DocumentStamp {
+  type: 'cloudShown';
+  dots: number;
 }
 
 /** A click on the drawing: show and select that plan line in the editor. */
@@ -177,7 +202,7 @@ export interface ScrubMessage extends DocumentStamp {
   line: number;
 }
 
-export type PreviewMessage = ScrubMessage | ReadyMessage | RevealMessage | SelectRunMessage | ExportSvgMessage | ExportPngMessage | CopyTargetsMessage | ViewSizeMessage;
+export type PreviewMessage = SetSpreadMessage | CloudShownMessage | ScrubMessage | ReadyMessage | RevealMessage | SelectRunMessage | ExportSvgMessage | ExportPngMessage | CopyTargetsMessage | ViewSizeMessage;
 
 /** Drawing widths the host accepts (CSS pixels). */
 export const MIN_VIEW_WIDTH = 200;
@@ -210,7 +235,11 @@ export function parsePreviewMessage(value: unknown): PreviewMessage | undefined 
   const stamp = { uri: value.uri as string, version: value.version as number };
   switch (value.type) {
     case 'ready':
-      return { type: 'ready', ...stamp };
+      return { type: 'ready', ...stamp, ...(isSpreadShown(value.spread) ? { spread: value.spread } : {}) };
+    case 'setSpread':
+      return isSpreadShown(value.spread) ? { type: 'setSpread', ...stamp, spread: value.spread } : undefined;
+    case 'cloudShown':
+      return isIndex(value.dots, 0) ? { type: 'cloudShown', ...stamp, dots: value.dots } : undefined;
     case 'scrub':
       return isIndex(value.line, -1) ? { type: 'scrub', ...stamp, line: value.line } : undefined;
     case 'reveal':

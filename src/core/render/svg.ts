@@ -40,6 +40,8 @@ import { predictedPath } from '../sim/run';
 import type { CheckResult, Diagnostic, PathPiece, Point, Pose, RunResult, Segment, TurnDirection } from '../types';
 import { footprintCorners, footprintOf, forwardVector, rotateAbout, turnSign, type Footprint } from '../solve/frame';
 import { escapeXml, num } from './markup';
+import type { SpreadCloud, SpreadShown } from './cloud';
+import { drawableSpread, drawCloud, drawSpreadLayer, sampledShares, spreadOval } from './spreadLayer';
 import { Bounds, formatLength, makeView, scaleBarLength, type View } from './view';
 
 export interface RenderOptions {
@@ -51,6 +53,10 @@ export interface RenderOptions {
   standalone?: boolean;
   /** Target width in CSS pixels of the standalone drawing (default 1000). */
   width?: number;
+  /** The 95 % ovals, heading wedges and marks' chances: at marks (default), after every motion too ('all'), or none ('off'). */
+  spread?: SpreadShown;
+  /** Sampled end points to draw as a cloud of dots (with each mark's sampled share beside its chance); drawn whatever `spread` says. */
+  cloud?: SpreadCloud;
 }
 
 /** The editor's chart colours in its light themes, so an exported drawing matches the preview. */
@@ -122,7 +128,10 @@ export function renderSvg(result: CheckResult, options: RenderOptions = {}): str
   for (const { run, index } of runs) drawFootprints(out, d, run, index);
   for (const { run, index } of runs) drawPath(out, d, run, index);
   for (const { run, index } of runs) drawPredicted(out, d, run, index);
-  for (const { run, index } of runs) drawAnnotations(out, d, run, index);
+  const spread = { shown: options.spread ?? 'marks', shares: sampledShares(options.cloud) };
+  for (const { run, index } of runs) drawSpreadLayer(out, d, run, runClass(index), spread.shown, (seg, i) => segmentAttrs(seg, index, i));
+  if (options.cloud) drawCloud(out, d, options.cloud, runs, runClass, segmentAttrs);
+  for (const { run, index } of runs) drawAnnotations(out, d, run, index, spread);
   drawMarkers(out, d, diagnostics);
   drawScale(out, d, result);
   drawCompass(out, d);
@@ -675,7 +684,8 @@ function drawPredicted(out: string[], d: Drawing, run: RunResult, runIndex: numb
 }
 
 /** Turn centres, spin angles, marks, and the start and end markers: drawn above every path. */
-function drawAnnotations(out: string[], d: Drawing, run: RunResult, runIndex: number): void {
+function drawAnnotations(out: string[], d: Drawing, run: RunResult, runIndex: number,
+  spread: { shown: SpreadShown; shares: Map<string, number> } = { shown: 'marks', shares: new Map() }): void {
   const px = d.view.px;
   const segs = run.segments;
   out.push(`<g class="${runClass(runIndex)}" stroke-width="${d.px(SIZE.thinStroke * 1.5)}">\n`);
@@ -710,17 +720,22 @@ function drawAnnotations(out: string[], d: Drawing, run: RunResult, runIndex: nu
     if (seg.kind === 'mark' && seg.label !== undefined && finite(seg.end)) {
       const s = 5 * px;
       const p = seg.end;
-      // Where the real robot ends in 19 runs out of 20 (the spread's 95 % oval), and how often it meets the mark.
-      const e = seg.spread?.ellipse95;
-      const oval = e && Number.isFinite(e.a) && Number.isFinite(e.b) && e.a > 0
-        ? `<ellipse class="spread" cx="${num(d.view.x(p.x))}" cy="${num(d.view.y(p.y))}" rx="${num(e.a)}" ry="${num(Math.max(e.b, 0.01))}" transform="rotate(${num(-e.tilt)} ${num(d.view.x(p.x))} ${num(d.view.y(p.y))})" fill="currentColor" fill-opacity="0.08" stroke-width="${d.px(1)}" stroke-dasharray="${d.px(3)} ${d.px(2)}"/>`
-        : '';
-      const chance = seg.hitProbability !== undefined ? ` · ${formatChance(seg.hitProbability)}` : '';
+      // Where the real robot ends in 19 runs out of 20 (the spread's 95 % oval), and how often it meets the mark
+      // (and, after sampling, the share of sampled runs that did).
+      const on = spread.shown !== 'off';
+      const ovalSpread = on ? drawableSpread(seg) : undefined;
+      const oval = ovalSpread ? spreadOval(d, p, ovalSpread, 'spread') : '';
+      const sampled = spread.shares.get(`${runIndex}:${i}`);
+      const chance = on && seg.hitProbability !== undefined ? ` · ${formatChance(seg.hitProbability)}` : '';
+      const about = (on && seg.hitProbability !== undefined ? `: met in ${formatChance(seg.hitProbability)} of runs; the oval holds 19 runs in 20` : '')
+        + (sampled !== undefined ? `; met by ${formatChance(sampled)} of the sampled runs` : '');
       out.push(
-        `<g class="mark"${attrs}><title>${escapeXml(`mark ${seg.label}${seg.hitProbability !== undefined ? `: met in ${formatChance(seg.hitProbability)} of runs; the oval holds 19 runs in 20` : ''}`)}</title>`,
+        `<g class="mark"${attrs}><title>${escapeXml(`mark ${seg.label}${about}`)}</title>`,
         oval,
         `<path d="M${d.xy({ x: p.x, y: p.y + s })}L${d.xy({ x: p.x + s, y: p.y })}L${d.xy({ x: p.x, y: p.y - s })}L${d.xy({ x: p.x - s, y: p.y })}Z" fill="currentColor"/>`,
         d.label('label', { x: p.x + 8 * px, y: p.y }, `${seg.label}${chance}`, SIZE.labelFont, 'start'),
+        // The sampled share on a line of its own under the name, so the label stays short.
+        sampled !== undefined ? d.label('label sampled-share', { x: p.x + 8 * px, y: p.y - 15 * px }, `sampled ${formatChance(sampled)}`, SIZE.smallFont, 'start') : '',
         '</g>\n',
       );
     }

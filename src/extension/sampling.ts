@@ -1,0 +1,119 @@
+// "Veer: Sample the Runs (Monte Carlo)": samples every run of the active plan
+// on its error model in a worker thread (dist/sampleWorker.js), with a
+// cancellable progress notification, and hands the cloud of end points to the
+// path preview, which draws it until the plan's next edit. The extension host
+// only starts the worker and waits for messages: it never samples itself.
+import { Worker } from 'node:worker_threads';
+import * as vscode from 'vscode';
+import { isSpreadCloud, type SpreadCloud } from '../core/render/cloud';
+import { getAnalysis, isPlan } from './analysis';
+import { isPreviewing, OPEN_PREVIEW_COMMAND, showCloud } from './preview';
+import type { SampleReply, SampleRequest } from './sampleWorker';
+
+export const SAMPLE_COMMAND = 'veer.sampleRuns';
+export const SAMPLE_COUNT_SETTING = 'sampling.count';
+const DEFAULT_COUNT = 1000;
+const MIN_COUNT = 10;
+const MAX_COUNT = 100_000;
+/** The seed of `veer check --json --samples N` without `--seed`: the editor's cloud is the command line's. */
+const SEED = 1;
+/** The worker's heap limit, MB: a runaway plan cannot take the editor's memory with it. */
+const WORKER_HEAP_MB = 1024;
+
+/** What the command resolves with (the editor tests read it). */
+export type SamplingOutcome =
+  | { status: 'done'; count: number; ms: number; dots: number | undefined; marks: { line: number; label: string; sampled: number; linear?: number }[] }
+  | { status: 'cancelled' }
+  | { status: 'stale' };
+
+export function registerSampling(context: vscode.ExtensionContext): void {
+  const script = vscode.Uri.joinPath(context.extensionUri, 'dist', 'sampleWorker.js').fsPath;
+  context.subscriptions.push(vscode.commands.registerCommand(SAMPLE_COMMAND, () => sampleActivePlan(script)));
+}
+
+async function sampleActivePlan(script: string): Promise<SamplingOutcome | undefined> {
+  const active = vscode.window.activeTextEditor?.document;
+  const document = active && isPlan(active) ? active : vscode.window.visibleTextEditors.map((e) => e.document).find(isPlan);
+  if (!document) {
+    void vscode.window.showInformationMessage('Open a Veer plan (.veer) to sample its runs.');
+    return undefined;
+  }
+  const count = vscode.workspace.getConfiguration('veer', document).get<unknown>(SAMPLE_COUNT_SETTING, DEFAULT_COUNT);
+  if (typeof count !== 'number' || !Number.isInteger(count) || count < MIN_COUNT || count > MAX_COUNT) {
+    void vscode.window.showErrorMessage(`The setting veer.${SAMPLE_COUNT_SETTING} must be a whole number of runs from ${MIN_COUNT} to ${MAX_COUNT.toLocaleString('en')} `
+      + `(it is ${JSON.stringify(count)}); change it in Settings › Veer, e.g. to ${DEFAULT_COUNT}.`);
+    return undefined;
+  }
+  const { result, version, text } = getAnalysis(document);
+  const track = result.setup.robot.effectiveTrack ?? result.setup.robot.track;
+  if (track === undefined || result.runs.length === 0) {
+    void vscode.window.showInformationMessage('Nothing to sample yet: the plan needs a robot with its track width and at least one run.');
+    return undefined;
+  }
+  if (!isPreviewing(document)) await vscode.commands.executeCommand(OPEN_PREVIEW_COMMAND, document.uri);
+  const name = document.uri.path.split('/').pop() ?? document.uri.toString();
+  const request: SampleRequest = { text, fileName: name, count, seed: SEED };
+  let reply: { cloud: SpreadCloud; ms: number } | 'cancelled';
+  try {
+    reply = await vscode.window.withProgress(
+      { location: vscode.ProgressLocation.Notification, title: `Sampling ${count.toLocaleString('en')} runs of ${name}`, cancellable: true },
+      (progress, token) => runWorker(script, request, token, (done) => progress.report(done)),
+    );
+  } catch (e) {
+    void vscode.window.showErrorMessage(`The sampling of ${name} failed: ${e instanceof Error ? e.message : String(e)}`);
+    return undefined;
+  }
+  if (reply === 'cancelled') return { status: 'cancelled' };
+  if (document.version !== version) {
+    void vscode.window.showInformationMessage(`${name} changed while its runs were sampled; run "Veer: Sample the Runs" again for the new text.`);
+    return { status: 'stale' };
+  }
+  const { cloud, ms } = reply;
+  const marks = cloud.spots.filter((s) => s.kind === 'mark' && s.share !== undefined).map((s) => {
+    const seg = result.runs[s.run]?.segments[s.segment];
+    return { line: s.line, label: seg?.label ?? '', sampled: s.share!, ...(seg?.hitProbability !== undefined ? { linear: seg.hitProbability } : {}) };
+  });
+  const dots = await showCloud(document, version, cloud);
+  const pct = (p: number) => `${Math.round(p * 1000) / 10} %`;
+  const said = marks.slice(0, 3).map((m) => `${m.label} met by ${pct(m.sampled)}${m.linear !== undefined ? ` (the oval's model: ${pct(m.linear)})` : ''}`);
+  void vscode.window.showInformationMessage(`Sampled ${count.toLocaleString('en')} runs of ${name} in ${(ms / 1000).toFixed(1)} s`
+    + `${said.length ? `: ${said.join('; ')}${marks.length > 3 ? '; …' : ''}` : ''}. The dots in the preview clear at the next edit.`);
+  return { status: 'done', count, ms, dots, marks };
+}
+
+/**
+ * Runs one request in a fresh worker; resolves with its cloud, or 'cancelled'
+ * when the user cancels (the worker is terminated at once, mid-sample).
+ */
+function runWorker(script: string, request: SampleRequest, token: vscode.CancellationToken,
+  report: (step: { increment: number; message: string }) => void): Promise<{ cloud: SpreadCloud; ms: number } | 'cancelled'> {
+  return new Promise((resolve, reject) => {
+    const worker = new Worker(script, { resourceLimits: { maxOldGenerationSizeMb: WORKER_HEAP_MB } });
+    let settled = false;
+    let shown = 0;
+    const finish = (settle: () => void) => {
+      if (settled) return;
+      settled = true;
+      cancelled.dispose();
+      void worker.terminate();
+      settle();
+    };
+    const cancelled = token.onCancellationRequested(() => finish(() => resolve('cancelled')));
+    worker.on('message', (reply: SampleReply) => {
+      if (reply.type === 'progress') {
+        const pct = Math.floor(reply.done * 100);
+        if (pct > shown) {
+          report({ increment: pct - shown, message: `${pct} %` });
+          shown = pct;
+        }
+      } else if (reply.type === 'done') {
+        finish(() => (isSpreadCloud(reply.cloud) ? resolve({ cloud: reply.cloud, ms: reply.ms }) : reject(new Error('the worker sent no cloud'))));
+      } else {
+        finish(() => reject(new Error(reply.message)));
+      }
+    });
+    worker.on('error', (e) => finish(() => reject(e)));
+    worker.on('exit', (code) => finish(() => reject(new Error(`the sampling stopped before it finished (exit code ${code})`))));
+    worker.postMessage(request);
+  });
+}
