@@ -1,0 +1,304 @@
+// A recorded run laid against the plan, motion by motion (robot model,
+// section 5): where each motion really ended (reconstructed from the log)
+// against where the plan says and where the controller simulation predicted,
+// and how long it really took. Motions are found in the log by its line
+// column, or, without one, by aligning the predicted times with the log's.
+import type { CheckResult, Point, Pose, RunResult, Segment, SegmentKind } from '../types';
+import { LogError, readLog, type LogSettings, type ReadLog } from './log';
+import { reconstruct, type Reconstruction, type ReconstructedPath } from './odometry';
+import type { RecordedRun } from './types';
+
+/** One pose's difference: distance between the axle midpoints, mm, and the heading's, degrees (recorded minus the other). */
+export interface PoseError {
+  position: number;
+  heading: number;
+}
+
+export interface MotionComparison {
+  /** 1-based plan line. */
+  line: number;
+  kind: SegmentKind;
+  label: string;
+  planned: { start: number; duration: number; end: Pose };
+  predicted?: { start: number; duration: number; end: Pose };
+  /** Undefined when the log does not reach this motion. */
+  recorded?: {
+    /** Seconds from the log's first row. */
+    start: number;
+    duration: number;
+    /** The file's lines of the motion's first and last rows. */
+    fromLine?: number;
+    toLine?: number;
+    /** The end by the best reconstruction (wheels and yaw where the log has a yaw, else wheels alone). */
+    end: Pose;
+    endWheels: Pose;
+    endFused?: Pose;
+  };
+  vsPlanned?: PoseError;
+  vsPredicted?: PoseError;
+  /** Recorded minus planned, and minus predicted, seconds. */
+  timeVsPlanned?: number;
+  timeVsPredicted?: number;
+}
+
+export interface RunComparison {
+  runIndex: number;
+  name: string;
+  /** How motions were found in the log. */
+  alignedBy: 'line' | 'time';
+  /** With `time`: log time = timeOffset + timeScale × the run's (predicted) time, s. */
+  timeOffset?: number;
+  timeScale?: number;
+  /** Which reconstruction `end` and the errors use. */
+  reconstruction: 'wheels' | 'wheels+yaw';
+  motions: MotionComparison[];
+  /** The log's length and the run's planned and predicted lengths, s. */
+  recordedDuration: number;
+  plannedDuration: number;
+  predictedDuration?: number;
+  /** Distance driven by the axle midpoint over the motions the log reaches, recorded and planned, mm. */
+  recordedDistance: number;
+  plannedDistance: number;
+}
+
+/** What the drawing needs: the reconstructed paths, thinned. */
+export interface RecordedOverlay {
+  name: string;
+  runIndex: number;
+  wheels: Point[];
+  fused?: Point[];
+}
+
+export interface Replay {
+  log: ReadLog;
+  reconstruction: Reconstruction;
+  comparison: RunComparison;
+  overlay: RecordedOverlay;
+}
+
+/** Recorded over planned distance outside this band: wrong units, or a log of another plan. */
+export const DISTANCE_RATIO_BAND = [0.6, 1.6] as const;
+/** Points kept per drawn path. */
+export const OVERLAY_POINTS = 2000;
+const MOVED_MM = 1;
+/** Wheels that move less than this (mm, both together) up to the log's end are at rest. */
+const REST_MM = 0.5;
+/** Aligning by time stretches the run's times by at most this factor (or shrinks by its inverse). */
+const TIME_SCALE_LIMIT = 2;
+
+/**
+ * Reads, reconstructs and compares a log against a checked plan. `run` picks
+ * the run (index); by default the one the log's line column names, or the
+ * plan's only run. Throws a LogError on a log it cannot use.
+ */
+export function replayLog(result: CheckResult, text: string, source: string, options: LogSettings = {}, run?: number): Replay {
+  const r = result.setup.robot;
+  const log = readLog(text, source, { wheelDiameter: r.wheelDiameter, mismatch: r.mismatch ?? 1, yawLo: result.setup.yawRange.lo }, options);
+  const runIndex = run ?? pickRun(result, log.run);
+  const plan = result.runs[runIndex];
+  const start = plan.segments.find((s) => s.kind === 'start');
+  if (!start) throw new LogError(`run "${plan.name}" has no \`start\`: the recorded path needs the run's start pose`);
+  const reconstruction = reconstruct(log.run, start.start, {
+    track: r.effectiveTrack ?? r.track ?? NaN, turns: result.setup.turns, gyroScale: result.setup.gyro.scale,
+  });
+  const comparison = compareRun(plan, runIndex, log.run, reconstruction);
+  return { log, reconstruction, comparison, overlay: overlayOf(reconstruction, plan.name, runIndex) };
+}
+
+/** The run a log belongs to: the one its line column names, or the plan's only run. */
+function pickRun(result: CheckResult, run: RecordedRun): number {
+  if (result.runs.length === 0) throw new LogError('the plan has no run to compare the log with');
+  if (result.runs.length === 1) return 0;
+  if (run.hasLine) {
+    const first = run.samples.find((s) => s.line !== undefined)!.line! - 1;
+    const i = result.runs.findIndex((r) => r.line === first || r.segments.some((s) => s.line === first));
+    if (i >= 0) return i;
+  }
+  throw new LogError(`the plan has ${result.runs.length} runs (${result.runs.map((r) => `"${r.name}"`).join(', ')}): say which one the log recorded (\`--run NAME\`)`);
+}
+
+/** The motions that take part in a comparison (a start has no motion; marks and resets take no time). */
+function motionsOf(plan: RunResult): Segment[] {
+  return plan.segments.filter((s) => s.kind !== 'start');
+}
+
+export function compareRun(plan: RunResult, runIndex: number, run: RecordedRun, rec: Reconstruction): RunComparison {
+  const s = run.samples;
+  const n = s.length;
+  const motions = motionsOf(plan);
+  const best = rec.fused ?? rec.wheels;
+  // The planned (and predicted) start of each motion from the run's start.
+  let clock = 0;
+  const plannedStart = new Map<Segment, number>();
+  for (const seg of motions) {
+    plannedStart.set(seg, clock);
+    clock += Number.isFinite(seg.duration) ? seg.duration : 0;
+  }
+  const predictedAll = motions.every((m) => m.predicted && Number.isFinite(m.predicted.duration));
+  // Each motion's span of samples [from, to] (to: where the code moved on).
+  const spans = new Map<Segment, { from: number; to: number }>();
+  let alignedBy: 'line' | 'time';
+  let timeOffset: number | undefined;
+  let timeScale: number | undefined;
+  if (run.hasLine) {
+    alignedBy = 'line';
+    const byLine = new Map<number, Segment>();
+    for (const seg of plan.segments) if (!byLine.has(seg.line + 1)) byLine.set(seg.line + 1, seg);
+    const lines = plan.segments.map((x) => x.line + 1);
+    const range = `lines ${Math.min(...lines, plan.line + 1)} to ${Math.max(...lines)}`;
+    let current: Segment | undefined;
+    let lastOrder = -1;
+    const order = new Map(plan.segments.map((x, i) => [x, i]));
+    for (let i = 0; i < n; i++) {
+      const l = s[i].line;
+      if (l === undefined) continue;
+      const seg = byLine.get(l);
+      if (!seg) {
+        if (l === plan.line + 1) continue; // the `run` line itself: before the first motion
+        const fileLine = run.fileLines?.[i];
+        throw new LogError(`${fileLine !== undefined ? `line ${fileLine}, ` : ''}column ${run.columns?.line ?? '?'} (line): plan line ${l} is not a motion of run "${plan.name}" (${range}): is this a log of another plan, or of an older version of it?`, fileLine, run.columns?.line);
+      }
+      if (seg !== current) {
+        const o = order.get(seg)!;
+        if (o < lastOrder) {
+          const fileLine = run.fileLines?.[i];
+          throw new LogError(`${fileLine !== undefined ? `line ${fileLine}, ` : ''}column ${run.columns?.line ?? '?'} (line): the log goes back from plan line ${current!.line + 1} to line ${l}; a run's motions come once each, in plan order`, fileLine, run.columns?.line);
+        }
+        lastOrder = o;
+        if (current) spans.get(current)!.to = i;
+        if (spans.has(seg)) throw new LogError(`plan line ${l} appears twice in the log, apart`);
+        spans.set(seg, { from: i, to: n - 1 });
+        current = seg;
+      }
+    }
+  } else {
+    alignedBy = 'time';
+    // The run's time 0 is where the wheels first move, less the start of the first motion that moves them.
+    let moved = 0;
+    while (moved < n && Math.abs(s[moved].left) + Math.abs(s[moved].right) < MOVED_MM) moved++;
+    const firstMoving = motions.find((m) => m.distance > 0 || m.turned !== 0);
+    const base = (seg: Segment) => (predictedAll ? seg.predicted!.start : plannedStart.get(seg)!);
+    const since = moved > 0 && moved < n ? s[moved - 1].t : 0;
+    // The run's motions stretched (or shrunk) to the time the log's wheels move: a slower robot takes longer throughout.
+    let rest = n - 1;
+    while (rest > 0 && Math.abs(s[rest - 1].left - s[n - 1].left) + Math.abs(s[rest - 1].right - s[n - 1].right) < REST_MM) rest--;
+    const lastMoving = [...motions].reverse().find((m) => m.distance > 0 || m.turned !== 0);
+    const from = firstMoving ? base(firstMoving) : 0;
+    const until = lastMoving ? base(lastMoving) + (predictedAll ? lastMoving.predicted!.duration : lastMoving.duration) : from;
+    timeScale = until > from && s[rest].t > since ? Math.min(TIME_SCALE_LIMIT, Math.max(1 / TIME_SCALE_LIMIT, (s[rest].t - since) / (until - from))) : 1;
+    timeOffset = since - from * timeScale;
+    for (const seg of motions) {
+      const t0 = base(seg) * timeScale + timeOffset;
+      const dur = (predictedAll ? seg.predicted!.duration : seg.duration) * timeScale;
+      if (t0 > s[n - 1].t) continue; // the log ends before this motion
+      const from = indexAt(run, Math.max(0, t0));
+      const to = indexAt(run, Math.min(s[n - 1].t, t0 + dur));
+      spans.set(seg, { from, to });
+    }
+  }
+
+  // The last motion the log reaches ends where the wheels come to rest (the log may run on after the code ends).
+  const lastSpan = [...motions].reverse().map((m) => spans.get(m)).find((x) => x);
+  if (lastSpan && lastSpan.to === n - 1) {
+    let rest = n - 1;
+    while (rest > lastSpan.from && Math.abs(s[rest - 1].left - s[n - 1].left) + Math.abs(s[rest - 1].right - s[n - 1].right) < REST_MM) rest--;
+    lastSpan.to = rest;
+  }
+  const out: MotionComparison[] = [];
+  let recordedDistance = 0;
+  let plannedDistance = 0;
+  for (const seg of motions) {
+    const span = spans.get(seg);
+    const m: MotionComparison = {
+      line: seg.line + 1, kind: seg.kind, label: labelOf(seg),
+      planned: { start: plannedStart.get(seg)!, duration: seg.duration, end: seg.end },
+    };
+    if (seg.predicted) m.predicted = { start: seg.predicted.start, duration: seg.predicted.duration, end: seg.predicted.end };
+    if (span) {
+      const end = poseOf(best, span.to);
+      const endWheels = poseOf(rec.wheels, span.to);
+      m.recorded = {
+        start: s[span.from].t, duration: s[span.to].t - s[span.from].t,
+        ...(run.fileLines ? { fromLine: run.fileLines[span.from], toLine: run.fileLines[span.to] } : {}),
+        end, endWheels, ...(rec.fused ? { endFused: poseOf(rec.fused, span.to) } : {}),
+      };
+      m.vsPlanned = poseError(end, seg.end);
+      m.timeVsPlanned = m.recorded.duration - seg.duration;
+      if (seg.predicted && Number.isFinite(seg.predicted.duration)) {
+        m.vsPredicted = poseError(end, seg.predicted.end);
+        m.timeVsPredicted = m.recorded.duration - seg.predicted.duration;
+      }
+      recordedDistance += travelled(run, span.from, span.to);
+      plannedDistance += seg.distance;
+    }
+    out.push(m);
+  }
+  if (spans.size === 0) throw new LogError(`the log reaches none of the motions of run "${plan.name}"`);
+  const ratio = recordedDistance / plannedDistance;
+  if (plannedDistance > 100 && !(ratio >= DISTANCE_RATIO_BAND[0] && ratio <= DISTANCE_RATIO_BAND[1])) {
+    throw new LogError(`column ${run.columns?.left ?? '?'} (left) and column ${run.columns?.right ?? '?'} (right): the log drives ${Math.round(recordedDistance)} mm where the plan drives ${Math.round(plannedDistance)} mm (${ratio.toFixed(2)} times): check the wheel units (deg, rot, counts:N, mm) and the plan's wheel diameter, or is this a log of another plan?`, undefined, run.columns?.left);
+  }
+  return {
+    runIndex, name: plan.name, alignedBy, ...(timeOffset !== undefined ? { timeOffset, timeScale } : {}),
+    reconstruction: rec.fused ? 'wheels+yaw' : 'wheels',
+    motions: out,
+    recordedDuration: s[n - 1].t,
+    plannedDuration: plan.duration,
+    ...(plan.predictedDuration !== undefined && Number.isFinite(plan.predictedDuration) ? { predictedDuration: plan.predictedDuration } : {}),
+    recordedDistance, plannedDistance,
+  };
+}
+
+/** The first sample at or after time t (the last when t is past the end). */
+function indexAt(run: RecordedRun, t: number): number {
+  const s = run.samples;
+  let lo = 0;
+  let hi = s.length - 1;
+  if (t >= s[hi].t) return hi;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (s[mid].t < t) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+function travelled(run: RecordedRun, from: number, to: number): number {
+  let d = 0;
+  const s = run.samples;
+  for (let i = from + 1; i <= to; i++) d += Math.abs((s[i].left - s[i - 1].left + s[i].right - s[i - 1].right) / 2);
+  return d;
+}
+
+function poseOf(p: ReconstructedPath, i: number): Pose {
+  return { x: p.x[i], y: p.y[i], heading: p.heading[i] };
+}
+
+export function poseError(a: Pose, b: Pose): PoseError {
+  return { position: Math.hypot(a.x - b.x, a.y - b.y), heading: a.heading - b.heading };
+}
+
+function labelOf(seg: Segment): string {
+  const r = (v: number, d: number) => Number(v.toFixed(d)).toString();
+  switch (seg.kind) {
+    case 'drive': return `drive ${r(seg.distance, 0)} mm${seg.sensing === 'gyro' ? ' (hold)' : ''}`;
+    case 'turn': return `turn ${r(seg.turned, 1)}°${seg.sensing === 'gyro' ? ' by gyro' : ''}`;
+    case 'wait': return `wait ${r(seg.duration, 2)} s`;
+    case 'mark': return `mark "${seg.label ?? ''}"`;
+    case 'reset': return 'reset yaw';
+    default: return seg.kind;
+  }
+}
+
+/** The reconstructed paths thinned to at most OVERLAY_POINTS points each, for the drawing. */
+export function overlayOf(rec: Reconstruction, name: string, runIndex: number): RecordedOverlay {
+  const thin = (p: ReconstructedPath): Point[] => {
+    const n = p.x.length;
+    const stride = Math.max(1, Math.ceil(n / OVERLAY_POINTS));
+    const pts: Point[] = [];
+    for (let i = 0; i < n; i += stride) pts.push({ x: p.x[i], y: p.y[i] });
+    if ((n - 1) % stride !== 0) pts.push({ x: p.x[n - 1], y: p.y[n - 1] });
+    return pts;
+  };
+  return { name, runIndex, wheels: thin(rec.wheels), ...(rec.fused ? { fused: thin(rec.fused) } : {}) };
+}
