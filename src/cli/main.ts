@@ -9,6 +9,7 @@ import { sampleRun, sampleStats } from '../core/spread/sample';
 import { meetsMark } from '../core/spread/gaussian';
 import { sampleCloud, SPREAD_CHOICES, type SpreadShown } from '../core/render/cloud';
 import { version } from '../../package.json';
+import { LOG_OPTIONS, overlayForRender, replayCommand, REPLAY_HELP } from './replay';
 
 const HELP = `veer ${version}: check and draw plans for two-wheeled robot runs
 
@@ -20,10 +21,12 @@ Usage:
         [--spread marks|all|off] [--no-spread] [--samples N [--seed S]]
                                            with where the real robot ends up: the 95 % ovals, heading
                                            wedges and each mark's chance, and a cloud of sampled end points
+        [--log LOG [--wheel-units U ...]]  and a recorded run's path, reconstructed from its log (the
+                                           log options of \`replay\`)
   veer targets FILE [--run NAME] [--csv|--json]
                                            the numbers the robot's code needs, one row per motion:
                                            start time, time, wheel and motor degrees, yaw target, power
-  veer fix FILE [--write]                  apply the fixes that need no choice and keep every motion
+${REPLAY_HELP}  veer fix FILE [--write]                  apply the fixes that need no choice and keep every motion
                                            (the fewest yaw resets, wrongly cased keywords); print the
                                            fixed plan, or rewrite FILE with --write; a summary on stderr
   veer --help | --version
@@ -81,6 +84,7 @@ export function runCli(argv: string[], io: CliIo): number {
 }
 
 function dispatch(argv: string[], io: CliIo): number {
+  if (argv[0] === 'replay') return replayCommand(argv.slice(1), io, readPlan);
   let parsed;
   try {
     parsed = parseArgs({
@@ -101,6 +105,8 @@ function dispatch(argv: string[], io: CliIo): number {
         seed: { type: 'string' },
         spread: { type: 'string' },
         'no-spread': { type: 'boolean' },
+        log: { type: 'string' },
+        ...LOG_OPTIONS,
       },
     });
   } catch (e) {
@@ -123,6 +129,7 @@ function dispatch(argv: string[], io: CliIo): number {
   if (command !== 'check' && values.trace) throw new UsageError('`--trace` belongs to `veer check --json`');
   if (command !== 'check' && command !== 'render' && (values.samples !== undefined || values.seed !== undefined)) throw new UsageError('`--samples` and `--seed` belong to `veer check --json` and `veer render`');
   if (command !== 'render' && (values.spread !== undefined || values['no-spread'])) throw new UsageError('`--spread` and `--no-spread` belong to `veer render`');
+  if (command !== 'render' && (values.log !== undefined || Object.keys(LOG_OPTIONS).some((k) => (values as Record<string, unknown>)[k] !== undefined))) throw new UsageError('`--log` and the log options belong to `veer render` (and `veer replay PLAN LOG`)');
   if (command === 'targets') {
     if (values.output !== undefined || values.strict) throw new UsageError('`veer targets` takes a plan file, `--run`, and `--csv` or `--json`');
     if (values.csv && values.json) throw new UsageError('choose one of `--csv` and `--json`');
@@ -153,9 +160,9 @@ function dispatch(argv: string[], io: CliIo): number {
     if (values.json) throw new UsageError('`--json` belongs to `veer check`');
     if (files.length !== 1) throw new UsageError('`veer render` takes exactly one plan file');
     if (!values.output) throw new UsageError('`veer render` needs `-o OUT.svg`');
-    return render(files[0], values.output, values.run, !!values.strict, io, renderSpread(values));
+    return render(files[0], values.output, values.run, !!values.strict, io, renderSpread(values), values.log !== undefined ? { file: values.log, values } : undefined);
   }
-  throw new UsageError(`unknown command \`${command}\`: use \`check\`, \`render\`, \`targets\` or \`fix\``);
+  throw new UsageError(`unknown command \`${command}\`: use \`check\`, \`render\`, \`targets\`, \`replay\` or \`fix\``);
 }
 
 class FileError extends Error {}
@@ -317,14 +324,17 @@ function renderSpread(values: { spread?: string; 'no-spread'?: boolean; samples?
 }
 
 function render(file: string, output: string, run: string | undefined, strict: boolean, io: CliIo,
-  spread: { spread: SpreadShown; samples?: number; seed: number } = { spread: 'marks', seed: 1 }): number {
+  spread: { spread: SpreadShown; samples?: number; seed: number } = { spread: 'marks', seed: 1 }, log?: { file: string; values: Record<string, unknown> }): number {
   if (sameFile(file, output)) throw new UsageError(`\`-o ${output}\` is the plan itself: writing the drawing there would destroy the plan. Choose another name, e.g. \`-o ${basename(file).replace(/\.veer$/i, '')}.svg\``);
   const { result } = checkOne(file, new ExpressionCache(), io);
   const runSel = selectRun(file, result, run);
   const cloud = spread.samples !== undefined
     ? sampleCloud(result, spread.samples, spread.seed, progressReporter(io, `sampling ${spread.samples} runs of ${file}`))
     : undefined;
-  const svg = renderSvg(result, { run: runSel, standalone: true, spread: spread.spread, ...(cloud ? { cloud } : {}) });
+  // `--log`: the recorded run's reconstructed path over the plan (docs/recorded-runs.md).
+  const recorded = log ? overlayForRender(result, log.file, log.values, runSel) : undefined;
+  if (recorded && 'error' in recorded) throw new FileError(recorded.error);
+  const svg = renderSvg(result, { run: runSel, standalone: true, spread: spread.spread, ...(cloud ? { cloud } : {}), ...(recorded ? { recorded: recorded.overlay } : {}) });
   writeAtomically(output, svg);
   for (const d of result.diagnostics) io.err(diagnosticLine(file, d) + '\n');
   io.err(`wrote ${output}\n`);
@@ -400,6 +410,11 @@ function targets(file: string, run: string | undefined, format: 'text' | 'csv' |
 
 /** Entry point used by bin/veer.js. */
 export function main(): void {
+  // A reader that stops early (\`veer check plan.veer | head\`) closes the pipe: stop quietly, as other commands do.
+  process.stdout.on('error', (e: NodeJS.ErrnoException) => {
+    if (e.code === 'EPIPE') process.exit(process.exitCode ?? 0);
+    throw e;
+  });
   process.exitCode = runCli(process.argv.slice(2), {
     out: (s) => process.stdout.write(s),
     err: (s) => process.stderr.write(s),

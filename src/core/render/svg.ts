@@ -40,6 +40,8 @@ import { predictedPath } from '../sim/run';
 import type { CheckResult, Diagnostic, PathPiece, Point, Pose, RunResult, Segment, TurnDirection } from '../types';
 import { footprintCorners, footprintOf, forwardVector, rotateAbout, turnSign, type Footprint } from '../solve/frame';
 import { escapeXml, num } from './markup';
+import { boundRecorded, drawRecorded, RECORDED_STYLE } from './recorded';
+import type { RecordedOverlay } from '../record/compare';
 import type { SpreadCloud, SpreadShown } from './cloud';
 import { drawableSpread, drawCloud, drawSpreadLayer, sampledShares, spreadOval } from './spreadLayer';
 import { Bounds, formatLength, makeView, scaleBarLength, type View } from './view';
@@ -57,6 +59,8 @@ export interface RenderOptions {
   spread?: SpreadShown;
   /** Sampled end points to draw as a cloud of dots (with each mark's sampled share beside its chance); drawn whatever `spread` says. */
   cloud?: SpreadCloud;
+  /** A recorded run's reconstructed paths (docs/recorded-runs.md), drawn over its run. */
+  recorded?: RecordedOverlay;
 }
 
 /** The editor's chart colours in its light themes, so an exported drawing matches the preview. */
@@ -101,7 +105,7 @@ export function renderSvg(result: CheckResult, options: RenderOptions = {}): str
 
   const header = headerLayout(result, runs);
   const view = makeView(
-    contentBounds(result, runs, diagnostics, footprint),
+    boundRecorded(contentBounds(result, runs, diagnostics, footprint), options.recorded),
     targetWidth,
     header.height,
     SIZE.footer,
@@ -128,6 +132,8 @@ export function renderSvg(result: CheckResult, options: RenderOptions = {}): str
   for (const { run, index } of runs) drawFootprints(out, d, run, index);
   for (const { run, index } of runs) drawPath(out, d, run, index);
   for (const { run, index } of runs) drawPredicted(out, d, run, index);
+  const recordedRun = options.recorded && runs.find((r) => r.index === options.recorded!.runIndex);
+  if (options.recorded && recordedRun) drawRecorded(out, view, options.recorded, recordedRun.run.line, SIZE.labelFont);
   const spread = { shown: options.spread ?? 'marks', shares: sampledShares(options.cloud) };
   for (const { run, index } of runs) drawSpreadLayer(out, d, run, runClass(index), spread.shown, (seg, i) => segmentAttrs(seg, index, i));
   if (options.cloud) drawCloud(out, d, options.cloud, runs, runClass, segmentAttrs);
@@ -923,6 +929,7 @@ function standaloneStyle(px: number): string {
     '.marker-error{color:#dc2626}.marker-warning{color:#d97706}.marker-info{color:#2563eb}' +
     '.marker-wrap .tag{fill-opacity:1}.marker-wrap .tag-text{fill:#fff;stroke:none}' +
     '.scale{color:#475569}' +
+    RECORDED_STYLE +
     '</style>\n'
   );
 }
