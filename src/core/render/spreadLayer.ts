@@ -82,17 +82,27 @@ const MOTIONS = new Set(['drive', 'turn', 'square']);
 
 /**
  * A run's ovals at motion ends (only with "every motion") and the heading
- * wedge at each oval drawn (marks too, unless the spread is off). An oval
- * at a motion's end that a mark repeats (same place) is left to the mark.
- * `attrsOf` gives a segment's data attributes.
+ * wedge at each oval drawn (marks too, unless the spread is off). An end
+ * that a mark or the next motion repeats (the same place: a spin in place)
+ * is drawn once, by the last of them. `attrsOf` gives a segment's data
+ * attributes.
  */
 export function drawSpreadLayer(out: string[], c: SpreadCanvas, run: RunResult, runClass: string, shown: SpreadShown,
   attrsOf: (seg: Segment, index: number) => string): void {
   if (shown === 'off') return;
   const parts: string[] = [];
-  const marks = run.segments.filter((s) => s.kind === 'mark' && s.label !== undefined && drawableSpread(s));
-  const underMark = (seg: Segment) => marks.some((m) => Math.abs(m.end.x - seg.end.x) < 0.01 && Math.abs(m.end.y - seg.end.y) < 0.01);
-  run.segments.forEach((seg, i) => {
+  const segs = run.segments;
+  const samePlace = (a: Segment, b: Segment) => Math.abs(a.end.x - b.end.x) < 0.01 && Math.abs(a.end.y - b.end.y) < 0.01;
+  /** Whether a later mark, or the next motion, ends where this motion does. */
+  const repeated = (i: number): boolean => {
+    for (let j = i + 1; j < segs.length; j++) {
+      const next = segs[j];
+      if (next.kind === 'mark' && next.label !== undefined && drawableSpread(next) && samePlace(next, segs[i])) return true;
+      if (MOTIONS.has(next.kind)) return samePlace(next, segs[i]);
+    }
+    return false;
+  };
+  segs.forEach((seg, i) => {
     const spread = drawableSpread(seg);
     if (!spread) return;
     const attrs = attrsOf(seg, i);
@@ -100,7 +110,7 @@ export function drawSpreadLayer(out: string[], c: SpreadCanvas, run: RunResult, 
       parts.push(headingWedge(c, seg, spread, attrs));
       return;
     }
-    if (shown !== 'all' || !MOTIONS.has(seg.kind) || underMark(seg)) return;
+    if (shown !== 'all' || !MOTIONS.has(seg.kind) || repeated(i)) return;
     const e = spread.ellipse95;
     parts.push(
       `<g class="spread-end"${attrs}><title>${escapeXml(`line ${seg.line + 1}: the robot ends this ${seg.kind} inside the oval in 19 runs out of 20 (${formatMm(e.a)} by ${formatMm(e.b)})`)}</title>`,
