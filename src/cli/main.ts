@@ -10,6 +10,7 @@ import { meetsMark } from '../core/spread/gaussian';
 import { sampleCloud, SPREAD_CHOICES, type SpreadShown } from '../core/render/cloud';
 import { version } from '../../package.json';
 import { LOG_OPTIONS, overlayForRender, replayCommand, REPLAY_HELP } from './replay';
+import { calibrateCommand, CALIBRATE_HELP } from './calibrate';
 
 const HELP = `veer ${version}: check and draw plans for two-wheeled robot runs
 
@@ -26,7 +27,7 @@ Usage:
   veer targets FILE [--run NAME] [--csv|--json]
                                            the numbers the robot's code needs, one row per motion:
                                            start time, time, wheel and motor degrees, yaw target, power
-${REPLAY_HELP}  veer fix FILE [--write]                  apply the fixes that need no choice and keep every motion
+${REPLAY_HELP}${CALIBRATE_HELP}  veer fix FILE [--write]                  apply the fixes that need no choice and keep every motion
                                            (the fewest yaw resets, wrongly cased keywords); print the
                                            fixed plan, or rewrite FILE with --write; a summary on stderr
   veer --help | --version
@@ -85,6 +86,7 @@ export function runCli(argv: string[], io: CliIo): number {
 
 function dispatch(argv: string[], io: CliIo): number {
   if (argv[0] === 'replay') return replayCommand(argv.slice(1), io, readPlan);
+  if (argv[0] === 'calibrate') return calibrateCommand(argv.slice(1), io, readPlan);
   let parsed;
   try {
     parsed = parseArgs({
@@ -162,7 +164,7 @@ function dispatch(argv: string[], io: CliIo): number {
     if (!values.output) throw new UsageError('`veer render` needs `-o OUT.svg`');
     return render(files[0], values.output, values.run, !!values.strict, io, renderSpread(values), values.log !== undefined ? { file: values.log, values } : undefined);
   }
-  throw new UsageError(`unknown command \`${command}\`: use \`check\`, \`render\`, \`targets\`, \`replay\` or \`fix\``);
+  throw new UsageError(`unknown command \`${command}\`: use \`check\`, \`render\`, \`targets\`, \`replay\`, \`calibrate\` or \`fix\``);
 }
 
 class FileError extends Error {}

@@ -10,7 +10,7 @@ import { decimals, type SetupEdits } from './edits';
 const MM_PER: Record<LengthUnitName, number> = { mm: 1, cm: 10, m: 1000, in: 25.4 };
 const LENGTH_DECIMALS: Record<LengthUnitName, number> = { mm: 2, cm: 3, m: 5, in: 4 };
 
-export const INTERVAL_NOTE = 'mean of the trials ± the 95 % interval (Student\'s t on their spread)';
+export const INTERVAL_NOTE = 'each value is the mean of the trials ± its 95 % interval, by Student\'s t on their spread';
 
 function len(mm: number, unit: LengthUnitName): string {
   return `${decimals(mm / MM_PER[unit], LENGTH_DECIMALS[unit]).replace(/^(-?\d+)$/, '$1')} ${unit}`;
