@@ -2,6 +2,7 @@
 // shared per-document analysis.
 import * as vscode from 'vscode';
 import { registerAnalysis } from './analysis';
+import { registerCalibration } from './calibrate';
 import { registerCodeActions } from './codeActions';
 import { registerCompletion } from './completion';
 import { registerDiagnostics } from './diagnostics';
@@ -28,6 +29,7 @@ export async function activate(context: vscode.ExtensionContext): Promise<void> 
   registerCompletion(context);
   registerCodeActions(context);
   registerNewPlan(context);
+  registerCalibration(context);
   registerReference(context);
   registerAnalysis(context);
 }
