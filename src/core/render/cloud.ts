@@ -79,8 +79,9 @@ export function sampleCloud(result: CheckResult, count: number, seed = 1, onProg
         }
         spots.push({ run: r, segment: i, line: seg.line, kind: 'mark', ...keep(i), ...(share !== undefined ? { share } : {}) });
       });
+      // The run's end, unless a mark there already holds these very samples.
       const last = segs.length - 1;
-      if (segs[last].complete) spots.push({ run: r, segment: last, line: segs[last].line, kind: 'end', ...keep(last) });
+      if (segs[last].complete && segs[last].kind !== 'mark') spots.push({ run: r, segment: last, line: segs[last].line, kind: 'end', ...keep(last) });
     });
   }
   onProgress?.(1);
