@@ -202,7 +202,8 @@ export function readLog(text: string, source: string, robot: LogRobot, options: 
   for (let i = 0; i < data.length; i++) {
     const r = data[i];
     if (r.length === 0 || (r.length === 1 && r[0].trim() === '')) continue;
-    if (r[0].trimStart().startsWith('#')) continue;
+    const first = r[0];
+    if (first.charCodeAt(0) === 35 /* # */ || ((first.charCodeAt(0) === 32 || first.charCodeAt(0) === 9) && first.trimStart().startsWith('#'))) continue;
     rows.push(r);
     rowLines.push(firstLine + i);
   }
@@ -310,8 +311,9 @@ export function readLog(text: string, source: string, robot: LogRobot, options: 
   let r0 = 0;
   const num = (row: string[], c: Column, line: number): number => {
     const cell = row[c.index];
-    const v = Number(cell);
-    if (cell === undefined || cell.trim() === '' || !Number.isFinite(v)) {
+    const v = +cell;
+    // `+''` and `+' '` are 0: an empty cell is told apart only when the number is 0.
+    if (v - v !== 0 || (v === 0 && cell.trim() === '')) {
       throw new LogError(`line ${line}, ${describe(c)}: ${cell === undefined || cell.trim() === '' ? 'the cell is empty' : `\`${cell.slice(0, 40)}\` is not a number`}; every row needs a number there`, line, c.index + 1);
     }
     return v;
@@ -328,13 +330,18 @@ export function readLog(text: string, source: string, robot: LogRobot, options: 
       l0 = l;
       r0 = r;
     }
-    const s: RecordedSample = { t: t - t0, left: l - l0, right: r - r0 };
-    if (yaw) s.yaw = wrapReading(sYaw * num(row, yaw, line) * kYaw, robot.yawLo);
+    // Every sample has every field (undefined where the log has no such column): one object shape for the whole run.
+    const s: RecordedSample = {
+      t: t - t0, left: l - l0, right: r - r0,
+      yaw: yaw ? wrapReading(sYaw * num(row, yaw, line) * kYaw, robot.yawLo) : undefined,
+      powerLeft: undefined, powerRight: undefined, line: undefined,
+    };
     if (pl && pr) {
       const a = num(row, pl, line) * kP;
       const b = num(row, pr, line) * kP;
-      for (const [v, c] of [[a, pl], [b, pr]] as const) {
-        if (Math.abs(v) > 1 + 1e-9) {
+      if (Math.abs(a) > 1 + 1e-9 || Math.abs(b) > 1 + 1e-9) {
+        const c = Math.abs(a) > 1 + 1e-9 ? pl : pr;
+        {
           throw new LogError(`line ${line}, ${describe(c)}: power ${num(row, c, line)} is beyond full power (${powerUnit === 'pct' ? '-100 to 100 %' : '-1 to 1'})${powerUnit === 'frac' ? '; are the powers in per cent? (power-units=pct)' : ''}`, line, c.index + 1);
         }
       }
@@ -352,8 +359,12 @@ export function readLog(text: string, source: string, robot: LogRobot, options: 
       if (!(dt > 0)) {
         throw new LogError(`line ${line}, ${describe(time)}: time ${fmt(t / kT)} is ${dt === 0 ? 'the same as' : 'before'} the row before's (${fmt((prev.t + t0) / kT)}); rows must be in time order, one per sample`, line, time.index + 1);
       }
-      for (const [d, c] of [[s.left - prev.left, left], [s.right - prev.right, right]] as const) {
-        if (Math.abs(d) / dt > WHEEL_SPEED_LIMIT) {
+      const dl = Math.abs(s.left - prev.left);
+      const dr = Math.abs(s.right - prev.right);
+      if (dl > WHEEL_SPEED_LIMIT * dt || dr > WHEEL_SPEED_LIMIT * dt) {
+        const c = dl > WHEEL_SPEED_LIMIT * dt ? left : right;
+        const d = c === left ? dl : dr;
+        {
           throw new LogError(`line ${line}, ${describe(c)}: the wheel moved ${fmt(Math.abs(d))} mm in ${fmt(dt)} s (${fmt(Math.abs(d) / dt / 1000)} m/s) as read in ${unitName(c === left ? leftUnit : rightUnit)}: is that the column's unit (wheel-units), and the time's (time-units)?`, line, c.index + 1);
         }
       }
