@@ -44,7 +44,7 @@ describe('veer calibrate', () => {
     assert.equal(r.status, 0, r.err + r.out);
     // By hand: 60 × 985/1000 = 59.1 mm; 120 × 3600/3588 × 0.985 = 118.595 mm (the track on the new wheel);
     // 3612/3600 = 1.00333.
-    assert.match(r.out, /mean diameter is 59\.1 mm ±0 \(the plan says 60 mm\)/);
+    assert.match(r.out, /mean diameter is 59\.10 ± 0\.00 mm \(the plan says 60\.00 mm\)/);
     assert.match(r.out, /Setup lines for .*tray\.veer:\n  wheel 59\.1 mm\n  track 120 effective 118\.595\n  gyro scale 1\.00333\n/);
   });
 

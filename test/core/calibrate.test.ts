@@ -197,6 +197,20 @@ describe('calibration: the record\'s messages', () => {
     assert.match(problemsOf('units mm\nunits cm\n')[0].message, /already set on line 1/);
   });
 
+  it('careless and hostile records: odd characters, huge numbers, a huge line, too long a file; never a throw', () => {
+    assert.match(problemsOf('drive 1000 mm measured 98€5, 986\n')[0].message, /^line 1: unexpected `€`/);
+    assert.match(problemsOf('drive 1000 mm measured 1e999, 986\n')[0].message, /too large/);
+    assert.match(problemsOf('lap clockwise 800 mm ahead 500\nlap counterclockwise 800 mm ahead 4\n')[0].message, /more than a quarter of the side/);
+    // 30,000 trials on one line (150,000 characters): read in linear time (the tokenizer never copies the rest of the line).
+    const line = `drive 1000 mm measured ${Array.from({ length: 30_000 }, (_, i) => 980 + (i % 10)).join(', ')}\n`;
+    const started = Date.now();
+    const r = calibrated(PLAN, line);
+    assert.ok(Date.now() - started < 2000, `${Date.now() - started} ms`);
+    assert.equal(r.calibration!.wheel!.ratio.n, 30_000);
+    // A file far beyond any record is refused as a whole.
+    assert.match(parseRecord('#'.repeat(300_000)).problems[0].message, /too long/);
+  });
+
   it('the record\'s units apply to its bare lengths', () => {
     const r = parseRecord('units cm\ndrive 100 measured 98.5, 98.7\n');
     assert.deepEqual(r.problems, []);
@@ -270,7 +284,7 @@ describe('calibration: the setup edits and hovers', () => {
     const hover = planCalibrationHover(result, calibration!, 'p.calib', { line: 2, character: 2 });
     assert.match(hover!.markdown, /effective track \(spins by encoders, 2 trials\)/);
     const onRecord = recordHover(parseRecord(record), calibration, 'mm', { line: 0, character: 0 });
-    assert.match(onRecord!.markdown, /mean diameter is 59\.1 mm/);
+    assert.match(onRecord!.markdown, /mean diameter is 59\.10 ± 0\.00 mm/);
   });
 
   it('adds a `gyro` line under the track when the plan has none, and `effective` when the track has none', () => {

@@ -55,6 +55,10 @@ interface Token {
   end: number;
 }
 
+const NUMBER = /[-+\u2212]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?/y;
+const WORD = /[A-Za-z]+/y;
+
+/** Sticky expressions from the current position: linear in the line's length. */
 function tokenize(code: string): Token[] | { bad: number } {
   const tokens: Token[] = [];
   let i = 0;
@@ -63,13 +67,15 @@ function tokenize(code: string): Token[] | { bad: number } {
     if (ch === ' ' || ch === '\t') { i++; continue; }
     if (ch === ',') { tokens.push({ text: ',', kind: 'comma', start: i, end: i + 1 }); i++; continue; }
     if (ch === '°') { tokens.push({ text: '°', kind: 'word', start: i, end: i + 1 }); i++; continue; }
-    const num = /^[+-−]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?/.exec(code.slice(i));
+    NUMBER.lastIndex = i;
+    const num = NUMBER.exec(code);
     if (num) {
-      tokens.push({ text: num[0].replace('−', '-'), kind: 'number', start: i, end: i + num[0].length });
+      tokens.push({ text: num[0].replace('\u2212', '-'), kind: 'number', start: i, end: i + num[0].length });
       i += num[0].length;
       continue;
     }
-    const word = /^[A-Za-z]+/.exec(code.slice(i));
+    WORD.lastIndex = i;
+    const word = WORD.exec(code);
     if (word) {
       tokens.push({ text: word[0], kind: 'word', start: i, end: i + word[0].length });
       i += word[0].length;

@@ -12,12 +12,24 @@ const LENGTH_DECIMALS: Record<LengthUnitName, number> = { mm: 2, cm: 3, m: 5, in
 
 export const INTERVAL_NOTE = 'each value is the mean of the trials ± its 95 % interval, by Student\'s t on their spread';
 
+/** A length in the file's unit with fixed decimals (59.10 mm). */
 function len(mm: number, unit: LengthUnitName): string {
-  return `${decimals(mm / MM_PER[unit], LENGTH_DECIMALS[unit]).replace(/^(-?\d+)$/, '$1')} ${unit}`;
+  return `${fixed(mm / MM_PER[unit], LENGTH_DECIMALS[unit])} ${unit}`;
 }
 
-function pm(e: Estimate, digits: number, scale = 1): string {
-  return `±${decimals(e.half95 / scale, digits)}`;
+/** A length with its 95 % half-width: `59.10 ± 0.30 mm`. */
+function lenPm(e: Estimate, unit: LengthUnitName): string {
+  return `${fixed(e.value / MM_PER[unit], LENGTH_DECIMALS[unit])} ± ${fixed(e.half95 / MM_PER[unit], LENGTH_DECIMALS[unit])} ${unit}`;
+}
+
+/** A plain number with its 95 % half-width: `1.00333 ± 0.00138`. */
+function numPm(e: Estimate, digits: number): string {
+  return `${fixed(e.value, digits)} ± ${fixed(e.half95, digits)}`;
+}
+
+function fixed(v: number, digits: number): string {
+  const t = v.toFixed(digits);
+  return /^-0\.?0*$/.test(t) ? t.slice(1) : t;
 }
 
 function plural(n: number, word: string): string {
@@ -27,27 +39,25 @@ function plural(n: number, word: string): string {
 /** One paragraph per result, in plain words (the CLI prints them; the hovers reuse them). */
 export function describe(c: CalibrationResult, unit: LengthUnitName): { wheel?: string; spin?: string; gyro?: string; square?: string } {
   const out: { wheel?: string; spin?: string; gyro?: string; square?: string } = {};
-  const d = LENGTH_DECIMALS[unit];
-  const s = MM_PER[unit];
   if (c.wheel) {
     const w = c.wheel;
-    out.wheel = `wheel (straight drive, ${plural(w.ratio.n, 'trial')}): the robot drove ${decimals(w.ratio.value, 5)} ${pm(w.ratio, 5)} of the commanded distance, so the wheels' mean diameter is ${len(w.mean.value, unit)} ${pm(w.mean, d, s)} (the plan says ${len(c.plan.wheel, unit)})` +
-      (w.mismatch !== 1 ? `; with the mismatch ${decimals(w.mismatch, 6)} the left wheel, which \`wheel\` gives, is ${len(w.diameter.value, unit)} ${pm(w.diameter, d, s)}` : '');
+    out.wheel = `wheel (straight drive, ${plural(w.ratio.n, 'trial')}): the robot drove ${numPm(w.ratio, 5)} of the commanded distance, so the wheels' mean diameter is ${lenPm(w.mean, unit)} (the plan says ${len(c.plan.wheel, unit)})` +
+      (w.mismatch !== 1 ? `; with the mismatch ${fixed(w.mismatch, 6)} the left wheel, which \`wheel\` gives, is ${lenPm(w.diameter, unit)}` : '');
   }
   if (c.spin) {
     const sp = c.spin;
-    out.spin = `effective track (spins by encoders, ${plural(sp.ratio.n, 'trial')}): the robot turned ${decimals(1 / sp.ratio.value, 5)} of the commanded angle, so the effective track is ${len(sp.track.value, unit)} ${pm(sp.track, d, s)} (the plan's is ${len(c.plan.effectiveTrack ?? NaN, unit)})` +
-      (sp.wheelFactor !== 1 ? `; this includes the new wheel value (× ${decimals(sp.wheelFactor, 5)}), because the wheel sets every turn's wheel degrees too` : '');
+    out.spin = `effective track (spins by encoders, ${plural(sp.ratio.n, 'trial')}): the robot turned ${fixed(1 / sp.ratio.value, 5)} of the commanded angle, so the effective track is ${lenPm(sp.track, unit)} (the plan's is ${len(c.plan.effectiveTrack ?? NaN, unit)})` +
+      (sp.wheelFactor !== 1 ? `; this includes the new wheel value (× ${fixed(sp.wheelFactor, 5)}), because the wheel sets every turn's wheel degrees too` : '');
   }
   if (c.gyro) {
-    out.gyro = `gyro scale (${plural(c.gyro.scale.n, 'trial')}): the gyro reads ${decimals(c.gyro.scale.value, 5)} ${pm(c.gyro.scale, 5)} times the true angle (the plan says ${decimals(c.plan.gyroScale, 5)})`;
+    out.gyro = `gyro scale (${plural(c.gyro.scale.n, 'trial')}): the gyro reads ${numPm(c.gyro.scale, 5)} times the true angle (the plan says ${decimals(c.plan.gyroScale, 5)})`;
   }
   if (c.square) {
     const q = c.square;
-    out.square = `square test (${q.xCw.n} clockwise and ${q.xCcw.n} counterclockwise laps of ${len(q.side, unit)}): the laps stopped on average ${len(q.xCw.value, unit)} ${pm(q.xCw, d, s)} (clockwise) and ${len(q.xCcw.value, unit)} ${pm(q.xCcw, d, s)} (counterclockwise) ahead of their start; ` +
-      `each 90° turn is ${decimals(Math.abs(q.alphaDeg.value), 3)}° ${q.alphaDeg.value >= 0 ? 'short' : 'too far'} and each leg curves ${decimals(Math.abs(q.betaDeg.value), 3)}° to the ${q.betaDeg.value >= 0 ? 'left' : 'right'}. ` +
-      `Wheel mismatch (right over left) ${decimals(q.mismatch.value, 6)} ${pm(q.mismatch, 6)}, track factor ${decimals(q.trackFactor.value, 6)} ${pm(q.trackFactor, 6)} ` +
-      `(exact laps; the paper's first-order formulas give ${decimals(q.formula.mismatch, 6)} and ${decimals(q.formula.trackFactor, 6)}), so the effective track is ${len(q.track.value, unit)} ${pm(q.track, d, s)}`;
+    out.square = `square test (${q.xCw.n} clockwise and ${q.xCcw.n} counterclockwise laps of ${decimals(q.side / MM_PER[unit], 3)} ${unit}): the laps stopped on average ${lenPm(q.xCw, unit)} (clockwise) and ${lenPm(q.xCcw, unit)} (counterclockwise) ahead of their start; ` +
+      `each 90° turn is ${fixed(Math.abs(q.alphaDeg.value), 3)}° ${q.alphaDeg.value >= 0 ? 'short' : 'too far'} and each leg curves ${fixed(Math.abs(q.betaDeg.value), 3)}° to the ${q.betaDeg.value >= 0 ? 'left' : 'right'}. ` +
+      `Wheel mismatch (right over left) ${numPm(q.mismatch, 6)}, track factor ${numPm(q.trackFactor, 6)} ` +
+      `(exact laps; the paper's first-order formulas give ${fixed(q.formula.mismatch, 6)} and ${fixed(q.formula.trackFactor, 6)}), so the effective track is ${lenPm(q.track, unit)}`;
   }
   return out;
 }

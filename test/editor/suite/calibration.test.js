@@ -68,7 +68,7 @@ describe('Veer calibration', () => {
     await vscode.window.showTextDocument(record);
     assert.equal(record.languageId, 'veer-calibration');
     const hovers = await vscode.commands.executeCommand('vscode.executeHoverProvider', record.uri, new vscode.Position(3, 2));
-    assert.match(hoverText(hovers), /gyro reads 1\.00333 ±0 times the true angle/);
+    assert.match(hoverText(hovers), /gyro reads 1\.00333 ± 0\.00000 times the true angle/);
   });
 
   it('a record\'s problem is underlined on its line, and goes when the line is mended', async () => {
