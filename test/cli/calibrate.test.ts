@@ -3,6 +3,7 @@ import { mkdtempSync, readFileSync, writeFileSync, existsSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runCli } from '../../src/cli/main';
+import Ajv2020 from 'ajv/dist/2020';
 import { checkPlan } from '../../src/core';
 
 function run(args: string[]) {
@@ -59,6 +60,23 @@ describe('veer calibrate', () => {
     assert.equal(doc.wheel.ratio.n, 3);
     assert.equal(doc.interval, 'student-t-95');
     assert.deepEqual(doc.setup_lines, ['wheel 59.1 mm']);
+  });
+
+  it('--json follows schema/calibrate.schema.json (validated with Ajv) with every test recorded, and with none', () => {
+    const ajv = new Ajv2020({ allErrors: true, strict: true });
+    const validate = ajv.compile(JSON.parse(readFileSync(join(__dirname, '..', '..', 'schema', 'calibrate.schema.json'), 'utf8')));
+    const dir = folder({
+      'tray.veer': PLAN,
+      'full.calib': 'drive 1000 mm measured 985, 987\nspin 10 turns measured 3588, 3590\ngyro 10 turns reads 3612, 3610\n' +
+        'lap clockwise 950 mm ahead -21 left 3\nlap clockwise 950 mm ahead -19 left 5\nlap counterclockwise 950 mm ahead 11\nlap counterclockwise 950 mm ahead 9\n',
+      'bad.calib': 'drive 1000 mm measured 985\n',
+      'nowheel.veer': 'track 120\n',
+    });
+    for (const [plan, record] of [['tray.veer', 'full.calib'], ['tray.veer', 'bad.calib'], ['nowheel.veer', 'full.calib']]) {
+      const r = run(['calibrate', join(dir, plan), '--record', join(dir, record), '--json']);
+      const doc = JSON.parse(r.out);
+      assert.ok(validate(doc), `${plan} ${record}: ${ajv.errorsText(validate.errors)}`);
+    }
   });
 
   it('bad records exit 1 with FILE:LINE:COL problems; a missing record and bad usage exit 2', () => {

@@ -55,7 +55,7 @@ export function propagate(value: number, terms: ReadonlyArray<{ of: Estimate; de
   }
   const se = Math.sqrt(variance);
   // With no spread at all the interval is zero wide whatever its degrees of freedom.
-  const df = denominator > 0 ? (variance * variance) / denominator : Math.max(1, ...terms.map((t) => t.of.df));
+  const df = denominator > 0 ? (variance * variance) / denominator : Math.max(1, ...terms.filter((t) => Number.isFinite(t.of.df)).map((t) => t.of.df));
   return { value, se, half95: tQuantile(0.975, df) * se, df, n };
 }
 
