@@ -11,6 +11,7 @@ import { registerHover } from './hover';
 import { registerInlayHints } from './inlayHints';
 import { registerNewPlan } from './newPlan';
 import { registerPreview } from './preview';
+import { registerRecordedRun } from './recordedRun';
 import { registerSampling } from './sampling';
 import { registerStatusBar } from './statusBar';
 import { registerSymbols } from './symbols';
@@ -23,6 +24,7 @@ export async function activate(context: vscode.ExtensionContext): Promise<void> 
   registerInlayHints(context);
   registerStatusBar(context);
   registerPreview(context);
+  registerRecordedRun(context);
   registerSampling(context);
   registerHover(context);
   registerSymbols(context);

@@ -17,6 +17,7 @@ import {
   type PreviewMessage,
 } from '../shared/messages';
 import { getAnalysis, isPlan, onDidAnalyse } from './analysis';
+import { recordedOverlayFor } from './recordedRun';
 import type { SpreadCloud, SpreadShown } from '../core/render/cloud';
 import { SPREAD_SHOWN } from '../shared/messages';
 
@@ -130,6 +131,11 @@ export function showCloud(document: vscode.TextDocument, version: number, cloud:
 }
 
 /** Whether the preview is open on this document. */
+/** Draws `document` again if the preview shows it (a recorded run was laid over it or cleared). */
+export function redrawPreview(document: vscode.TextDocument): void {
+  if (current && isPreviewing(document)) current.show(document);
+}
+
 export function isPreviewing(document: vscode.TextDocument): boolean {
   return current?.previewing(document.uri) ?? false;
 }
@@ -299,7 +305,8 @@ class PathPreview implements vscode.Disposable {
     const { result, version, text } = getAnalysis(document);
     if (this.run >= result.runs.length) this.run = -1;
     const cloud = this.cloudFor(document.uri.toString(), version);
-    const svg = renderSvg(result, { standalone: false, width: this.viewWidth, ...runOption(this.run), spread: this.spread, ...(cloud ? { cloud } : {}) });
+    const recorded = recordedOverlayFor(document, result);
+    const svg = renderSvg(result, { standalone: false, width: this.viewWidth, ...runOption(this.run), spread: this.spread, ...(cloud ? { cloud } : {}), ...(recorded ? { recorded } : {}) });
     const message = buildRenderMessage(result, { uri: document.uri.toString(), version }, this.run, svg, targetTables(result, text), this.viewWidth,
       buildTimeline(result, this.run));
     message.spread = this.spread;
@@ -386,7 +393,8 @@ class PathPreview implements vscode.Disposable {
       case 'exportSvg': {
         const { result, version } = getAnalysis(document);
         const cloud = this.cloudFor(document.uri.toString(), version);
-        const svg = renderSvg(result, { standalone: true, ...runOption(this.run), spread: this.spread, ...(cloud ? { cloud } : {}) });
+        const recorded = recordedOverlayFor(document, result);
+        const svg = renderSvg(result, { standalone: true, ...runOption(this.run), spread: this.spread, ...(cloud ? { cloud } : {}), ...(recorded ? { recorded } : {}) });
         await this.save(document, 'svg', new TextEncoder().encode(svg));
         return;
       }
