@@ -6,6 +6,9 @@ import {
   writeCalibrationRuns,
 } from '../../src/core/calibrate';
 import { restState, simRobot, simulateMotion, type SimState } from '../../src/core/sim/motion';
+import { lapError } from '../../src/core/calibrate/square';
+
+const lapErrorOf = (ed: number, eb: number, side: number, track: number, cw: boolean) => lapError(ed, eb, side, track, cw).x;
 
 // Calibration (robot model, section 4): Borenstein & Feng's square test on
 // their own formulas and on a simulated robot, the simple calibrations by hand,
@@ -133,6 +136,47 @@ describe('calibration: the simple tests', () => {
 });
 
 describe('calibration: statistics', () => {
+  /** A seeded normal generator (mulberry32 and Box–Muller), so the coverage tests repeat exactly. */
+  function normals(seed: number): () => number {
+    let t = seed >>> 0;
+    const uniform = () => {
+      t = (t + 0x6d2b79f5) >>> 0;
+      let r = Math.imul(t ^ (t >>> 15), 1 | t);
+      r = (r + Math.imul(r ^ (r >>> 7), 61 | r)) ^ r;
+      return ((r ^ (r >>> 14)) >>> 0) / 4294967296;
+    };
+    return () => Math.sqrt(-2 * Math.log(1 - uniform())) * Math.cos(2 * Math.PI * uniform());
+  }
+
+  it('the 95 % intervals hold the true value in 95 % of repeated calibrations (their definition), drive and square test', () => {
+    // 2000 simulated calibrations each; the share that covers the truth should be 0.95 within three of its
+    // standard errors, √(0.95 × 0.05 / 2000) = 0.0049 (the binomial distribution).
+    const trials = 2000;
+    const gauss = normals(11);
+    let wheelHits = 0;
+    let squareHits = 0;
+    const trueRatio = 0.985;
+    const [Ed, Eb] = [1.002, 1.006];
+    const L = 1000;
+    const xCw = lapErrorOf(Ed, Eb, L, 120, true);
+    const xCcw = lapErrorOf(Ed, Eb, L, 120, false);
+    for (let k = 0; k < trials; k++) {
+      const drives = [0, 1, 2].map(() => (1000 * trueRatio + 2 * gauss()).toFixed(3)).join(', ');
+      const laps = [0, 1, 2, 3, 4].flatMap(() => [
+        `lap clockwise ${L} ahead ${(xCw + 3 * gauss()).toFixed(4)}`,
+        `lap counterclockwise ${L} ahead ${(xCcw + 5 * gauss()).toFixed(4)}`,
+      ]).join('\n');
+      const c = calibrated(PLAN, `drive 1000 mm measured ${drives}\n${laps}\n`).calibration!;
+      const w = c.wheel!.mean;
+      if (Math.abs(w.value - 60 * trueRatio) <= w.half95) wheelHits++;
+      const m = c.square!.mismatch;
+      if (Math.abs(m.value - Ed) <= m.half95) squareHits++;
+    }
+    close(wheelHits / trials, 0.95, 3 * 0.0049, 'drive coverage');
+    // The square's interval is first-order with Welch–Satterthwaite degrees of freedom: close to 95 % too.
+    close(squareHits / trials, 0.95, 3 * 0.0049, 'square coverage');
+  });
+
   it('Student\'s t quantiles match the published table (two-sided 95 %)', () => {
     // Any statistics textbook's t table, e.g. Montgomery & Runger, Applied Statistics, Table V: t(0.025, ν).
     const table: Array<[number, number]> = [[1, 12.706], [2, 4.303], [3, 3.182], [4, 2.776], [9, 2.262], [29, 2.045]];
