@@ -1,0 +1,995 @@
+// Fitting the robot model to a recorded run (the robot model, sections 1, 2 and 5):
+// motor speed, lag and stall power from the commanded powers and the wheel
+// travel; the effective track (or the gyro scale) and the gyro's drift from the
+// yaw reading against the wheel travel. Each value comes with its standard
+// error, its 95 % interval and the number of samples behind it, or a plain note
+// saying why this log cannot give it.
+//
+// API
+//
+//   currentFromSetup(setup: PlanSetup): FitCurrent
+//       The plan's robot as the fit needs it (the checked plan's setup, defaults
+//       filled in by the check).
+//
+//   fitRobot(run: RecordedRun, current: FitCurrent, options?: FitOptions): FitResult
+//       result.params.{motorSpeed, motorLag, stall, effectiveTrack, gyroScale, drift}:
+//       each a FitParam { found, value?, se?, low?, high?, current?, differs?,
+//       samples, note? } in the plan's canonical units (deg/s of the motor shaft,
+//       s, fraction, mm, plain number, deg/s). `found` false: `note` says why and
+//       no number is set. Nothing is ever NaN.
+//       result.notes: what the fit assumed or skipped, for the whole log.
+//       result.residual: rms misfit of the wheel travel (mm) and of the yaw (deg).
+//       effectiveTrack and gyroScale are two readings of ONE number (the yaw per
+//       mm of wheel-travel difference): effectiveTrack assumes the plan's gyro
+//       scale, gyroScale assumes the plan's effective track. Apply one of them.
+//
+//   fitFixes(text: string, result: FitResult, options?: FitFixOptions): Fix[]
+//       The results as setup-line edits of the plan text (the Fix shape of
+//       types.ts, applied with fix/text.ts `applyEdits`): first one fix with every
+//       recommended edit (preferred), then one per setup line. Values are offered
+//       only where the log found them and the plan's value lies outside their
+//       95 % interval (options.all: every value found). The track is the
+//       recommended reading of the yaw fit; the gyro scale is offered as a
+//       separate fix "instead of the track".
+//
+// How (docs/recorded-runs.md, "Fitting the robot model", says it for users):
+// - Motor: an output-error fit. Each wheel is simulated from the log's powers
+//   with the exact zero-order-hold step of the plant (power held from its row
+//   to the next), and the simulated travel is fitted to the recorded travel by
+//   least squares. Given the lag the travel is linear in the wheel speed per
+//   unit power K and in each wheel's starting travel and speed, so those are
+//   solved exactly and only the lag is searched (golden section on its log).
+//   Both wheels share K and the lag (the plan has one `motor` line; the
+//   encoders count nominal-wheel mm, so `mismatch` does not enter).
+//   Covariance: residual variance x (J^T J)^-1 with the full Jacobian (the
+//   lag's column by central differences), widened by (1+r)/(1-r) when the
+//   residuals' lag-one correlation r is positive; the motor speed in deg/s
+//   by the delta method.
+// - Stall: the fit's residual as a function of the stall power changes only
+//   where the stall passes a power the log commands. Every such step is tried
+//   (coarse then fine when there are many); the stall is bracketed between
+//   the largest power that does not move the wheels and the smallest that
+//   does, and the reported interval joins every bracket whose residual is
+//   within the 95 % likelihood-ratio bound (chi-square, 1 degree: 3.84) of the
+//   best. It is a bracket between commanded powers, not a normal interval.
+// - Yaw: reading = scale/b_eff x (signed travel difference, in degrees of a
+//   unit track) + drift x t + an offset per stretch between resets.
+//   Wraps are undone and resets found from the jump of one sample against the
+//   one predicted from the wheels. Linear least squares, offsets eliminated
+//   per stretch. The drift is fitted only when the log holds at least
+//   STILL_MIN_S seconds with both wheels still; otherwise it is taken as zero.
+import type { Fix, PlanSetup, Statement, TextEdit, TurnDirection } from '../types';
+import type { RecordedRun } from './types';
+import { parsePlan } from '../syntax/parser';
+import { lineEndOf } from '../fix/text';
+
+const RAD = Math.PI / 180;
+/** The normal distribution's two-sided 95 % quantile. */
+export const Z95 = 1.959963984540054;
+/** Chi-square, one degree of freedom, 95 %: the likelihood-ratio bound of the stall bracket. */
+const CHI2_1_95 = 3.841458820694124;
+/** Seconds with both wheels still that the drift needs. */
+export const STILL_MIN_S = 1;
+/** Both wheels moving less than this (mm) from one row to the next count as still. */
+const STILL_MM = 0.5;
+/** A yaw reading that differs from the one the wheels predict by more than this (degrees, plus a tenth of the predicted change) starts a new stretch (a reset). */
+const JUMP_DEG = 5;
+/** The lag is searched between these (s). */
+const LAG_LO = 1e-4;
+const LAG_HI = 5;
+/** Powers up to this share are tried as the stall. */
+const STALL_CANDIDATES_BELOW = 0.6;
+/** The yaw needs at least this much turning (degrees) to tell the track. */
+const MIN_TURNED_DEG = 20;
+/** The mismatch is fitted only where the two wheels' travels are less correlated than this, and kept only with a standard error below MISMATCH_SE_MAX. */
+const MISMATCH_CORR = 0.9999;
+const MISMATCH_SE_MAX = 0.01;
+/** Fewest rows a fit works on. */
+export const MIN_ROWS = 20;
+
+/** The robot as the plan describes it: the values being fitted and the ones the fit relies on. */
+export interface FitCurrent {
+  /** Nominal wheel diameter, mm (to turn wheel mm/s into motor deg/s). */
+  wheelDiameter?: number;
+  gear: number;
+  /** Effective track, mm (the track when the plan gives no `effective`). */
+  effectiveTrack?: number;
+  /** Motor shaft speed at full power, deg/s. */
+  motorSpeed: number;
+  /** Motor lag (first-order time constant), s. */
+  motorLag: number;
+  /** Stall power, fraction. */
+  stall: number;
+  /** Right wheel diameter over left. */
+  mismatch: number;
+  gyroScale: number;
+  /** How late the yaw reading is, s. */
+  gyroDelay: number;
+  /** The control loop's sample period, s. */
+  sample: number;
+  turns: TurnDirection;
+  /** The noise model's drift (sd of the per-run drift rate), deg/s. */
+  noiseDrift: number;
+}
+
+export type FitName = 'motorSpeed' | 'motorLag' | 'stall' | 'effectiveTrack' | 'gyroScale' | 'mismatch' | 'drift';
+
+export interface FitParam {
+  name: FitName;
+  /** Plain words: "motor speed". */
+  label: string;
+  /** Canonical unit of value, se, low, high, current: 'deg/s', 's', 'fraction', 'mm', '', 'deg/s'. */
+  unit: string;
+  found: boolean;
+  value?: number;
+  /** Standard error. */
+  se?: number;
+  /** 95 % interval. */
+  low?: number;
+  high?: number;
+  /** The plan's value. */
+  current?: number;
+  /** The plan's value lies outside the 95 % interval. */
+  differs?: boolean;
+  /** Rows of the log behind the value. */
+  samples: number;
+  /** Why it is not found, or what it assumes. */
+  note?: string;
+}
+
+export interface FitResult {
+  params: Record<FitName, FitParam>;
+  /** Wheel speed per unit power, mm/s of nominal-wheel travel at full power (the motor fit's own number). */
+  wheelSpeed?: { value: number; se: number };
+  residual: { wheelMm?: number; yawDeg?: number };
+  notes: string[];
+  rows: number;
+  source: string;
+  /** The plan's noise drift (sd of the per-run drift rate, deg/s), for the drift's edit. */
+  noiseDrift?: number;
+}
+
+export interface FitOptions {
+  /** Fit the drift even with less still time than STILL_MIN_S (tests). */
+  stillMin?: number;
+}
+
+const LABELS: Record<FitName, [string, string]> = {
+  motorSpeed: ['motor speed', 'deg/s'],
+  motorLag: ['motor lag', 's'],
+  stall: ['stall power', 'fraction'],
+  effectiveTrack: ['effective track', 'mm'],
+  gyroScale: ['gyro scale', ''],
+  mismatch: ['wheel mismatch', ''],
+  drift: ['gyro drift', 'deg/s'],
+};
+
+function notFound(name: FitName, note: string, samples = 0, current?: number): FitParam {
+  const [label, unit] = LABELS[name];
+  return { name, label, unit, found: false, samples, note, ...(current !== undefined && Number.isFinite(current) ? { current } : {}) };
+}
+
+function found(name: FitName, value: number, se: number, samples: number, current: number | undefined, note?: string, low?: number, high?: number): FitParam {
+  const [label, unit] = LABELS[name];
+  if (!Number.isFinite(value) || !Number.isFinite(se)) return notFound(name, 'the fit gave no finite value from this log', samples, current);
+  const lo = low ?? value - Z95 * se;
+  const hi = high ?? value + Z95 * se;
+  const p: FitParam = { name, label, unit, found: true, value, se, low: lo, high: hi, samples };
+  if (current !== undefined && Number.isFinite(current)) {
+    p.current = current;
+    p.differs = current < lo || current > hi;
+  }
+  if (note) p.note = note;
+  return p;
+}
+
+/** The plan's robot for the fit, from a checked plan's setup. */
+export function currentFromSetup(setup: PlanSetup): FitCurrent {
+  const r = setup.robot;
+  return {
+    wheelDiameter: r.wheelDiameter,
+    gear: r.gear ?? 1,
+    effectiveTrack: r.effectiveTrack ?? r.track,
+    motorSpeed: r.motorSpeed ?? 900,
+    motorLag: r.motorLag ?? 0.08,
+    stall: r.stall ?? 0.05,
+    mismatch: r.mismatch ?? 1,
+    gyroScale: setup.gyro.scale,
+    gyroDelay: setup.gyro.delay,
+    sample: setup.gyro.sample,
+    turns: setup.turns,
+    noiseDrift: setup.noise.drift,
+  };
+}
+
+// ---------------------------------------------------------------------------
+// Small dense linear algebra (at most 6 unknowns).
+
+/** Inverse of a symmetric positive definite matrix (scaled to unit diagonal first); undefined when singular. */
+function invertSym(A: number[][]): number[][] | undefined {
+  const n = A.length;
+  const d = A.map((row, i) => (row[i] > 0 ? 1 / Math.sqrt(row[i]) : NaN));
+  if (d.some((x) => !Number.isFinite(x))) return undefined;
+  // Gauss–Jordan with partial pivoting on the scaled matrix.
+  const M = A.map((row, i) => [...row.map((v, j) => v * d[i] * d[j]), ...row.map((_, j) => (i === j ? 1 : 0))]);
+  for (let c = 0; c < n; c++) {
+    let p = c;
+    for (let r = c + 1; r < n; r++) if (Math.abs(M[r][c]) > Math.abs(M[p][c])) p = r;
+    if (!(Math.abs(M[p][c]) > 1e-12)) return undefined;
+    [M[c], M[p]] = [M[p], M[c]];
+    const piv = M[c][c];
+    for (let j = 0; j < 2 * n; j++) M[c][j] /= piv;
+    for (let r = 0; r < n; r++) {
+      if (r === c) continue;
+      const f = M[r][c];
+      if (f !== 0) for (let j = 0; j < 2 * n; j++) M[r][j] -= f * M[c][j];
+    }
+  }
+  return M.map((row, i) => row.slice(n).map((v, j) => v * d[i] * d[j]));
+}
+
+function solveSym(A: number[][], b: number[]): number[] | undefined {
+  const inv = invertSym(A);
+  if (!inv) return undefined;
+  return inv.map((row) => row.reduce((s, v, j) => s + v * b[j], 0));
+}
+
+/** (1 + r) / (1 - r) for the residuals' positive lag-one correlation r: the variance factor of AR(1) errors. */
+function correlationFactor(num: number, den: number): number {
+  if (!(den > 0)) return 1;
+  const r = Math.min(0.95, Math.max(0, num / den));
+  return (1 + r) / (1 - r);
+}
+
+// ---------------------------------------------------------------------------
+// Motor: speed per unit power, lag, stall.
+
+interface WheelData {
+  t: Float64Array;
+  y: Float64Array;
+  u: Float64Array;
+  /** Basis columns for the current lag and stall: response to the powers with K = 1, and to a starting speed of 1 mm/s. */
+  h: Float64Array;
+  f: Float64Array;
+}
+
+/**
+ * The wheel's travel for K = 1 from rest (h) and for a starting speed of 1
+ * without power (f), exact zero-order hold; with the sums of the least squares
+ * on [h, 1, f] in `sums` (hh, h, hf, n, f, ff, hy, y, fy).
+ */
+function basis(w: WheelData, tau: number, stall: number, h = w.h, f = w.f, sums?: Float64Array): void {
+  const { t, u, y } = w;
+  const n = t.length;
+  let hp = 0, hv = 0, fp = 0, fv = 1;
+  let lastDt = NaN, a = 0;
+  h[0] = 0;
+  f[0] = 0;
+  let shh = 0, shf = 0, sh = 0, sf = 0, sff = 0, shy = 0, sfy = 0, sy = y[0];
+  for (let k = 0; k < n - 1; k++) {
+    const dt = t[k + 1] - t[k];
+    // Rows of a regular log are one period apart up to rounding: one exponential serves them all.
+    if (!(Math.abs(dt - lastDt) <= 1e-9 * dt)) { a = Math.exp(-dt / tau); lastDt = dt; }
+    const g = tau * (1 - a);
+    const uk = u[k];
+    const ue = uk < stall && uk > -stall ? 0 : uk;
+    hp += g * hv + ue * (dt - g);
+    hv = a * hv + (1 - a) * ue;
+    fp += g * fv;
+    // (a starting speed's effect dies away; stopping at zero keeps the loop off denormal numbers, which are slow)
+    fv = fv > 1e-200 ? fv * a : 0;
+    h[k + 1] = hp;
+    f[k + 1] = fp;
+    const yk = y[k + 1];
+    shh += hp * hp; shf += hp * fp; sh += hp; sf += fp; sff += fp * fp; shy += hp * yk; sfy += fp * yk; sy += yk;
+  }
+  if (sums) {
+    sums[0] = shh; sums[1] = sh; sums[2] = shf; sums[3] = n; sums[4] = sf; sums[5] = sff; sums[6] = shy; sums[7] = sy; sums[8] = sfy;
+  }
+}
+
+/** Sum of squared residuals of one wheel for K, p0, v0 (with the basis now in it). */
+function wheelSse(w: WheelData, K: number, p0: number, v0: number): number {
+  const { h, f, y } = w;
+  let sse = 0;
+  for (let k = 0; k < y.length; k++) {
+    const r = y[k] - K * h[k] - p0 - v0 * f[k];
+    sse += r * r;
+  }
+  return sse;
+}
+
+interface WheelSolution {
+  /** K, then (p0, v0) per wheel. */
+  beta: number[];
+  sse: number;
+}
+
+const SUMS = [new Float64Array(9), new Float64Array(9)];
+
+/** Least squares of the travel on [h, 1, f] per wheel with a shared K, from the sums the basis left. */
+function solveWheels(ws: WheelData[]): WheelSolution | undefined {
+  const m = 1 + 2 * ws.length;
+  const A = Array.from({ length: m }, () => new Array<number>(m).fill(0));
+  const b = new Array<number>(m).fill(0);
+  for (let i = 0; i < ws.length; i++) {
+    const S = SUMS[i];
+    const p = 1 + 2 * i, v = 2 + 2 * i;
+    A[0][0] += S[0]; A[0][p] = A[p][0] = S[1]; A[0][v] = A[v][0] = S[2];
+    A[p][p] = S[3]; A[p][v] = A[v][p] = S[4]; A[v][v] = S[5];
+    b[0] += S[6]; b[p] = S[7]; b[v] = S[8];
+  }
+  // A column of nothing (no power above the stall) leaves K free: no solution.
+  if (!(A[0][0] > 0)) return undefined;
+  const beta = solveSym(A, b);
+  if (!beta) return undefined;
+  let sse = 0;
+  for (let i = 0; i < ws.length; i++) sse += wheelSse(ws[i], beta[0], beta[1 + 2 * i], beta[2 + 2 * i]);
+  return { beta, sse };
+}
+
+function sseAt(ws: WheelData[], tau: number, stall: number): WheelSolution | undefined {
+  ws.forEach((w, i) => basis(w, tau, stall, w.h, w.f, SUMS[i]));
+  return solveWheels(ws);
+}
+
+/** The lag minimising the residual: a coarse grid on log lag, then Brent's parabolic search inside the best bracket. */
+function searchLag(ws: WheelData[], stall: number, start: number, near = false): { tau: number; sol: WheelSolution; atBound: boolean } | undefined {
+  const lo = Math.log(LAG_LO), hi = Math.log(LAG_HI);
+  const N = 12;
+  const grid: number[] = [];
+  // Near a lag already found (the stall moved a little): a narrow bracket around it.
+  if (near) for (const f of [0.8, 1.25]) grid.push(Math.log(start * f));
+  else for (let i = 0; i <= N; i++) grid.push(lo + ((hi - lo) * i) / N);
+  if (start > LAG_LO && start < LAG_HI) grid.push(Math.log(start));
+  grid.sort((x, y) => x - y);
+  const cost = (x: number) => sseAt(ws, Math.exp(x), stall)?.sse ?? Infinity;
+  const sses = grid.map(cost);
+  let best = -1, bestSse = Infinity;
+  sses.forEach((s, i) => { if (s < bestSse) { bestSse = s; best = i; } });
+  if (best < 0) return undefined;
+  const x = brent(cost, grid[Math.max(0, best - 1)], grid[best], grid[Math.min(grid.length - 1, best + 1)], sses[best], 1e-6);
+  let xBest = x.x;
+  // A narrow bracket whose edge is best: search the whole range after all.
+  if (near && (best === 0 || best === grid.length - 1)) return searchLag(ws, stall, start);
+  // The grid's best when the search found nothing better (a flat or noisy residual).
+  if (!(x.f <= bestSse)) xBest = grid[best];
+  const sol = sseAt(ws, Math.exp(xBest), stall);
+  if (!sol) return undefined;
+  const atBound = xBest <= lo + (hi - lo) / N || xBest >= hi - (hi - lo) / N;
+  return { tau: Math.exp(xBest), sol, atBound };
+}
+
+/** Brent's minimisation of f in [a, c] from b with f(b) = fb known (Brent, Algorithms for Minimization without Derivatives, 1973). */
+function brent(f: (x: number) => number, a: number, b: number, c: number, fb: number, tol: number): { x: number; f: number } {
+  const CG = 0.3819660112501051;
+  let lo = Math.min(a, c), hi = Math.max(a, c);
+  let x = b, w = b, v = b, fx = fb, fw = fb, fv = fb;
+  let d = 0, e = 0;
+  for (let it = 0; it < 60; it++) {
+    const xm = 0.5 * (lo + hi);
+    const tol1 = tol * Math.abs(x) + 1e-10, tol2 = 2 * tol1;
+    if (Math.abs(x - xm) <= tol2 - 0.5 * (hi - lo)) break;
+    let golden = true;
+    if (Math.abs(e) > tol1) {
+      const r = (x - w) * (fx - fv);
+      let q = (x - v) * (fx - fw);
+      let p = (x - v) * q - (x - w) * r;
+      q = 2 * (q - r);
+      if (q > 0) p = -p;
+      q = Math.abs(q);
+      const etemp = e;
+      e = d;
+      if (Math.abs(p) < Math.abs(0.5 * q * etemp) && p > q * (lo - x) && p < q * (hi - x)) {
+        d = p / q;
+        const u = x + d;
+        if (u - lo < tol2 || hi - u < tol2) d = xm >= x ? tol1 : -tol1;
+        golden = false;
+      }
+    }
+    if (golden) { e = x >= xm ? lo - x : hi - x; d = CG * e; }
+    const u = Math.abs(d) >= tol1 ? x + d : x + (d >= 0 ? tol1 : -tol1);
+    const fu = f(u);
+    if (fu <= fx) {
+      if (u >= x) lo = x; else hi = x;
+      v = w; fv = fw; w = x; fw = fx; x = u; fx = fu;
+    } else {
+      if (u < x) lo = u; else hi = u;
+      if (fu <= fw || w === x) { v = w; fv = fw; w = u; fw = fu; }
+      else if (fu <= fv || v === x || v === w) { v = u; fv = fu; }
+    }
+  }
+  return { x, f: fx };
+}
+
+interface MotorFit {
+  params: Pick<Record<FitName, FitParam>, 'motorSpeed' | 'motorLag' | 'stall'>;
+  wheelSpeed?: { value: number; se: number };
+  rmsMm?: number;
+  notes: string[];
+}
+
+function fitMotor(run: RecordedRun, cur: FitCurrent): MotorFit {
+  const none = (why: string): MotorFit => ({
+    params: {
+      motorSpeed: notFound('motorSpeed', why, 0, cur.motorSpeed),
+      motorLag: notFound('motorLag', why, 0, cur.motorLag),
+      stall: notFound('stall', why, 0, cur.stall),
+    },
+    notes: [],
+  });
+  if (!run.hasPower) return none('the log has no power columns: the motor speed, lag and stall come from the powers the code commanded and the wheel travel they gave');
+  const notes: string[] = [];
+  // Rows with powers; a row without them holds the row before's powers (said in a note).
+  const t: number[] = [], yL: number[] = [], yR: number[] = [], uL: number[] = [], uR: number[] = [];
+  let held = 0, pl: number | undefined, pr: number | undefined;
+  for (const s of run.samples) {
+    let a = s.powerLeft, b = s.powerRight;
+    if (a === undefined || b === undefined || !Number.isFinite(a) || !Number.isFinite(b)) {
+      if (pl === undefined || pr === undefined) continue;
+      a = a !== undefined && Number.isFinite(a) ? a : pl;
+      b = b !== undefined && Number.isFinite(b) ? b : pr;
+      held++;
+    }
+    if (!Number.isFinite(s.t) || !Number.isFinite(s.left) || !Number.isFinite(s.right)) continue;
+    if (t.length && !(s.t >= t[t.length - 1])) continue;
+    // The reader gives the right wheel's travel times the plan's mismatch; its encoder counted nominal-wheel mm.
+    t.push(s.t); yL.push(s.left); yR.push(s.right / cur.mismatch); uL.push(a); uR.push(b);
+    pl = a; pr = b;
+  }
+  if (held > 0) notes.push(`${held} row${held === 1 ? '' : 's'} of ${run.source} had no power; the fit took the power of the row before (held until the next row, as the robot's code does)`);
+  const n = t.length;
+  if (n < MIN_ROWS) return none(`the log has only ${n} row${n === 1 ? '' : 's'} with powers: the motor fit needs at least ${MIN_ROWS}`);
+  const mk = (y: number[], u: number[]): WheelData => ({
+    t: Float64Array.from(t), y: Float64Array.from(y), u: Float64Array.from(u), h: new Float64Array(n), f: new Float64Array(n),
+  });
+  const ws = [mk(yL, uL), mk(yR, uR)];
+  const anyPower = uL.some((v) => v !== 0) || uR.some((v) => v !== 0);
+  if (!anyPower) return none('every power in the log is zero: nothing shows how fast the wheels go at a power');
+  // 1. The lag at the plan's stall, 2. the stall at that lag, 3. the lag again at the stall found.
+  let stall = cur.stall;
+  let search = searchLag(ws, stall, cur.motorLag);
+  if (!search) {
+    stall = 0;
+    search = searchLag(ws, stall, cur.motorLag);
+    if (!search) return none('no power in the log moves the model\'s wheels: the motor cannot be fitted');
+  }
+  const stallFit = profileStall(ws, search.tau, n);
+  if (stallFit.best !== undefined && stallFit.best !== stall) {
+    const again = searchLag(ws, stallFit.best, search.tau, true);
+    if (again) { stall = stallFit.best; search = again; }
+  }
+  const { tau } = search;
+  const sol = search.sol;
+  const K = sol.beta[0];
+  // Jacobian at the solution: [h, d/dtau, 1, f] per wheel.
+  for (const w of ws) basis(w, tau, stall);
+  const eps = 1e-4 * tau;
+  const hp = ws.map(() => new Float64Array(n)), fp = ws.map(() => new Float64Array(n));
+  const hm = ws.map(() => new Float64Array(n)), fm = ws.map(() => new Float64Array(n));
+  ws.forEach((w, i) => { basis(w, tau + eps, stall, hp[i], fp[i]); basis(w, tau - eps, stall, hm[i], fm[i]); });
+  const m = 2 + 2 * ws.length;
+  const JtJ = Array.from({ length: m }, () => new Array<number>(m).fill(0));
+  let sse = 0, lag1 = 0;
+  for (let i = 0; i < ws.length; i++) {
+    const w = ws[i];
+    const p0 = sol.beta[1 + 2 * i], v0 = sol.beta[2 + 2 * i];
+    const P = 2 + 2 * i, V = 3 + 2 * i;
+    const H = w.h, F = w.f, Y = w.y, HP = hp[i], HM = hm[i], FP = fp[i], FM = fm[i];
+    // Columns K, tau, p0, v0 of this wheel: their ten products.
+    let hh = 0, ht = 0, h1 = 0, hf = 0, tt = 0, t1 = 0, tf = 0, c11 = 0, c1f = 0, ff = 0;
+    let prev = 0;
+    for (let k = 0; k < n; k++) {
+      const hk = H[k], fk = F[k];
+      const dk = (K * (HP[k] - HM[k]) + v0 * (FP[k] - FM[k])) / (2 * eps);
+      hh += hk * hk; ht += hk * dk; h1 += hk; hf += hk * fk; tt += dk * dk; t1 += dk; tf += dk * fk; c11 += 1; c1f += fk; ff += fk * fk;
+      const r = Y[k] - K * hk - p0 - v0 * fk;
+      sse += r * r;
+      if (k > 0) lag1 += r * prev;
+      prev = r;
+    }
+    const add = (a: number, b: number, v: number) => { JtJ[a][b] += v; if (a !== b) JtJ[b][a] += v; };
+    add(0, 0, hh); add(0, 1, ht); add(0, P, h1); add(0, V, hf);
+    add(1, 1, tt); add(1, P, t1); add(1, V, tf);
+    add(P, P, c11); add(P, V, c1f); add(V, V, ff);
+  }
+  const N = ws.length * n;
+  const dof = N - m;
+  const sigma2 = (sse / dof) * correlationFactor(lag1, sse);
+  const inv = invertSym(JtJ);
+  const rmsMm = Math.sqrt(sse / N);
+  const params: MotorFit['params'] = {
+    motorSpeed: notFound('motorSpeed', 'the motor fit did not converge on this log', n, cur.motorSpeed),
+    motorLag: notFound('motorLag', 'the motor fit did not converge on this log', n, cur.motorLag),
+    stall: stallFit.param(cur.stall),
+  };
+  if (!inv || !(dof > 0)) return { params, notes, rmsMm };
+  const seK = Math.sqrt(sigma2 * inv[0][0]);
+  const seTau = Math.sqrt(sigma2 * inv[1][1]);
+  let wheelSpeed: MotorFit['wheelSpeed'];
+  if (K > 0 && Number.isFinite(seK)) {
+    wheelSpeed = { value: K, se: seK };
+    if (cur.wheelDiameter !== undefined && cur.wheelDiameter > 0) {
+      // Motor shaft deg/s = wheel mm/s x 360 x gear / (pi D): linear, so the se scales alike.
+      const f = (360 * cur.gear) / (Math.PI * cur.wheelDiameter);
+      params.motorSpeed = found('motorSpeed', K * f, seK * f, n, cur.motorSpeed);
+    } else {
+      params.motorSpeed = notFound('motorSpeed', `the wheels go ${K.toFixed(1)} mm/s at full power, but the plan gives no wheel diameter to turn that into motor degrees per second`, n);
+    }
+  } else {
+    params.motorSpeed = notFound('motorSpeed', 'the fitted wheel speed at full power is not positive: the powers and the travel in this log do not agree (are the power columns of the right wheels and sign?)', n, cur.motorSpeed);
+  }
+  if (search.atBound) {
+    const dt = medianStep(t);
+    params.motorLag = tau <= 2 * LAG_LO
+      ? notFound('motorLag', `the lag is too short to see at this log's sample period (${(dt * 1000).toFixed(1)} ms): the wheels reach each new speed within one sample`, n, cur.motorLag)
+      : notFound('motorLag', 'the lag came out longer than any motor\'s: the log does not hold enough changes of power to tell it', n, cur.motorLag);
+  } else {
+    params.motorLag = found('motorLag', tau, seTau, n, cur.motorLag);
+  }
+  return { params, wheelSpeed, rmsMm, notes };
+}
+
+function medianStep(t: ArrayLike<number>): number {
+  if (t.length < 2) return 0;
+  const d = new Float64Array(t.length - 1);
+  for (let k = 1; k < t.length; k++) d[k - 1] = t[k] - t[k - 1];
+  d.sort();
+  return d[d.length >> 1];
+}
+
+/**
+ * The stall power: the residual of the motor fit (at the lag found) for each
+ * step of the stall across a commanded power.
+ */
+function profileStall(ws: WheelData[], tau: number, n: number): { best?: number; param(current: number): FitParam } {
+  const set = new Set<number>();
+  for (const w of ws) for (const u of w.u) { const a = Math.abs(u); if (a > 0 && a < 1.0000001) set.add(a); }
+  const levels = [...set].sort((a, b) => a - b);
+  // Candidate i: stall = levels[i] (levels below it do not move the wheels).
+  const cands = levels.filter((l) => l < STALL_CANDIDATES_BELOW);
+  if (levels.length === 0) return { param: (c) => notFound('stall', 'the log commands no power', 0, c) };
+  if (cands.length === 0) {
+    return { param: (c) => notFound('stall', `the smallest power in the log is ${pct(levels[0])}: it moved the wheels, so the stall is at most that; the log never commands a power too small to move them`, n, c) };
+  }
+  const sse = new Map<number, number>();
+  const evalAt = (i: number) => {
+    if (!sse.has(i)) sse.set(i, sseAt(ws, tau, cands[i])?.sse ?? Infinity);
+    return sse.get(i)!;
+  };
+  const COARSE = 48;
+  const step = Math.max(1, Math.ceil(cands.length / COARSE));
+  let best = 0;
+  for (let i = 0; i < cands.length; i += step) if (evalAt(i) < evalAt(best)) best = i;
+  if (step > 1) {
+    const lo = Math.max(0, best - step), hi = Math.min(cands.length - 1, best + step);
+    for (let i = lo; i <= hi; i++) if (evalAt(i) < evalAt(best)) best = i;
+  }
+  const N = ws.length * n;
+  const sigma2 = evalAt(best) / Math.max(1, N - 6);
+  const plausible = [...sse.entries()].filter(([, s]) => (s - evalAt(best)) / sigma2 < CHI2_1_95).map(([i]) => i);
+  const iLo = Math.min(...plausible), iHi = Math.max(...plausible);
+  const low = iLo > 0 ? cands[iLo - 1] : 0;
+  const high = cands[iHi];
+  const bestLow = best > 0 ? cands[best - 1] : 0;
+  return {
+    best: cands[best],
+    param(current: number): FitParam {
+      if (best === 0 && iHi === 0) {
+        const p = notFound('stall', `every power in the log moved the wheels, down to the smallest, ${pct(cands[0])}: the stall is at most that, and this log cannot tell how much lower`, n, current);
+        if (current > cands[0]) p.note += ` (the plan's ${pct(current)} is above it)`;
+        return p;
+      }
+      const value = (bestLow + cands[best]) / 2;
+      const se = (high - low) / (2 * Z95);
+      const p = found('stall', value, se, n, current,
+        `between ${pct(bestLow)}, the largest power that did not move the wheels, and ${pct(cands[best])}, the smallest that did; the 95 % interval joins every such bracket the travel cannot rule out (a bracket between commanded powers, not a normal interval)`,
+        low, high);
+      // The bracket's low end is a power that did not move the wheels: a plan's stall there is too low (a wheel moves at the stall power).
+      if (p.found && p.differs === false && current <= low) p.differs = true;
+      return p;
+    },
+  };
+}
+
+function pct(v: number): string {
+  return `${+(v * 100).toPrecision(4)} %`;
+}
+
+// ---------------------------------------------------------------------------
+// Yaw: effective track (or gyro scale) and drift.
+
+interface YawFit {
+  params: Pick<Record<FitName, FitParam>, 'effectiveTrack' | 'gyroScale' | 'mismatch' | 'drift'>;
+  rmsDeg?: number;
+  notes: string[];
+}
+
+/** Least squares of y on the columns (already centred): coefficients, their covariance factor (X^T X)^-1, or undefined when singular. */
+function regress(cols: ArrayLike<number>[], y: ArrayLike<number>): { beta: number[]; inv: number[][] } | undefined {
+  const p = cols.length;
+  const A = Array.from({ length: p }, () => new Array<number>(p).fill(0));
+  const b = new Array<number>(p).fill(0);
+  for (let a = 0; a < p; a++) {
+    const ca = cols[a];
+    for (let c = a; c < p; c++) {
+      const cc = cols[c];
+      let sum = 0;
+      for (let k = 0; k < y.length; k++) sum += ca[k] * cc[k];
+      A[a][c] = A[c][a] = sum;
+    }
+    let sy = 0;
+    for (let k = 0; k < y.length; k++) sy += ca[k] * y[k];
+    b[a] = sy;
+  }
+  const inv = invertSym(A);
+  if (!inv) return undefined;
+  return { beta: inv.map((row) => row.reduce((s, v, j) => s + v * b[j], 0)), inv };
+}
+
+function fitYaw(run: RecordedRun, cur: FitCurrent, options: FitOptions): YawFit {
+  const track = cur.effectiveTrack;
+  const none = (why: string, driftWhy = why): YawFit => ({
+    params: {
+      effectiveTrack: notFound('effectiveTrack', why, 0, track),
+      gyroScale: notFound('gyroScale', why, 0, cur.gyroScale),
+      mismatch: notFound('mismatch', why, 0, cur.mismatch),
+      drift: notFound('drift', driftWhy, 0),
+    },
+    notes: [],
+  });
+  if (!run.hasYaw) return none('the log has no yaw column: the effective track, the gyro scale and the mismatch come from the yaw reading against the wheel travel', 'the log has no yaw column: the drift is the reading\'s change while the wheels stand still');
+  const notes: string[] = [];
+  const all = run.samples.filter((s) => Number.isFinite(s.t) && Number.isFinite(s.left) && Number.isFinite(s.right));
+  const sign = cur.turns === 'clockwise' ? 1 : -1;
+  // Each wheel's travel at the row's time less the reading's delay, as degrees of heading for a track of 1 mm
+  // (heading = sign x (left - mismatch x right) / track).
+  const L: number[] = [], R: number[] = [], t: number[] = [], Y: number[] = [], seg: number[] = [];
+  const wheelsAt = (k: number): [number, number] => {
+    if (!(cur.gyroDelay > 0)) return [all[k].left, all[k].right];
+    const tt = all[k].t - cur.gyroDelay;
+    let j = k;
+    while (j > 0 && all[j].t > tt) j--;
+    const a = all[j], b = all[Math.min(j + 1, all.length - 1)];
+    const w = b.t > a.t ? Math.min(1, Math.max(0, (tt - a.t) / (b.t - a.t))) : 0;
+    return [a.left + w * (b.left - a.left), a.right + w * (b.right - a.right)];
+  };
+  let still = 0, stillRows = 0;
+  const c0 = track !== undefined && track > 0 ? cur.gyroScale / track : 0;
+  let started = false;
+  let pY = 0, pD = 0, pT = 0, pUn = 0, pL = 0, pR = 0;
+  let segs = 0, resets = 0, wraps = 0;
+  for (let k = 0; k < all.length; k++) {
+    const s = all[k];
+    const yaw = s.yaw;
+    if (yaw === undefined || !Number.isFinite(yaw)) continue;
+    const [l, r] = wheelsAt(k);
+    const lDeg = (sign * l) / RAD, rDeg = (-sign * r) / RAD;
+    // The right wheel's travel comes with the plan's mismatch in it already.
+    const d = lDeg + rDeg;
+    let un: number;
+    if (!started) { un = yaw; segs = 1; started = true; }
+    else {
+      const pred = c0 * (d - pD);
+      const jump = yaw - pY - pred;
+      const turns = Math.round(jump / 360);
+      const rest = jump - 360 * turns;
+      if (Math.abs(rest) <= JUMP_DEG + 0.1 * Math.abs(pred)) {
+        un = pUn + (yaw - pY) - 360 * turns;
+        if (turns !== 0) wraps++;
+      } else { un = yaw; segs++; resets++; }
+      const dt = s.t - pT;
+      if (dt > 0 && Math.abs(s.left - pL) <= STILL_MM && Math.abs(s.right - pR) <= STILL_MM) {
+        still += dt;
+        stillRows++;
+      }
+    }
+    t.push(s.t); L.push(lDeg); R.push(rDeg); Y.push(un); seg.push(segs - 1);
+    pY = yaw; pD = d; pT = s.t; pUn = un; pL = s.left; pR = s.right;
+  }
+  const n = t.length;
+  if (n < MIN_ROWS) return none(`the log has only ${n} row${n === 1 ? '' : 's'} with a yaw reading: the yaw fit needs at least ${MIN_ROWS}`);
+  if (resets > 0) notes.push(`the yaw reading jumped ${resets} time${resets === 1 ? '' : 's'} by more than the wheels explain (a reset of the reading, or a glitch): each stretch between jumps is fitted with its own zero`);
+  if (wraps > 0) notes.push(`the yaw reading wrapped ${wraps} time${wraps === 1 ? '' : 's'}; the fit follows it across the wrap`);
+  const stillMin = options.stillMin ?? STILL_MIN_S;
+  const withDrift = still >= stillMin;
+  if (!withDrift) notes.push(`the drift is taken as zero for the track: the log has ${still.toFixed(2)} s with both wheels still, and the drift needs at least ${stillMin} s`);
+  // Offsets per stretch eliminated: centre every column within its stretch.
+  const nseg = segs;
+  const centre = (v: number[]): Float64Array => {
+    const sum = new Float64Array(nseg), cnt = new Float64Array(nseg);
+    for (let k = 0; k < n; k++) { sum[seg[k]] += v[k]; cnt[seg[k]]++; }
+    const out = new Float64Array(n);
+    for (let k = 0; k < n; k++) out[k] = v[k] - sum[seg[k]] / cnt[seg[k]];
+    return out;
+  };
+  const Lc = centre(L), Rc = centre(R), Tc = centre(t), Yc = centre(Y);
+  const Dc = new Float64Array(n);
+  for (let k = 0; k < n; k++) Dc[k] = Lc[k] + Rc[k];
+  let dMin = Infinity, dMax = -Infinity;
+  for (let k = 0; k < n; k++) { const d = L[k] + R[k]; if (d < dMin) dMin = d; if (d > dMax) dMax = d; }
+  // The robot's turning in this log, degrees of heading on the plan's track (or of the reading).
+  const turnedDeg = track !== undefined && track > 0 ? (dMax - dMin) / track : 0;
+  const driftNote = withDrift ? undefined : `the log has ${still.toFixed(2)} s with both wheels still; the drift needs at least ${stillMin} s of standing still (wait a few seconds at the start of the run)`;
+  // The mismatch needs both turning and driving straight: the two wheels' columns must not move together.
+  let sLL = 0, sRR = 0, sLR = 0;
+  for (let k = 0; k < n; k++) { sLL += Lc[k] * Lc[k]; sRR += Rc[k] * Rc[k]; sLR += Lc[k] * Rc[k]; }
+  const corr = sLL > 0 && sRR > 0 ? Math.abs(sLR) / Math.sqrt(sLL * sRR) : 1;
+  const tCols = withDrift ? [Tc] : [];
+  let fit2 = corr < MISMATCH_CORR ? regress([Lc, Rc, ...tCols], Yc) : undefined;
+  let mismatchWhy = fit2 ? '' : 'the log does not both drive and turn: the wheels moved together (or against each other) throughout, so their sizes cannot be told apart';
+  const fit1 = regress([Dc, ...tCols], Yc);
+  const residualOf = (cols: ArrayLike<number>[], beta: number[]) => {
+    let sse = 0, lag1 = 0, prevR = 0;
+    for (let k = 0; k < n; k++) {
+      let r = Yc[k];
+      for (let c = 0; c < cols.length; c++) r -= beta[c] * cols[c][k];
+      sse += r * r;
+      if (k > 0 && seg[k] === seg[k - 1]) lag1 += r * prevR;
+      prevR = r;
+    }
+    return { sse, factor: correlationFactor(lag1, sse) };
+  };
+  const mismatchCol = fit2 !== undefined;
+  if (fit2) {
+    // The mismatch's standard error (delta method on c2 / c1); too loose a value is not offered, and the plan's is used.
+    const { beta, inv } = fit2;
+    const { sse, factor } = residualOf([Lc, Rc, ...tCols], beta);
+    const s2 = (sse / Math.max(1, n - nseg - beta.length)) * factor;
+    const m = cur.mismatch * beta[1] / beta[0];
+    const varM = m * m * s2 * (inv[1][1] / (beta[1] * beta[1]) + inv[0][0] / (beta[0] * beta[0]) - (2 * inv[0][1]) / (beta[0] * beta[1]));
+    if (!(Number.isFinite(m) && m > 0 && varM >= 0 && Math.sqrt(varM) < MISMATCH_SE_MAX)) {
+      mismatchWhy = 'the log holds too little straight driving next to its turning to tell the two wheels\' sizes apart';
+      fit2 = undefined;
+    }
+  }
+  const chosen = fit2 ? { cols: [Lc, Rc, ...tCols], fit: fit2 } : fit1 ? { cols: [Dc, ...tCols], fit: fit1 } : undefined;
+  if (!chosen || turnedDeg < 1e-9) {
+    const why = 'the wheels never turned the robot in this log: the track shows only in turns';
+    return {
+      params: {
+        effectiveTrack: notFound('effectiveTrack', why, n, track),
+        gyroScale: notFound('gyroScale', why, n, cur.gyroScale),
+        mismatch: notFound('mismatch', mismatchCol ? why : mismatchWhy, n, cur.mismatch),
+        drift: notFound('drift', driftNote ?? 'the drift could not be separated from the turning in this log', stillRows),
+      },
+      notes,
+    };
+  }
+  const { beta, inv } = chosen.fit;
+  const p = beta.length;
+  const { sse, factor } = residualOf(chosen.cols, beta);
+  const dof = n - nseg - p;
+  const rmsDeg = Math.sqrt(sse / n);
+  if (!(dof > 0)) return none(`the log's ${n} yaw rows in ${nseg} stretches leave nothing to fit with`);
+  const sigma2 = (sse / dof) * factor;
+  const c = beta[0];
+  const seC = Math.sqrt(sigma2 * inv[0][0]);
+  let effectiveTrack: FitParam, gyroScale: FitParam;
+  if (turnedDeg < MIN_TURNED_DEG) {
+    const why = `the robot turned only about ${turnedDeg.toFixed(1)}° in this log; the track and the gyro scale need turning (at least ${MIN_TURNED_DEG}°, better a few whole turns)`;
+    effectiveTrack = notFound('effectiveTrack', why, n, track);
+    gyroScale = notFound('gyroScale', why, n, cur.gyroScale);
+  } else if (!(c > 0) || !(seC < 0.5 * c)) {
+    const why = c > 0
+      ? 'the yaw reading follows the wheels too loosely in this log to tell the track'
+      : 'the yaw reading turns against the wheels: is the yaw column in the plan\'s sign convention (the `turns` setup)?';
+    effectiveTrack = notFound('effectiveTrack', why, n, track);
+    gyroScale = notFound('gyroScale', why, n, cur.gyroScale);
+  } else {
+    // b = scale / c; scale = c x b (delta method: the relative se carries over).
+    const bFit = cur.gyroScale / c;
+    effectiveTrack = found('effectiveTrack', bFit, (bFit * seC) / c, n, track,
+      `assumes the plan's gyro scale ${cur.gyroScale}: a log alone tells only scale / track (use this or the gyro scale, not both)`);
+    gyroScale = track !== undefined && track > 0
+      ? found('gyroScale', c * track, seC * track, n, cur.gyroScale,
+        `assumes the plan's effective track ${+track.toFixed(3)} mm: a log alone tells only scale / track (use this or the effective track, not both)`)
+      : notFound('gyroScale', 'the plan gives no track to tell the scale from', n);
+  }
+  let mismatch: FitParam;
+  if (fit2) {
+    // The right wheel's travel already holds the plan's mismatch: the fit finds the true one over it.
+    const m = cur.mismatch * beta[1] / beta[0];
+    const se = Math.abs(m) * Math.sqrt(Math.max(0, sigma2 * (inv[1][1] / (beta[1] * beta[1]) + inv[0][0] / (beta[0] * beta[0]) - (2 * inv[0][1]) / (beta[0] * beta[1]))));
+    mismatch = found('mismatch', m, se, n, cur.mismatch, 'from the heading the yaw reading shows against the two wheels\' travel (straight drives show it best)');
+  } else {
+    mismatch = notFound('mismatch', mismatchWhy, n, cur.mismatch);
+    notes.push(`the track assumes the plan's mismatch ${cur.mismatch}: ${mismatchWhy}`);
+  }
+  const driftParam = withDrift
+    ? found('drift', beta[p - 1], Math.sqrt(sigma2 * inv[p - 1][p - 1]), stillRows, undefined,
+      `from ${still.toFixed(1)} s with both wheels still (fitted with the turning)`)
+    : notFound('drift', driftNote!, stillRows);
+  return { params: { effectiveTrack, gyroScale, mismatch, drift: driftParam }, rmsDeg, notes };
+}
+
+// ---------------------------------------------------------------------------
+
+/** Fits the robot model to a recorded run. */
+export function fitRobot(run: RecordedRun, current: FitCurrent, options: FitOptions = {}): FitResult {
+  const rows = run.samples.length;
+  const notes: string[] = [];
+  if (rows < MIN_ROWS) {
+    const why = `the log has only ${rows} row${rows === 1 ? '' : 's'}: a fit needs at least ${MIN_ROWS} (record the whole run, every control-loop sample)`;
+    const params = {} as Record<FitName, FitParam>;
+    const cur: Record<FitName, number | undefined> = {
+      motorSpeed: current.motorSpeed, motorLag: current.motorLag, stall: current.stall,
+      effectiveTrack: current.effectiveTrack, gyroScale: current.gyroScale, mismatch: current.mismatch, drift: undefined,
+    };
+    for (const name of Object.keys(LABELS) as FitName[]) params[name] = notFound(name, why, 0, cur[name]);
+    return { params, residual: {}, notes: [why], rows, source: run.source, noiseDrift: current.noiseDrift };
+  }
+  const motor = fitMotor(run, current);
+  const yaw = fitYaw(run, current, options);
+  notes.push(...motor.notes, ...yaw.notes);
+  const step = medianStep(run.samples.map((s) => s.t));
+  if (step > 0 && current.sample > 0 && Math.abs(step - current.sample) > 0.25 * current.sample) {
+    notes.push(`the log's rows are ${(step * 1000).toFixed(1)} ms apart and the plan's control loop runs every ${(current.sample * 1000).toFixed(1)} ms: the fit takes each row's power as held until the next row`);
+  }
+  const residual: FitResult['residual'] = {};
+  if (motor.rmsMm !== undefined) residual.wheelMm = motor.rmsMm;
+  if (yaw.rmsDeg !== undefined) residual.yawDeg = yaw.rmsDeg;
+  return {
+    params: { ...motor.params, ...yaw.params },
+    ...(motor.wheelSpeed ? { wheelSpeed: motor.wheelSpeed } : {}),
+    residual,
+    notes,
+    rows,
+    source: run.source,
+    noiseDrift: current.noiseDrift,
+  };
+}
+
+// ---------------------------------------------------------------------------
+// Setup edits.
+
+export interface FitFixOptions {
+  /** Offer every value found, also where the plan's value lies inside its interval. */
+  all?: boolean;
+}
+
+/** A value rounded to a tenth of its standard error's order (at most 6 significant digits). */
+export function roundForPlan(v: number, se: number): number {
+  const step = se > 0 ? Math.pow(10, Math.floor(Math.log10(se)) - 1) : 0;
+  const r = step > 0 ? Math.round(v / step) * step : v;
+  return Number(r.toPrecision(6));
+}
+
+function num(v: number): string {
+  const s = String(Number(v.toPrecision(6)));
+  return s === '-0' ? '0' : s;
+}
+
+/** The fitted values as setup-line edits of the plan `text`. */
+export function fitFixes(text: string, fit: FitResult, options: FitFixOptions = {}): Fix[] {
+  const { ast } = parsePlan(text);
+  const eol = lineEndOf(text);
+  const offer = (p: FitParam) => p.found && p.value !== undefined && p.se !== undefined && (options.all || p.differs !== false);
+  const find = <K extends Statement['kind']>(kind: K) => ast.statements.find((s) => s.kind === kind) as Extract<Statement, { kind: K }> | undefined;
+  // New setup lines go after the last setup statement before the first run.
+  const firstRun = ast.statements.findIndex((s) => s.kind === 'run' || s.kind === 'start');
+  const setupBefore = ast.statements.slice(0, firstRun < 0 ? undefined : firstRun);
+  const lastSetup = setupBefore[setupBefore.length - 1];
+  const insertAt = lastSetup ? lastSetup.line + 1 : 0;
+  const newLine = (line: string): TextEdit => ({ range: { start: { line: insertAt, character: 0 }, end: { line: insertAt, character: 0 } }, newText: `${line}${eol}` });
+  const option = (stmt: Statement, node: { range: TextEdit['range'] } | undefined, key: string, value: string): TextEdit =>
+    node ? { range: node.range, newText: value } : { range: { start: stmt.range.end, end: stmt.range.end }, newText: ` ${key} ${value}` };
+  // Interval ends with one more decimal than the standard error's first.
+  const interval = (p: FitParam, scale = 1) => {
+    const places = Math.min(8, Math.max(0, 1 - Math.floor(Math.log10(p.se! * scale || 1))));
+    return `${(p.low! * scale).toFixed(places)} to ${(p.high! * scale).toFixed(places)}`;
+  };
+  const P = fit.params;
+  const from = fit.source ? ` (fitted to ${fit.source})` : '';
+  const fixes: Fix[] = [];
+  const recommended: TextEdit[] = [];
+  const said: string[] = [];
+
+  // motor S lag T stall P
+  const motorParts: { key: 'speed' | 'lag' | 'stall'; text: string; say: string }[] = [];
+  if (offer(P.motorSpeed)) {
+    const v = roundForPlan(P.motorSpeed.value!, P.motorSpeed.se!);
+    motorParts.push({ key: 'speed', text: `${num(v)} deg/s`, say: `motor speed ${num(v)} deg/s (95 %: ${interval(P.motorSpeed)})` });
+  }
+  if (offer(P.motorLag)) {
+    const v = roundForPlan(P.motorLag.value! * 1000, P.motorLag.se! * 1000);
+    motorParts.push({ key: 'lag', text: `${num(v)} ms`, say: `lag ${num(v)} ms (95 %: ${interval(P.motorLag, 1000)} ms)` });
+  }
+  if (offer(P.stall)) {
+    const v = roundForPlan(P.stall.value! * 100, P.stall.se! * 100);
+    motorParts.push({ key: 'stall', text: `${num(v)}%`, say: `stall ${num(v)} % (between ${num(P.stall.low! * 100)} and ${num(P.stall.high! * 100)} %)` });
+  }
+  if (motorParts.length) {
+    const stmt = find('motor');
+    const edits: TextEdit[] = [];
+    if (stmt) {
+      for (const part of motorParts) {
+        if (part.key === 'speed') edits.push({ range: stmt.speed.range, newText: part.text });
+        else edits.push(option(stmt, stmt[part.key], part.key, part.text));
+      }
+    } else {
+      // A new line needs a speed: the plan's (the default) when only the lag or stall is offered.
+      const speed = motorParts.find((p) => p.key === 'speed')?.text ?? `${num(P.motorSpeed.current ?? 900)} deg/s`;
+      edits.push(newLine(['motor', speed, ...motorParts.filter((p) => p.key !== 'speed').map((p) => `${p.key} ${p.text}`)].join(' ')));
+    }
+    // Option edits of one line keep their text order when applied.
+    const merged = mergeSameLine(edits);
+    fixes.push({ title: `Set the ${motorParts.map((p) => p.say).join(', ')}${from}`, edits: merged, changesPath: true });
+    recommended.push(...merged);
+    said.push(...motorParts.map((p) => p.say));
+  }
+  // track W effective WE
+  if (offer(P.effectiveTrack)) {
+    const p = P.effectiveTrack;
+    const v = roundForPlan(p.value!, p.se!);
+    const stmt = find('track');
+    const say = `effective track ${num(v)} mm (95 %: ${interval(p)} mm, assuming the gyro scale ${fitScaleText(p)})`;
+    if (stmt) {
+      const edits = [option(stmt, stmt.effective, 'effective', `${num(v)} mm`)];
+      fixes.push({ title: `Set the ${say}${from}`, edits, changesPath: true });
+      recommended.push(...edits);
+      said.push(say);
+    }
+  }
+  // wheel D mismatch E
+  if (offer(P.mismatch)) {
+    const p = P.mismatch;
+    const v = roundForPlan(p.value!, p.se!);
+    const stmt = find('wheel');
+    if (stmt) {
+      const say = `wheel mismatch ${num(v)} (95 %: ${interval(p)})`;
+      const edits = [option(stmt, stmt.mismatch, 'mismatch', num(v))];
+      fixes.push({ title: `Set the ${say}${from}`, edits, changesPath: true });
+      recommended.push(...edits);
+      said.push(say);
+    }
+  }
+  // gyro scale F: instead of the track
+  if (offer(P.gyroScale)) {
+    const p = P.gyroScale;
+    const v = roundForPlan(p.value!, p.se!);
+    const stmt = find('gyro');
+    const edit = stmt ? option(stmt, stmt.scale, 'scale', num(v)) : newLine(`gyro scale ${num(v)}`);
+    fixes.push({ title: `Set the gyro scale ${num(v)} (95 %: ${interval(p)}) instead of the effective track, which it assumes${from}`, edits: [edit], changesPath: true });
+  }
+  // noise drift R: only where the drift seen is larger than the plan's spread allows for.
+  const d = P.drift;
+  if (d.found && d.value !== undefined && d.se !== undefined && Math.abs(d.value) > 0) {
+    const current = fit.noiseDrift;
+    const lowAbs = Math.max(0, Math.min(Math.abs(d.low!), Math.abs(d.high!)) * (Math.sign(d.low!) === Math.sign(d.high!) ? 1 : 0));
+    if (options.all || current === undefined || lowAbs > current) {
+      const perMin = roundForPlan(Math.abs(d.value) * 60, d.se * 60);
+      const stmt = find('noise');
+      const edit = stmt ? option(stmt, stmt.drift, 'drift', `${num(perMin)} deg/min`) : newLine(`noise drift ${num(perMin)} deg/min`);
+      const say = `gyro drift ${num(perMin)} deg/min in the noise model (this run drifted ${num(roundForPlan(d.value * 60, d.se * 60))} deg/min, 95 %: ${interval(d, 60)})`;
+      fixes.push({ title: `Set the ${say}${from}`, edits: [edit], changesPath: true });
+      recommended.push(edit);
+      said.push(say);
+    }
+  }
+  if (recommended.length > 1) {
+    fixes.unshift({ title: `Set the fitted values${from}: ${said.join('; ')}`, edits: mergeSameLine(recommended), preferred: true, changesPath: true });
+  } else if (fixes.length) fixes[0].preferred = true;
+  return fixes;
+}
+
+function fitScaleText(p: FitParam): string {
+  const m = /gyro scale ([0-9.]+)/.exec(p.note ?? '');
+  return m ? m[1] : 'of the plan';
+}
+
+/** Insertions at one point are joined into one edit (two edits at one position would not apply in a defined order). */
+function mergeSameLine(edits: TextEdit[]): TextEdit[] {
+  const out: TextEdit[] = [];
+  for (const e of edits) {
+    const same = out.find((o) => o.range.start.line === e.range.start.line && o.range.start.character === e.range.start.character
+      && o.range.end.line === e.range.end.line && o.range.end.character === e.range.end.character && posEq(o.range.start, o.range.end));
+    if (same && posEq(e.range.start, e.range.end)) same.newText += e.newText;
+    else out.push({ range: e.range, newText: e.newText });
+  }
+  return out;
+}
+
+function posEq(a: { line: number; character: number }, b: { line: number; character: number }): boolean {
+  return a.line === b.line && a.character === b.character;
+}
