@@ -3,12 +3,12 @@
 // cancellable progress notification, and hands the cloud of end points to the
 // path preview, which draws it until the plan's next edit. The extension host
 // only starts the worker and waits for messages: it never samples itself.
-import { Worker } from 'node:worker_threads';
 import * as vscode from 'vscode';
-import { isSpreadCloud, type SpreadCloud } from '../core/render/cloud';
+import type { SpreadCloud } from '../core/render/cloud';
 import { getAnalysis, isPlan } from './analysis';
 import { isPreviewing, OPEN_PREVIEW_COMMAND, showCloud } from './preview';
-import type { SampleReply, SampleRequest } from './sampleWorker';
+import type { SampleRequest } from './sampleWorker';
+import { runWorker } from './sampleRunner';
 
 export const SAMPLE_COMMAND = 'veer.sampleRuns';
 export const SAMPLE_COUNT_SETTING = 'sampling.count';
@@ -17,8 +17,6 @@ const MIN_COUNT = 10;
 const MAX_COUNT = 100_000;
 /** The seed of `veer check --json --samples N` without `--seed`: the editor's cloud is the command line's. */
 const SEED = 1;
-/** The worker's heap limit, MB: a runaway plan cannot take the editor's memory with it. */
-const WORKER_HEAP_MB = 1024;
 
 /** What the command resolves with (the editor tests read it). */
 export type SamplingOutcome =
@@ -79,41 +77,4 @@ async function sampleActivePlan(script: string): Promise<SamplingOutcome | undef
   void vscode.window.showInformationMessage(`Sampled ${count.toLocaleString('en')} runs of ${name} in ${(ms / 1000).toFixed(1)} s`
     + `${said.length ? `: ${said.join('; ')}${marks.length > 3 ? '; …' : ''}` : ''}. The dots in the preview clear at the next edit.`);
   return { status: 'done', count, ms, dots, marks };
-}
-
-/**
- * Runs one request in a fresh worker; resolves with its cloud, or 'cancelled'
- * when the user cancels (the worker is terminated at once, mid-sample).
- */
-function runWorker(script: string, request: SampleRequest, token: vscode.CancellationToken,
-  report: (step: { increment: number; message: string }) => void): Promise<{ cloud: SpreadCloud; ms: number } | 'cancelled'> {
-  return new Promise((resolve, reject) => {
-    const worker = new Worker(script, { resourceLimits: { maxOldGenerationSizeMb: WORKER_HEAP_MB } });
-    let settled = false;
-    let shown = 0;
-    const finish = (settle: () => void) => {
-      if (settled) return;
-      settled = true;
-      cancelled.dispose();
-      void worker.terminate();
-      settle();
-    };
-    const cancelled = token.onCancellationRequested(() => finish(() => resolve('cancelled')));
-    worker.on('message', (reply: SampleReply) => {
-      if (reply.type === 'progress') {
-        const pct = Math.floor(reply.done * 100);
-        if (pct > shown) {
-          report({ increment: pct - shown, message: `${pct} %` });
-          shown = pct;
-        }
-      } else if (reply.type === 'done') {
-        finish(() => (isSpreadCloud(reply.cloud) ? resolve({ cloud: reply.cloud, ms: reply.ms }) : reject(new Error('the worker sent no cloud'))));
-      } else {
-        finish(() => reject(new Error(reply.message)));
-      }
-    });
-    worker.on('error', (e) => finish(() => reject(e)));
-    worker.on('exit', (code) => finish(() => reject(new Error(`the sampling stopped before it finished (exit code ${code})`))));
-    worker.postMessage(request);
-  });
 }
