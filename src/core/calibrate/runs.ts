@@ -4,6 +4,7 @@
 // what to measure and how to record it written as comments.
 import type { CheckResult, PlanSetup } from '../types';
 import { MIN_TRIALS } from './compute';
+import { checkPlan } from '../check';
 
 export interface CalibrationRuns {
   /** The plan text, or undefined when the plan lacks what the runs need. */
@@ -51,12 +52,12 @@ export function writeCalibrationRuns(result: CheckResult, options: CalibrationRu
   const reach = reachOf(setup);
   const margin = Math.ceil(reach + SPARE);
   const floorTo = (v: number, step: number) => Math.floor(v / step) * step;
-  const side = Math.min(LONGEST, floorTo(Math.min(field.width, field.height) - 2 * margin, 50));
+  const largestSide = Math.min(LONGEST, floorTo(Math.min(field.width, field.height) - 2 * margin, 50));
   const alongX = field.width > field.height;
-  const drive = Math.min(LONGEST, floorTo((alongX ? field.width : field.height) - 2 * margin, 100));
+  const longestDrive = Math.min(LONGEST, floorTo((alongX ? field.width : field.height) - 2 * margin, 100));
   const fieldText = `${num(field.width)} by ${num(field.height)}`;
-  if (side < SHORTEST) {
-    problems.push(`the field (${fieldText} mm) is too small for the square test: with the robot's reach of ${num(reach)} mm and ${SPARE} mm to spare, the square's side would be ${num(Math.max(0, side))} mm, and it needs at least ${SHORTEST} mm. Calibrate on a larger clear area (set its size with \`field\`)`);
+  if (largestSide < SHORTEST) {
+    problems.push(`the field (${fieldText} mm) is too small for the square test: with the robot's reach of ${num(reach)} mm and ${SPARE} mm to spare, the square's side would be ${num(Math.max(0, largestSide))} mm, and it needs at least ${SHORTEST} mm. Calibrate on a larger clear area (set its size with \`field\`)`);
   }
   if (Math.min(field.width, field.height) / 2 < margin) {
     problems.push(`the field (${fieldText} mm) is too small for the robot to spin in its middle with ${SPARE} mm to spare`);
@@ -77,11 +78,30 @@ export function writeCalibrationRuns(result: CheckResult, options: CalibrationRu
     return { problems };
   }
   const spin = `${Math.round(spinPower * 100)}%`;
+  // The turns of the laps end slowly (a ramp down to just above the stall power), so that they coast little.
+  const turnMin = Math.min(15, Math.ceil((r.stall ?? 0.05) * 100) + 3);
   const cw = setup.turns === 'clockwise';
   const right = cw ? 90 : -90; // a turn to the right, in the plan's sign
   const facingX = cw ? 90 : 270; // the field heading that faces +x
   const mid = { x: field.width / 2, y: field.height / 2 };
   const driveStart = alongX ? { x: margin, y: mid.y, h: facingX } : { x: mid.x, y: margin, h: 0 };
+  // The largest square and drive whose predicted paths (the controller simulation: the robot coasts a
+  // little past each turn) stay on the field, 50 mm (100 mm) smaller at a time.
+  let side = largestSide;
+  let drive = longestDrive;
+  for (;;) {
+    const text = compose(side, drive);
+    const offField = checkPlan(text, { fileName: 'calibration.veer' }).diagnostics.filter((d) => d.code === 'off-field' || d.code === 'collision');
+    const inSquare = offField.some((d) => d.range.start.line > squareFrom(text));
+    const inDrive = offField.some((d) => d.range.start.line < squareFrom(text));
+    if ((!inSquare || side - 50 < SHORTEST) && (!inDrive || drive - 100 < SHORTEST)) return { text, problems: [], drive, side };
+    if (inSquare && side - 50 >= SHORTEST) side -= 50;
+    if (inDrive && drive - 100 >= SHORTEST) drive -= 100;
+  }
+
+  function compose(side: number, drive: number): string {
+  // The square in the middle of the field: the room to spare is the same on every side.
+  const corner = { x: Math.round((field.width - side) / 2), y: Math.round((field.height - side) / 2) };
   const L = [] as string[];
   const out = (...lines: string[]) => L.push(...lines);
   const title = setup.title.replace(/["\\]/g, '');
@@ -147,21 +167,27 @@ export function writeCalibrationRuns(result: CheckResult, options: CalibrationRu
     `#   lap clockwise ${num(side)} mm ahead ___ left ___`,
     `#   lap counterclockwise ${num(side)} mm ahead ___ left ___`,
     `run "square, clockwise lap"`,
-    `start (${num(margin)}, ${num(margin)}) heading 0`,
-    ...lap(side, right),
+    `start (${num(corner.x)}, ${num(corner.y)}) heading 0`,
+    ...lap(side, right, turnMin),
     '',
     `run "square, counterclockwise lap"`,
-    `start (${num(margin + side)}, ${num(margin)}) heading 0`,
-    ...lap(side, -right),
+    `start (${num(corner.x + side)}, ${num(corner.y)}) heading 0`,
+    ...lap(side, -right, turnMin),
     '',
   );
-  return { text: L.join('\n'), problems: [], drive, side };
+  return L.join('\n');
+  }
+}
+
+/** The 0-based line where the square test's comments begin. */
+function squareFrom(text: string): number {
+  return text.split('\n').findIndex((l) => l.startsWith('# 4. '));
 }
 
 /** Four legs and four turns back to the start pose. */
-function lap(side: number, turn: number): string[] {
+function lap(side: number, turn: number, min: number): string[] {
   const lines: string[] = [];
-  for (let i = 0; i < 4; i++) lines.push(`drive ${num(side)} speed 30% ramp 300 mm/s^2`, `turn ${turn} speed 20% ramp`);
+  for (let i = 0; i < 4; i++) lines.push(`drive ${num(side)} speed 30% ramp 300 mm/s^2`, `turn ${turn} speed 20% min ${min}% ramp`);
   return lines;
 }
 

@@ -120,14 +120,29 @@ export function tCdf(t: number, df: number): number {
   return t >= 0 ? 1 - tail : tail;
 }
 
-/** The p-quantile of Student's t (p in (0.5, 1)), by bisection on the distribution function. */
+/** The density of Student's t. */
+function tPdf(t: number, df: number): number {
+  if (!Number.isFinite(df)) return Math.exp(-t * t / 2) / Math.sqrt(2 * Math.PI);
+  return Math.exp(lnGamma((df + 1) / 2) - lnGamma(df / 2) - 0.5 * Math.log(df * Math.PI) - ((df + 1) / 2) * Math.log1p((t * t) / df));
+}
+
+/**
+ * The p-quantile of Student's t (p in (0.5, 1)): Newton's method on the
+ * distribution function (its derivative is the density), kept inside a
+ * bracket that bisection narrows whenever a step would leave it.
+ */
 export function tQuantile(p: number, df: number): number {
   let lo = 0;
   let hi = 1;
-  while (tCdf(hi, df) < p && hi < 1e12) hi *= 2;
-  for (let i = 0; i < 200 && hi - lo > 1e-12 * hi; i++) {
-    const mid = (lo + hi) / 2;
-    if (tCdf(mid, df) < p) lo = mid; else hi = mid;
+  while (tCdf(hi, df) < p && hi < 1e12) { lo = hi; hi *= 2; }
+  let t = (lo + hi) / 2;
+  for (let i = 0; i < 200; i++) {
+    const f = tCdf(t, df) - p;
+    if (f < 0) lo = t; else hi = t;
+    if (Math.abs(f) < 1e-14 || hi - lo < 1e-13 * hi) break;
+    let next = t - f / tPdf(t, df);
+    if (!(next > lo && next < hi)) next = (lo + hi) / 2;
+    t = next;
   }
-  return (lo + hi) / 2;
+  return t;
 }
