@@ -1,4 +1,5 @@
 import { strict as assert } from 'node:assert';
+import fc from 'fast-check';
 import { checkPlan } from '../../src/core';
 import { applyEdits } from '../../src/core/fix/text';
 import {
@@ -254,6 +255,24 @@ describe('calibration: the record\'s messages', () => {
     assert.equal(r.calibration!.wheel!.ratio.n, 30_000);
     // A file far beyond any record is refused as a whole.
     assert.match(parseRecord('#'.repeat(300_000)).problems[0].message, /too long/);
+  });
+
+  it('any text: the reader and the computation never throw, and every problem points into the text at its line', () => {
+    const words = ['drive', 'spin', 'gyro', 'lap', 'units', 'measured', 'reads', 'ahead', 'left', 'clockwise', 'counterclockwise',
+      'turns', 'mm', 'cm', 'm', 'in', 'deg', 'rad', '°', ',', '#', '-', '1000', '985', '3588', '-20', '0', '1e999', '.5', 'x', '\t', '€'];
+    const base = checkPlan(PLAN);
+    fc.assert(fc.property(fc.array(fc.array(fc.constantFrom(...words), { maxLength: 12 }).map((ws) => ws.join(' ')), { maxLength: 8 }), (lines) => {
+      const text = lines.join('\n');
+      const { record, calibration } = calibratePlan(base, PLAN, text);
+      const split = text.split('\n');
+      for (const p of [...record.problems, ...(calibration?.problems ?? [])]) {
+        assert.ok(p.range.start.line < split.length && p.range.end.character <= split[p.range.start.line].length + 1, JSON.stringify(p));
+        assert.match(p.message, new RegExp(`^line ${p.range.start.line + 1}: `));
+      }
+      for (const v of [calibration?.wheel?.diameter, calibration?.spin?.track, calibration?.gyro?.scale, calibration?.square?.mismatch]) {
+        if (v) assert.ok(Number.isFinite(v.value) && Number.isFinite(v.half95), JSON.stringify(v));
+      }
+    }), { numRuns: 2000, seed: 5 });
   });
 
   it('the record\'s units apply to its bare lengths', () => {
