@@ -6,8 +6,8 @@
 // "Veer: Clear the Recorded Run" forgets it.
 import * as vscode from 'vscode';
 import type { CheckResult } from '../core';
-import { replayLog, type RecordedOverlay, type Replay } from '../core/record/compare';
-import { LogError } from '../core/record/log';
+import { logRobotOf, replayRead, type RecordedOverlay, type Replay } from '../core/record/compare';
+import { LogError, readLog, type ReadLog } from '../core/record/log';
 import { currentFromSetup, fitFixes, fitRobot } from '../core/record/fit';
 import { replayText } from '../cli/replay';
 import { getAnalysis, isPlan } from './analysis';
@@ -30,6 +30,8 @@ interface Loaded {
   logUri: vscode.Uri;
   text: string;
   name: string;
+  /** The log as last read, and the plan's values it was read with. */
+  read?: { key: string; log: ReadLog };
   /** The last replay and the check result it was made for. */
   made?: { result: CheckResult; replay?: Replay; error?: string };
 }
@@ -145,7 +147,11 @@ async function load(logUri: vscode.Uri): Promise<Loaded> {
 function replayFor(entry: Loaded, result: CheckResult): { replay?: Replay; error?: string; errorAt?: { line?: number; column?: number } } {
   if (entry.made?.result === result) return { replay: entry.made.replay, error: entry.made.error };
   try {
-    const replay = replayLog(result, entry.text, entry.name);
+    // The log is read again only when the plan's wheel or yaw range changes; every edit reconstructs and compares.
+    const robot = logRobotOf(result);
+    const key = `${robot.wheelDiameter}|${robot.mismatch}|${robot.yawLo}`;
+    if (entry.read?.key !== key) entry.read = { key, log: readLog(entry.text, entry.name, robot) };
+    const replay = replayRead(result, entry.read.log);
     entry.made = { result, replay };
     return { replay };
   } catch (e) {

@@ -4,7 +4,7 @@
 // and how long it really took. Motions are found in the log by its line
 // column, or, without one, by aligning the predicted times with the log's.
 import type { CheckResult, Point, Pose, RunResult, Segment, SegmentKind } from '../types';
-import { LogError, readLog, type LogSettings, type ReadLog } from './log';
+import { LogError, readLog, type LogRobot, type LogSettings, type ReadLog } from './log';
 import { reconstruct, type Reconstruction, type ReconstructedPath } from './odometry';
 import type { RecordedRun } from './types';
 
@@ -92,8 +92,18 @@ const TIME_SCALE_LIMIT = 2;
  * plan's only run. Throws a LogError on a log it cannot use.
  */
 export function replayLog(result: CheckResult, text: string, source: string, options: LogSettings = {}, run?: number): Replay {
+  return replayRead(result, readLog(text, source, logRobotOf(result), options), run);
+}
+
+/** What reading a log needs from a checked plan: a log read with the same values can be replayed again (see `replayRead`). */
+export function logRobotOf(result: CheckResult): LogRobot {
   const r = result.setup.robot;
-  const log = readLog(text, source, { wheelDiameter: r.wheelDiameter, mismatch: r.mismatch ?? 1, yawLo: result.setup.yawRange.lo }, options);
+  return { wheelDiameter: r.wheelDiameter, mismatch: r.mismatch ?? 1, yawLo: result.setup.yawRange.lo };
+}
+
+/** `replayLog` for a log already read (with `logRobotOf(result)`'s values): the editor reads a log once and replays it on every edit. */
+export function replayRead(result: CheckResult, log: ReadLog, run?: number): Replay {
+  const r = result.setup.robot;
   const runIndex = run ?? pickRun(result, log.run);
   const plan = result.runs[runIndex];
   const start = plan.segments.find((s) => s.kind === 'start');
