@@ -359,12 +359,20 @@ function checkPlanUnguarded(text: string, options: CheckOptions): CheckResult {
         const gyro = ev(s.gyro, 'angle');
         const drift = ev(s.drift, 'angularSpeed');
         const wheel = ev(s.wheel, 'length');
+        const square = ev(s.square, 'angle');
+        const across = ev(s.across, 'length');
         if (wheel !== undefined && s.wheel && (wheel < 0 || wheel > 10)) {
           report(s.wheel.range, 'error', 'setup', `a wheel noise of ${fmt(wheel, 3)} mm is ${wheel < 0 ? 'negative' : 'far beyond any wheel on a table (a metre of driving would spread the heading by tens of degrees)'}: it is the variance, per millimetre driven, of each wheel's random travel error, about 0.01 mm for small rubber wheels, e.g. \`noise wheel 0.01 mm\`.`);
         } else if (wheel !== undefined) setup.noise.wheel = wheel;
-        for (const [v, e, what] of [[drive, s.drive, 'drive'], [turn, s.turn, 'turn'], [gyro, s.gyro, 'gyro'], [drift, s.drift, 'drift']] as const) {
+        for (const [v, e, what] of [[drive, s.drive, 'drive'], [turn, s.turn, 'turn'], [gyro, s.gyro, 'gyro'], [drift, s.drift, 'drift'], [square, s.square, 'square'], [across, s.across, 'across']] as const) {
           if (v !== undefined && e && v < 0) report(e.range, 'error', 'setup', `the ${what} noise cannot be negative.`);
         }
+        if (square !== undefined && s.square && square > 10) {
+          report(s.square.range, 'error', 'setup', `a square noise of ${fmt(square, 2)}° is far beyond a robot pressed flat against a wall: it is the spread (standard deviation) of the heading after a \`square\`, about 0.5° for a flat bumper, e.g. \`noise square 0.5 deg across 1 mm\`.`);
+        } else if (square !== undefined && square >= 0) setup.noise.square = square;
+        if (across !== undefined && s.across && across > 50) {
+          report(s.across.range, 'error', 'setup', `an across noise of ${fmt(across, 1)} mm is far beyond a robot pressed against a wall: it is the spread (standard deviation) of the position across the wall after a \`square\`, about 1 mm, e.g. \`noise square 0.5 deg across 1 mm\`.`);
+        } else if (across !== undefined && across >= 0) setup.noise.squareAcross = across;
         if (drive !== undefined && drive >= 0) setup.noise.drive = drive;
         if (turn !== undefined && turn >= 0) setup.noise.turn = turn;
         if (gyro !== undefined && gyro >= 0) setup.noise.gyro = gyro;
@@ -502,7 +510,7 @@ function evaluateMotion(
     case 'wait':
       return { stmt: s, time: ev(s.time, 'time') };
     case 'mark':
-      return { stmt: s, at: evPoint(s.at), heading: ev(s.heading, 'angle'), within: ev(s.within, 'length') };
+      return { stmt: s, at: evPoint(s.at), heading: ev(s.heading, 'angle'), within: ev(s.within, 'length'), level: ev(s.level, 'fraction') };
     case 'resetYaw':
       return { stmt: s };
   }

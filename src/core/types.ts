@@ -82,6 +82,8 @@ export interface NoiseStmt extends StatementBase {
   gyro?: ExprNode;
   drift?: ExprNode;
   wheel?: ExprNode;
+  square?: ExprNode;
+  across?: ExprNode;
 }
 /** `gyro [sample T] [delay T] [scale F]`: the yaw sensor as the robot's control loop reads it (at least one option). */
 export interface GyroStmt extends StatementBase { kind: 'gyro'; sample?: ExprNode; delay?: ExprNode; scale?: ExprNode }
@@ -134,6 +136,8 @@ export interface MarkStmt extends StatementBase {
   heading?: ExprNode;
   within?: ExprNode;
   inZone?: StringNode;
+  /** The share of runs that must meet the mark (`level P`; 95 % when absent). */
+  level?: ExprNode;
 }
 
 export type SetupStmt =
@@ -239,6 +243,9 @@ export interface NoiseModel {
   drift: number;
   /** Random wheel travel error, mm: variance wheel·|travel| per wheel (`noise wheel K`; the robot model's 0.01 mm when absent). */
   wheel?: number;
+  /** After a `square`: sd of the heading (degrees) and of the position across the wall (mm) (`noise square A [across D]`). */
+  square?: number;
+  squareAcross?: number;
 }
 
 export interface Obstacle {

@@ -4,16 +4,18 @@
 // editor offers it.
 import * as vscode from 'vscode';
 import type * as core from '../core';
-import { fewestResets, proveFix } from '../core/fix';
+import { bestReset, fewestResets, proveFix } from '../core/fix';
 import { getAnalysis, LANGUAGE_ID, type Analysis } from './analysis';
 import { codeOf, DIAGNOSTIC_SOURCE, toCodeAction, toDiagnostic, toRange } from './convert';
 
 export const FEWEST_RESETS_KIND = vscode.CodeActionKind.Source.append('veer').append('fewestResets');
+/** The one reset that shrinks the run's final spread most: offered anywhere in the run. */
+export const BEST_RESET_KIND = vscode.CodeActionKind.Refactor.append('veer').append('bestReset');
 
 export function registerCodeActions(context: vscode.ExtensionContext): void {
   context.subscriptions.push(
     vscode.languages.registerCodeActionsProvider(LANGUAGE_ID, new PlanCodeActions(), {
-      providedCodeActionKinds: [vscode.CodeActionKind.QuickFix, FEWEST_RESETS_KIND],
+      providedCodeActionKinds: [vscode.CodeActionKind.QuickFix, FEWEST_RESETS_KIND, BEST_RESET_KIND],
     }),
   );
 }
@@ -32,6 +34,22 @@ function proven(analysis: Analysis, fix: core.Fix, target?: core.Diagnostic): bo
     proofs.set(fix, ok);
   }
   return ok;
+}
+
+const bestResetByResult = new WeakMap<core.CheckResult, Map<number, core.Fix | undefined>>();
+
+/** The best reset of the run at `line` (worked out once per check result and run, and proven). */
+function bestResetOf(analysis: Analysis, line: number): core.Fix | undefined {
+  const result = analysis.result;
+  const runIndex = result.runs.findIndex((r) => r.segments.length > 0 && line >= r.line && line <= r.segments[r.segments.length - 1].line);
+  if (runIndex < 0) return undefined;
+  let byRun = bestResetByResult.get(result);
+  if (!byRun) bestResetByResult.set(result, (byRun = new Map()));
+  if (!byRun.has(runIndex)) {
+    const fix = bestReset(result, runIndex, analysis.text)?.fix;
+    byRun.set(runIndex, fix && proven(analysis, fix) ? fix : undefined);
+  }
+  return byRun.get(runIndex);
 }
 
 function fewestResetsOf(analysis: Analysis): core.Fix | undefined {
@@ -70,6 +88,10 @@ class PlanCodeActions implements vscode.CodeActionProvider {
     if (!context.only || FEWEST_RESETS_KIND.intersects(context.only)) {
       const fix = fewestResetsOf(analysis);
       if (fix) actions.push(toCodeAction(document.uri, { ...fix, preferred: false }, FEWEST_RESETS_KIND, []));
+    }
+    if (context.only ? BEST_RESET_KIND.intersects(context.only) : context.triggerKind === vscode.CodeActionTriggerKind.Invoke) {
+      const fix = bestResetOf(analysis, range.start.line);
+      if (fix) actions.push(toCodeAction(document.uri, { ...fix, preferred: false }, BEST_RESET_KIND, []));
     }
     return actions;
   }

@@ -2,6 +2,8 @@ import { strict as assert } from 'node:assert';
 import { PATH_TOLERANCE } from '../../src/core/fix/prove';
 import fc from 'fast-check';
 import { checkPlan, fewestResets } from '../../src/core';
+import { bestReset, proveFix } from '../../src/core/fix';
+import { propagateRun } from '../../src/core/spread/run';
 import type { CheckResult, Pose, TextEdit } from '../../src/core/types';
 
 // fewestResets: the whole-file fix that inserts `reset yaw` lines. Checked
@@ -64,7 +66,66 @@ function popcount(v: number): number {
   return c;
 }
 
+describe('bestReset', () => {
+  it('inserts the reset that shrinks the run\'s final spread most (just after the square), keeping the path', () => {
+    // A reset after a long encoder drive puts that drive's heading error into the sensor's reference; the square at
+    // the top wall takes the heading back to 0.5°. Zeroing the sensor again right after the square gives every later
+    // gyro motion that small reference error instead (robot model section 3).
+    const text = ['wheel 56 mm', 'track 120 mm', 'field 2000 by 2000', 'start (300, 300) heading 0', 'drive 1000', 'reset yaw', 'drive 500',
+      'square front', 'drive -300', 'turn 90 by gyro', 'drive 800 hold 90', 'turn to 0 by gyro', 'drive 300'].join('\n');
+    const before = checkPlan(text);
+    const best = bestReset(before, 0, text)!;
+    assert.ok(best, 'a reset is offered');
+    assert.equal(best.line, 8, 'before `drive -300`, the first motion after the square');
+    const segs = before.runs[0].segments;
+    const last = segs[segs.length - 1];
+    // Every other placement leaves a wider oval (the same linear model, tested against Chong & Kleeman and the Monte Carlo).
+    for (let i = 1; i < segs.length; i++) {
+      if (segs[i].line === best.line || segs[i].kind === 'mark') continue;
+      const other = propagateRun(segs, before.setup.noise, 120, 'clockwise', { zeroBefore: new Set([segs[i]]) }).bySegment.get(last)!.ellipse95.a;
+      assert.ok(other >= best.after - 1e-9, `line ${segs[i].line + 1}: ${other} < ${best.after}`);
+    }
+    assert.ok(best.after < best.before - 1);
+    assert.match(best.fix.title, /^Insert `reset yaw` before line 9: the run ends within \d+ mm instead of \d+ mm/);
+    // The proof: applied, re-checked, every motion ends where it did (the later targets are rewritten) and no new error.
+    const proof = proveFix(text, before, best.fix);
+    assert.ok(proof.ok, proof.reason);
+    // The square ends facing heading 0, where the earlier reset zeroed too: the later targets read the same.
+    assert.match(proof.text, /square front\nreset yaw\ndrive -300\nturn 90 by gyro\ndrive 800 hold 90\nturn to 0 by gyro/);
+    const after = checkPlan(proof.text);
+    const spreadAfter = after.runs[0].segments[after.runs[0].segments.length - 1].spread!.ellipse95.a;
+    // Within 0.01 mm: the re-checked plan times its motions afresh (the drift grows with time).
+    assert.ok(Math.abs(spreadAfter - best.after) < 0.01, `${spreadAfter} vs ${best.after}`);
+  });
+
+  it('offers nothing where no reset helps (no gyro motion)', () => {
+    const text = ['wheel 56 mm', 'track 120 mm', 'start (300, 300) heading 0', 'drive 500', 'turn 90', 'drive 300'].join('\n');
+    assert.equal(bestReset(checkPlan(text), 0, text), undefined);
+  });
+});
+
 describe('fewestResets', () => {
+  it('among equally few resets, prefers the placement that leaves the smaller spread at the run\'s end', () => {
+    // One reset anywhere from after the first turn to before the last removes the crossing (readings 90, 135, 180).
+    // The linear model (spread/run.ts, tested against Chong & Kleeman and the Monte Carlo) judges each placement;
+    // the fix must pick the least, not the earliest.
+    const text = ['wheel 56 mm', 'track 120 mm', 'field 2000 by 2000', 'start (300, 1000) heading 0', 'turn 90 by gyro', 'drive 1000',
+      'square front', 'drive -300', 'turn 45 by gyro', 'drive 200', 'turn 45 by gyro', 'drive 300'].join('\n');
+    const before = checkPlan(text);
+    const fix = fewestResets(before, text)!;
+    assert.equal(insertedResets(fix.edits), 1);
+    const segs = before.runs[0].segments;
+    const last = segs[segs.length - 1];
+    const spreadWith = (i: number) => propagateRun(segs, before.setup.noise, 120, 'clockwise', { zeroBefore: new Set([segs[i]]) }).bySegment.get(last)!.ellipse95.a;
+    // The placements that remove the crossing: before each motion after the first turn, up to the last turn.
+    const feasible = segs.map((_, i) => i).filter((i) => i >= 2 && i <= segs.length - 2);
+    const best = feasible.reduce((a, b) => (spreadWith(b) < spreadWith(a) ? b : a));
+    assert.equal(fix.edits[0].range.start.line, segs[best].line);
+    assert.ok(spreadWith(best) < spreadWith(feasible[0]) - 1, 'the earliest placement is worse here');
+    const after = checkPlan(applyEdits(text, fix.edits));
+    assert.equal(crossings(after), 0);
+  });
+
   it('offers nothing when nothing crosses', () => {
     assert.equal(fewestResets(checkPlan([...header, 'turn 90 by gyro', 'turn 80 by gyro'].join('\n'))), undefined);
   });

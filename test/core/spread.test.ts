@@ -205,6 +205,62 @@ describe('spread: the linear model against the Monte Carlo', () => {
   });
 });
 
+describe('spread: the Monte Carlo with the controller simulation', () => {
+  it('simulates every sampled run: its mean is the predicted end, its variances the linear model\'s (3 σ), for small noise', () => {
+    // The same sampling errors as above; the sampled runs now go through the controllers (motor lag 30 ms, a 10 ms
+    // loop, gyro turns that stop in their band, a held drive, a square), so they scatter about the predicted ends.
+    const noise = { drive: 0.005, turn: 0.005, gyro: 0.5, drift: 0.5 / 60 };
+    const lines = ['wheel 56 mm', 'track 120 mm', 'motor 600 deg/s lag 30 ms', 'field 3000 by 3000', 'start (800, 600) heading 0', 'drive 600 speed 40%',
+      'turn to 90 by gyro speed 30% min 8% stop 3 deg', 'drive 400 hold 90 speed 40%', 'turn 45 by gyro speed 30% min 8% stop 3 deg', 'reset yaw',
+      'drive 300 speed 40%', 'turn -45 by gyro speed 30% min 8% stop 3 deg', 'square front speed 30%', 'drive -300 speed 40%', 'turn 30 speed 30%'];
+    const r = checkPlan(lines.join('\n'));
+    const segs = r.runs[0].segments;
+    assert.ok(segs.slice(1).every((s) => s.predicted), 'every motion is predicted');
+    const N = 3000;
+    const samples = sampleRun(segs, noise, 120, 'clockwise', N, 99);
+    const linear = propagateRun(segs, noise, 120, 'clockwise').bySegment;
+    let afterHold = false;
+    for (let i = 1; i < segs.length; i++) {
+      const { mean, cov } = sampleStats(samples, i);
+      const lin = linear.get(segs[i])!.cov;
+      const end = segs[i].predicted!.end;
+      for (const [k, predicted] of [[0, end.x], [1, end.y], [2, end.heading]] as const) {
+        // A mean's sampling error is σ/√N. Beyond it the controllers are a little nonlinear (a turn that starts a
+        // little off stops a little differently in its band, which a long drive carries sideways): 0.12 σ and 0.1°,
+        // common practice, no published source.
+        const sd = Math.sqrt(lin[k][k]);
+        const tol = 3 * sd / Math.sqrt(N) + (k === 2 ? 0.1 : 0.12 * sd + 0.3);
+        assert.ok(Math.abs(mean[k] - predicted) <= tol, `line ${segs[i].line + 1} mean ${k}: ${mean[k]} vs predicted ${predicted} (± ${tol})`);
+      }
+      if (segs[i].kind === 'drive' && segs[i].sensing === 'gyro') afterHold = true;
+      for (let a = 0; a < 3; a++) {
+        for (let b = a; b < 3; b++) {
+          // The linear model takes a held drive onto its heading at once; the simulated one steers there over some
+          // distance, which ties its sideways error to its heading's: its covariances (off the diagonal) are left out.
+          if (a !== b && afterHold) continue;
+          // A covariance's sampling sd: √((σa²σb² + σab²)/N); 6 % more for the controllers' nonlinearity.
+          const tol = 3 * Math.sqrt((lin[a][a] * lin[b][b] + lin[a][b] ** 2) / N) + 0.06 * Math.sqrt(lin[a][a] * lin[b][b]) + 1e-9;
+          assert.ok(Math.abs(cov[a][b] - lin[a][b]) <= tol, `line ${segs[i].line + 1} cov[${a}][${b}]: sampled ${cov[a][b]} vs linear ${lin[a][b]} (± ${tol})`);
+        }
+      }
+    }
+  });
+
+  it('a sampled run whose turn never ends stays where it stopped, and the sampling repeats with its seed', () => {
+    // A gyro turn whose `min` is under the stall power stalls (robot model, section 2): the rest of that run never happens.
+    const text = ['wheel 56 mm', 'track 120 mm', 'motor 600 deg/s lag 30 ms stall 12%', 'start (500, 500) heading 0', 'turn 90 by gyro min 5% stop 1 deg', 'drive 300'].join('\n');
+    const r = checkPlan(text);
+    const segs = r.runs[0].segments;
+    const a = sampleRun(segs, r.setup.noise, 120, 'clockwise', 50, 3);
+    const b = sampleRun(segs, r.setup.noise, 120, 'clockwise', 50, 3);
+    assert.deepEqual(Array.from(a.x[2]), Array.from(b.x[2]));
+    for (let s = 0; s < 50; s++) {
+      assert.equal(a.x[2][s], a.x[1][s]);
+      assert.equal(a.y[2][s], a.y[1][s]);
+    }
+  });
+});
+
 describe('spread: what a reset does', () => {
   it('the hover of a reset compares the spread at the run\'s end with and without it', () => {
     // Every turn zeroed versus one reference (the rule the tests above check): the hover shows the two figures side by side.

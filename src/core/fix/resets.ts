@@ -5,6 +5,12 @@ import type { CheckResult, Fix, Segment, TextEdit } from '../types';
 import { wrapReading } from '../solve/frame';
 import { motionStatements, readingItems, replay, replayKeepsPath } from './replay';
 import { insertLinesBefore, lineEndOf, writeNumber } from './text';
+import { propagateRun } from '../spread/run';
+
+/** Runs up to this long have their equally short placements compared by spread (the comparison is quadratic). */
+const TIE_BREAK_MAX_SEGMENTS = 400;
+/** At most this many placements are compared. */
+const TIE_BREAK_MAX = 64;
 
 /** The title the editor's source action and the docs use. */
 export const FEWEST_RESETS_TITLE = 'Insert the fewest yaw resets that remove the wrap crossings';
@@ -85,7 +91,65 @@ export function fewestResets(result: CheckResult, text?: string): Fix | undefine
       if (cost[n] === Infinity) return undefined;
       const chosen: number[] = [];
       for (let q = prev[n]; q > 0; q = prev[q]) if (!mandatory.has(q)) chosen.push(q);
-      return chosen.reverse();
+      chosen.reverse();
+      // Among equally few resets, the placement that leaves the smaller spread at the run's end.
+      return chosen.length > 0 && n <= TIE_BREAK_MAX_SEGMENTS ? leastSpread(chosen, reachOf) : chosen;
+    };
+    /**
+     * Every placement with as few resets as `chosen` (at most TIE_BREAK_MAX
+     * of them), judged by the 95 % oval at the run's end (the linear model of
+     * spread/run.ts with the resets in place): the smallest wins, the first
+     * found (the earliest resets) among equals.
+     */
+    const leastSpread = (chosen: number[], reachOf: (p: number) => number): number[] => {
+      const track = result.setup.robot.effectiveTrack ?? result.setup.robot.track;
+      if (track === undefined || !(track > 0)) return chosen;
+      const n = segs.length;
+      const reach = new Array<number>(n);
+      for (let p = 0; p < n; p++) reach[p] = p === 0 || segs[p].kind !== 'start' ? reachOf(p) : p;
+      // The fewest new resets from a zero at p to the run's end (Infinity: none will do).
+      const rest = new Array<number>(n + 1).fill(Infinity);
+      rest[n] = 0;
+      for (let p = n - 1; p >= 0; p--) {
+        if (p > 0 && segs[p].kind === 'start') continue;
+        for (let q = p + 1; q <= Math.min(reach[p], n); q++) {
+          const c = q === n ? 0 : (mandatory.has(q) ? 0 : 1) + rest[q];
+          if (c < rest[p]) rest[p] = c;
+          if (mandatory.has(q)) break; // an existing zero ends every stretch
+        }
+      }
+      if (rest[0] !== chosen.length) return chosen;
+      const placements: number[][] = [];
+      const walk = (p: number, left: number, picked: number[]): void => {
+        if (placements.length >= TIE_BREAK_MAX) return;
+        for (let q = p + 1; q <= Math.min(reach[p], n); q++) {
+          if (q === n) {
+            if (left === 0) placements.push(picked);
+            return;
+          }
+          const step = mandatory.has(q) ? 0 : 1;
+          if (step + rest[q] === left) walk(q, left - step, step ? [...picked, q] : picked);
+          if (mandatory.has(q)) return;
+        }
+      };
+      walk(0, chosen.length, []);
+      if (placements.length < 2) return chosen;
+      const last = segs[n - 1];
+      const spreadWith = (placement: number[]): number => {
+        const zeroBefore = new Set(placement.map((p) => segs[p]));
+        const sp = propagateRun(segs, result.setup.noise, track, result.setup.turns, { zeroBefore }).bySegment.get(last);
+        return sp ? sp.ellipse95.a : Infinity;
+      };
+      let best = chosen;
+      let bestSpread = spreadWith(chosen);
+      for (const placement of placements) {
+        const s = spreadWith(placement);
+        if (s < bestSpread - 1e-9) {
+          best = placement;
+          bestSpread = s;
+        }
+      }
+      return best;
     };
     // Every gyro target in range; failing that, leave out the turns that no
     // reset of their own can help (their fix is an encoder turn) and accept

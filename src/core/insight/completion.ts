@@ -31,7 +31,7 @@ const VALUE_UNITS: Record<string, readonly string[]> = {
   field: ['length'], grid: ['length'], radius: ['length'], drive: ['length'], arc: ['length'], within: ['length'],
   turn: ['angle'], to: ['angle', 'length'], hold: ['angle'], stop: ['angle'], heading: ['angle'], range: ['angle'],
   wait: ['time'], limit: ['time'], lag: ['time'], sample: ['time'], delay: ['time'],
-  speed: ['fraction', 'speed'], min: ['fraction'], ratio: ['fraction'], stall: ['fraction'],
+  speed: ['fraction', 'speed'], min: ['fraction'], ratio: ['fraction'], stall: ['fraction'], level: ['fraction'], across: ['length'],
   // Plain numbers: no unit fits (and the statement's own unit must not be offered).
   mismatch: [], scale: [],
   gyro: ['angle'], drift: ['angular speed'],

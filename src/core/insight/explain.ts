@@ -77,5 +77,9 @@ export const WORD_EXPLANATIONS: Record<string, Explain> = {
     return '**by gyro**: turn until the yaw sensor reads the target. Mind the wrap point of the sensor\'s range.';
   },
   encoders: () => '**by encoders**: turn each wheel by computed degrees; the yaw sensor is not used.',
-  square: () => '**square**: drive until the front (or back) meets a wall, and end square to it.',
+  square: (_r, s) => s.kind === 'noise'
+    ? '**noise square**: the spread (standard deviation) of the heading after a `square` (about 0.5° for a flat bumper); `across` gives the spread of the position across the wall (about 1 mm).'
+    : '**square**: drive until the front (or back) meets a wall, and end square to it.',
+  across: () => '**across**: after a `square`, the spread (standard deviation) of the robot\'s position across the wall (about 1 mm).',
+  level: () => '**level**: the share of runs that must meet this mark (95 % when absent): Veer warns (`miss`) when fewer would, e.g. `level 80%` for a mark that may fail now and then.',
 };

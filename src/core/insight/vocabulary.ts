@@ -46,7 +46,7 @@ export const STATEMENTS: StatementWords[] = [
   { keyword: 'reset yaw', group: 'motion', summary: 'the yaw sensor reads 0 from here on', options: [] },
   { keyword: 'square', group: 'motion', summary: 'drive until an edge meets a wall, ending square to it', options: ['speed'], firstWords: ['front', 'back'] },
   { keyword: 'wait', group: 'motion', summary: 'stand still for a time', options: [] },
-  { keyword: 'mark', group: 'motion', summary: 'a named checkpoint', options: ['at', 'heading', 'within', 'in'] },
+  { keyword: 'mark', group: 'motion', summary: 'a named checkpoint', options: ['at', 'heading', 'within', 'in', 'level'] },
 ];
 
 /** Options of which only one may be written on a line (a turn's shape). */

@@ -4,7 +4,10 @@
 // yaw reading, and the wheels follow through their lag (exact zero-order-hold
 // steps, see plant.ts).
 import type { TurnDirection } from '../types';
-import { wrapReading } from '../solve/frame';
+import { wrapReading as wrapReadingOf } from '../solve/frame';
+
+/** Bound once: the hot loops call it every sample (a module's live binding can cost a lookup per call). */
+const wrapReading = wrapReadingOf;
 
 /** Simulated time after which a motion is cut off and reported (the robot model's 20 s). */
 export const MOTION_CAP_S = 20;
@@ -49,10 +52,15 @@ export interface SimState {
   /** Headings at past sample times, for a delayed reading (kept only with a delay). */
   histT: number[];
   histH: number[];
+  /** sin and cos of the heading `cachedH` (radians): kept up to date by the steps, worked out again when `h` was set otherwise. */
+  cachedH: number;
+  sinH: number;
+  cosH: number;
+  turnsSinceExact: number;
 }
 
 export function restState(x: number, y: number, heading: number, t = 0): SimState {
-  return { x, y, h: heading, vL: 0, vR: 0, t, zero: heading, histT: [], histH: [] };
+  return { x, y, h: heading, vL: 0, vR: 0, t, zero: heading, histT: [], histH: [], cachedH: NaN, sinH: 0, cosH: 1, turnsSinceExact: 0 };
 }
 
 const NO_HISTORY: number[] = [];
@@ -61,6 +69,7 @@ export function copyState(s: SimState): SimState {
   return {
     x: s.x, y: s.y, h: s.h, vL: s.vL, vR: s.vR, t: s.t, zero: s.zero,
     histT: s.histT.length ? s.histT.slice() : NO_HISTORY, histH: s.histH.length ? s.histH.slice() : NO_HISTORY,
+    cachedH: s.cachedH, sinH: s.sinH, cosH: s.cosH, turnsSinceExact: s.turnsSinceExact,
   };
 }
 
@@ -200,15 +209,37 @@ function advance(s: SimState, r: SimRobot, uL: number, uR: number, dt: number, o
   const sign = r.turns === 'clockwise' ? 1 : -1;
   const dTheta = (sign * (sL - sR)) / r.track;
   const ds = (sL + sR) / 2;
+  const half = dTheta / 2;
+  const h2 = half * half;
+  if (s.cachedH !== s.h) {
+    s.sinH = Math.sin(s.h * RAD);
+    s.cosH = Math.cos(s.h * RAD);
+  }
+  // sin and cos of half the turn, and sin(x)/x, by their series for the small turns of one sample (the next
+  // terms are below 1e-12 there), exactly otherwise.
+  const small = h2 < 1e-2;
+  const sinHalf = small ? half * (1 - (h2 / 6) * (1 - (h2 / 20) * (1 - h2 / 42))) : Math.sin(half);
+  const cosHalf = small ? 1 - (h2 / 2) * (1 - (h2 / 12) * (1 - (h2 / 30) * (1 - h2 / 56))) : Math.cos(half);
+  // The mean heading's sin and cos: the heading's, turned by half the step.
+  const sinMid = s.sinH * cosHalf + s.cosH * sinHalf;
+  const cosMid = s.cosH * cosHalf - s.sinH * sinHalf;
   if (ds !== 0) {
     // Along the chord of the arc, at the mean heading.
-    const half = dTheta / 2;
-    const chord = Math.abs(half) < 1e-9 ? ds : (ds * Math.sin(half)) / half;
-    const mid = s.h * RAD + half;
-    s.x += sign * Math.sin(mid) * chord;
-    s.y += Math.cos(mid) * chord;
+    const chord = half === 0 ? ds : (ds * sinHalf) / half;
+    s.x += sign * sinMid * chord;
+    s.y += cosMid * chord;
   }
   s.h += dTheta / RAD;
+  // Turned by the other half; worked out afresh now and then so that rounding cannot pile up.
+  if (small && ++s.turnsSinceExact < 64) {
+    s.sinH = sinMid * cosHalf + cosMid * sinHalf;
+    s.cosH = cosMid * cosHalf - sinMid * sinHalf;
+  } else {
+    s.sinH = Math.sin(s.h * RAD);
+    s.cosH = Math.cos(s.h * RAD);
+    s.turnsSinceExact = 0;
+  }
+  s.cachedH = s.h;
   s.t += dt;
   out.sL = sL;
   out.sR = sR;
@@ -398,6 +429,9 @@ function runGyroTurn(s: SimState, r: SimRobot, m: GyroTurnMotion, trace?: TraceS
   let peak = 0;
   const first = readingOf(s, r);
   const span = m.target - first;
+  // Long steps need a reading without delay (the delayed reading needs every sample's heading), no trace (one row
+  // per sample), and an arc that bulges at most STEADY_BULGE off its chord where the poses are kept.
+  const longTurns = !m.ramp && !trace && r.delay <= 0 && (!poses || arcBulge(r, m) <= STEADY_BULGE);
   for (;;) {
     const reading = readingOf(s, r);
     const e = m.target - reading;
@@ -416,10 +450,41 @@ function runGyroTurn(s: SimState, r: SimRobot, m: GyroTurnMotion, trace?: TraceS
       return { finished: false, stalled: true, capped: false, peakRate: peak, finalError: e };
     }
     remember(s, r);
+    // Far from the target the power is held at its top (saturated): ENCODER_STEPS samples are then one exact step
+    // of the wheels, and one arc while their speeds stand in the ratio of their commands. The step is kept when
+    // the error is still saturated at its end (it falls monotonically in between) and the reading has not wrapped.
+    if (longTurns && u === m.power && m.gain * Math.abs(e) >= m.power && steady(s, uL * r.fullSpeed, uR * r.fullSpeed * r.mismatch)) {
+      const x = s.x, y = s.y, h = s.h, vL = s.vL, vR = s.vR, t = s.t;
+      advance(s, r, uL, uR, r.longStep, out, false, r.decayLong);
+      const after = readingOf(s, r);
+      const eAfter = m.target - after;
+      if (Math.sign(eAfter) === dir && m.gain * Math.abs(eAfter) >= m.power && Math.abs(after - reading - r.scale * (s.h - h)) < 1e-6) {
+        peak = Math.max(peak, rate(s, r));
+        poses?.pose(s.t, s.x, s.y, s.h);
+        continue;
+      }
+      s.x = x; s.y = y; s.h = h; s.vL = vL; s.vR = vR; s.t = t;
+    }
     advance(s, r, uL, uR, r.sample, out);
     peak = Math.max(peak, rate(s, r));
     poses?.pose(s.t, s.x, s.y, s.h);
   }
+}
+
+/** How far a long step of a turn at full power bulges off its chord, mm (0 for a spin). */
+function arcBulge(r: SimRobot, m: GyroTurnMotion): number {
+  const cL = m.shareL * m.power * r.fullSpeed;
+  const cR = m.shareR * m.power * r.fullSpeed * r.mismatch;
+  const turnRate = Math.abs(cL - cR) / r.track;
+  const radius = Math.abs(cL + cR) / 2 / (turnRate || 1);
+  const angle = turnRate * r.longStep;
+  return radius * (1 - Math.cos(angle / 2));
+}
+
+/** Whether the wheels' speeds stand in the ratio of their commands cL, cR (mm/s), each turning its command's way. */
+function steady(s: SimState, cL: number, cR: number): boolean {
+  const scale = Math.abs(cL) + Math.abs(cR);
+  return scale > 0 && Math.abs(s.vL * cR - s.vR * cL) <= STEADY_RATIO * scale * scale && s.vL * cL >= 0 && s.vR * cR >= 0;
 }
 
 function runHold(s: SimState, r: SimRobot, m: HoldDriveMotion, trace?: TraceSink, poses?: PoseSink): MotionOutcome {
@@ -430,29 +495,37 @@ function runHold(s: SimState, r: SimRobot, m: HoldDriveMotion, trace?: TraceSink
   const goal = Math.abs(m.distance);
   const back = m.distance < 0 ? -1 : 1;
   const floor = Math.min(RAMP_FLOOR, m.power);
+  // Locals, so that the loop reads no field of the motion (whose shape varies).
+  const power = m.power;
+  const target = m.target;
+  const gain = m.gain;
+  const accel = m.accel !== undefined && m.accel > 0 ? m.accel : 0;
+  const full = r.fullSpeed;
   let counted = 0; // mean of the two encoders, along the drive's direction
   while (counted < goal - 1e-9) {
     if (!(s.t - start < MOTION_CAP_S)) return { finished: false, stalled: false, capped: true, peakRate: peak };
     const reading = readingOf(s, r);
-    const e = m.target - reading;
-    let p = m.power;
-    if (m.accel !== undefined && m.accel > 0) {
-      const v = Math.min(m.power * r.fullSpeed, m.accel * (s.t - start) + floor * r.fullSpeed, Math.sqrt(2 * m.accel * Math.max(0, goal - counted)) + floor * r.fullSpeed);
-      p = v / r.fullSpeed;
+    const e = target - reading;
+    let p = power;
+    if (accel > 0) {
+      const v = Math.min(power * full, accel * (s.t - start) + floor * full, Math.sqrt(2 * accel * Math.max(0, goal - counted)) + floor * full);
+      p = v / full;
     }
-    const steer = sign * m.gain * e;
+    const steer = sign * gain * e;
     const uL = clamp1(back * p + steer);
     const uR = clamp1(back * p - steer);
-    if (trace) trace.row(s, reading, m.target, uL, uR);
-    if (effective(uL, r.stall) === 0 && effective(uR, r.stall) === 0 && Math.abs(s.vL) < REST_SPEED && Math.abs(s.vR) < REST_SPEED) {
+    if (trace) trace.row(s, reading, target, uL, uR);
+    const eL = effective(uL, r.stall);
+    const eR = effective(uR, r.stall);
+    if (eL === 0 && eR === 0 && Math.abs(s.vL) < REST_SPEED && Math.abs(s.vR) < REST_SPEED) {
       return { finished: false, stalled: true, capped: false, peakRate: peak };
     }
     // Would the encoders' mean pass the distance within this sample? Find when.
-    const cL = effective(uL, r.stall) * r.fullSpeed;
-    const cR = effective(uR, r.stall) * r.fullSpeed * r.mismatch;
+    const cL = eL * full;
+    const cR = eR * full * r.mismatch;
     let dt = r.sample;
     const need = goal - counted;
-    if (meanTravel(s, r, cL, cR, back, dt, decayOf(r, dt)) >= need) {
+    if (meanTravel(s, r, cL, cR, back, dt, r.decay) >= need) {
       let lo = 0;
       let hi = dt;
       for (let k = 0; k < 30; k++) {
@@ -463,7 +536,7 @@ function runHold(s: SimState, r: SimRobot, m: HoldDriveMotion, trace?: TraceSink
       dt = hi;
     }
     remember(s, r);
-    advance(s, r, uL, uR, dt, out);
+    advance(s, r, uL, uR, dt, out, false, dt === r.sample ? r.decay : -1);
     counted += back * (out.sL + out.sR / r.mismatch) / 2;
     peak = Math.max(peak, rate(s, r));
     poses?.pose(s.t, s.x, s.y, s.h);

@@ -22,6 +22,8 @@ export interface SimRecord {
   state: SimState;
   motion: SimMotion;
   robot: SimRobot;
+  /** A square: its drive to the wall and where it ends, from another start (the sampled runs). */
+  again?: (s: SimState) => { motion: SimMotion; end: Pose } | undefined;
 }
 
 const records = new WeakMap<Segment, SimRecord>();
@@ -128,7 +130,8 @@ export function predictRun(
       const squared = squareFrom(state, seg, m.stmt as SquareStmt, setup, footprint, walls);
       if (!squared) return { events };
       motion = squared.motion;
-      records.set(seg, { state: copyState(state), motion, robot });
+      const stmt = m.stmt as SquareStmt;
+      records.set(seg, { state: copyState(state), motion, robot, again: (st) => squareFrom(st, seg, stmt, setup, footprint, walls) });
       outcome = simulateMotion(state, robot, motion, undefined, bounds);
       if (outcome.finished) {
         // Pressed against the wall, the robot turns square to it and stops.

@@ -15,7 +15,7 @@ import { markProbability } from '../spread/gaussian';
 import { squareUp, wallsOf } from './square';
 import { sweepPiece, overlapsAt, type SweepHit } from './sweep';
 import { fmt } from '../units/evaluate';
-import { predictedPath, predictRun, SIMULATION_BUDGET_S, type RunPrediction, type SimBudget } from '../sim/run';
+import { DIFFERS_MM, predictedPath, predictRun, SIMULATION_BUDGET_S, type RunPrediction, type SimBudget } from '../sim/run';
 import { tuneGyroTurn, tuningFix, unstallGyroTurn } from '../sim/tune';
 
 export type EvaluatedMotion =
@@ -24,7 +24,7 @@ export type EvaluatedMotion =
   | { stmt: TurnStmt; angle?: number; to?: number; radius?: number; ratio?: number; speed?: number; min?: number; gain?: number; stop?: number }
   | { stmt: SquareStmt; speed?: number }
   | { stmt: WaitStmt; time?: number }
-  | { stmt: MarkStmt; at?: Point; heading?: number; within?: number }
+  | { stmt: MarkStmt; at?: Point; heading?: number; within?: number; level?: number }
   | { stmt: ResetYawStmt };
 
 export interface RunInput {
@@ -332,17 +332,25 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         const target = seg.markTarget;
         if (seg.kind !== 'mark' || !seg.spread || !m || !target) continue;
         const mm = m as Extract<EvaluatedMotion, { stmt: MarkStmt }>;
-        seg.hitProbability = markProbability(target, seg.end, { xx: seg.spread.cov[0][0], xy: seg.spread.cov[0][1], yy: seg.spread.cov[1][1] });
-        if (seg.hitProbability >= MARK_LEVEL) continue;
+        // About where the robot is predicted to end (the controller simulation), where there is a prediction: the
+        // spread is of the real robot, and the sampled runs (which simulate it) scatter about that pose.
+        const center = seg.predicted && Number.isFinite(seg.predicted.end.x) ? seg.predicted.end : seg.end;
+        seg.hitProbability = markProbability(target, center, { xx: seg.spread.cov[0][0], xy: seg.spread.cov[0][1], yy: seg.spread.cov[1][1] });
+        const level = mm.level !== undefined && mm.level >= 0.5 && mm.level < 1 ? mm.level : MARK_LEVEL;
+        if (seg.hitProbability >= level) continue;
         // The planned pose itself missing is reported already; this is the spread making it a gamble.
         if (diagnostics.some((d) => d.code === 'miss' && d.range.start.line === seg.line)) continue;
         const share = shares(segments, seg, setup.noise, width, turns);
         const top = (Object.keys(share) as SpreadSource[]).reduce((a, b) => (share[b] > share[a] ? b : a));
         const lastReset = [...segments.slice(0, segments.indexOf(seg))].reverse().find(zeroes);
         const where = target.kind === 'zone' ? `inside the zone "${target.name}"` : `within ${fmt(target.within, 0)} mm of (${fmt(target.at.x, 0)}, ${fmt(target.at.y, 0)})`;
+        const off = Math.hypot(center.x - seg.end.x, center.y - seg.end.y);
+        const predictedOff = off > DIFFERS_MM
+          ? ` the robot is predicted to end ${fmt(off, 0)} mm from the planned pose (motor lag and the control loop: see the dotted predicted path), and`
+          : '';
         report(mm.stmt.range, 'warning', 'miss',
-          `Only ${fmt(seg.hitProbability * 100, 0)} % of runs end ${where} (${fmt(MARK_LEVEL * 100, 0)} % wanted): the planned pose meets the mark, but where the robot really ends spreads over an oval of ${fmt(seg.spread.ellipse95.a, 0)} × ${fmt(seg.spread.ellipse95.b, 0)} mm (19 runs in 20). Most of it comes from ${SOURCE_WORDS[top](setup.noise, lastReset ? lastReset.line + 1 : undefined)}.`,
-          { at: { x: seg.end.x, y: seg.end.y } });
+          `Only ${fmt(seg.hitProbability * 100, 0)} % of runs end ${where} (${fmt(level * 100, 0)} % wanted): the planned pose meets the mark, but${predictedOff} where the robot really ends spreads over an oval of ${fmt(seg.spread.ellipse95.a, 0)} × ${fmt(seg.spread.ellipse95.b, 0)} mm (19 runs in 20). Most of it comes from ${SOURCE_WORDS[top](setup.noise, lastReset ? lastReset.line + 1 : undefined)}.`,
+          { at: { x: center.x, y: center.y } });
       }
     }
 
@@ -666,6 +674,11 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
 
     function checkMark(mm: Extract<EvaluatedMotion, { stmt: MarkStmt }>, p: Pose) {
       const s = mm.stmt;
+      if (mm.level !== undefined && s.level && !(mm.level >= 0.5 && mm.level < 1)) {
+        report(s.level.range, 'error', 'setup', mm.level >= 1
+          ? `a level of ${fmt(mm.level * 100, 1)} % can never be met: some runs always spread wider. It is the share of runs that must meet the mark; 95 % is usual, e.g. \`level 95%\`.`
+          : `a level of ${fmt(mm.level * 100, 1)} % asks for a mark that most runs miss: it is the share of runs that must meet the mark, from 50 % up (95 % is usual), e.g. \`level 90%\`.`);
+      }
       if (mm.within !== undefined && mm.within <= 0) report(s.optionRanges.within ?? s.range, 'error', 'setup', `a mark allows a miss of more than 0 mm: \`within ${fmt(mm.within)}\` could never be met. Use e.g. \`within 20 mm\`.`);
       const within = mm.within ?? MOTION_DEFAULTS.markWithin;
       if (mm.at) {

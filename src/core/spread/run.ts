@@ -87,7 +87,7 @@ export interface RunSpread {
  * reference.
  */
 export function propagateRun(segments: readonly Segment[], noise: NoiseModel, track: number, turns: TurnDirection,
-  options: { wheel?: number; squareSpread?: boolean; without?: Segment } = {}): RunSpread {
+  options: { wheel?: number; squareSpread?: boolean; without?: Segment; zeroBefore?: ReadonlySet<Segment> } = {}): RunSpread {
   const wheel = options.wheel ?? noise.wheel ?? SPREAD_DEFAULTS.wheel;
   const squareSpread = options.squareSpread ?? true;
   const P = new Cov();
@@ -109,7 +109,7 @@ export function propagateRun(segments: readonly Segment[], noise: NoiseModel, tr
     if (!started) continue;
     // The sensor's reference drifts while time passes.
     if (seg.duration > 0 && Number.isFinite(seg.duration)) P.applyOne(REF, DRIFT, seg.duration);
-    if (zeroes(seg) && seg !== options.without) P.copy(REF, H);
+    if ((zeroes(seg) && seg !== options.without) || options.zeroBefore?.has(seg)) P.copy(REF, H);
     const gyro = seg.sensing === 'gyro';
     if (seg.kind === 'drive' && gyro) {
       // The hold steers the heading to the reference's error (and the sensor's noise) at once.
@@ -123,10 +123,10 @@ export function propagateRun(segments: readonly Segment[], noise: NoiseModel, tr
     // (a hold keeps correcting it all along the drive).
     if (gyro && (seg.kind === 'turn' || seg.kind === 'drive')) P.copy(H, REF, gyroVar);
     if (seg.kind === 'square') {
-      P.replace(H, squareSpread ? (SPREAD_DEFAULTS.squareHeading * RAD) ** 2 : 0);
+      P.replace(H, squareSpread ? ((noise.square ?? SPREAD_DEFAULTS.squareHeading) * RAD) ** 2 : 0);
       // The robot faces the wall: the error along its heading is the error across the wall.
       const h = compass(seg.end.heading);
-      P.replace(Math.abs(Math.sin(h)) > Math.abs(Math.cos(h)) ? X : Y, squareSpread ? SPREAD_DEFAULTS.squareAcross ** 2 : 0);
+      P.replace(Math.abs(Math.sin(h)) > Math.abs(Math.cos(h)) ? X : Y, squareSpread ? (noise.squareAcross ?? SPREAD_DEFAULTS.squareAcross) ** 2 : 0);
     }
     bySegment.set(seg, spreadOf(P, flip));
   }

@@ -5,6 +5,9 @@
 // (spread/run.ts) and gives the cloud of end points.
 import type { NoiseModel, PathPiece, Segment, TurnDirection } from '../types';
 import { SPREAD_DEFAULTS, zeroes } from './run';
+import { propagateTravel, ZERO_COV } from './propagate';
+import { simRecordOf, type SimRecord } from '../sim/run';
+import { restState, simulateMotion, type SimMotion, type SimRobot, type SimState } from '../sim/motion';
 
 const RAD = Math.PI / 180;
 /** Pieces of wheel travel (mm) each sampled with its own random error. */
@@ -44,9 +47,29 @@ export interface RunSamples {
 }
 
 /**
- * Samples `count` runs; `onProgress` is called now and then with the share done.
+ * Samples `count` runs; `onProgress` is called now and then with the share
+ * done. Where the check simulated the run (a robot with its motor), every
+ * sampled run is simulated too (the controllers, from where the previous
+ * motion really ended); otherwise the planned path is driven with its errors.
  */
 export function sampleRun(segments: readonly Segment[], noise: NoiseModel, track: number, turns: TurnDirection, count: number, seed: number,
+  onProgress?: (done: number) => void): RunSamples {
+  if (simulated(segments)) return sampleSimulated(segments, noise, track, turns, count, seed, onProgress);
+  return samplePlanned(segments, noise, track, turns, count, seed, onProgress);
+}
+
+/**
+ * Whether the check simulated the run: its first motion has a simulation
+ * record. (The prediction stops at a motion that never ends; so do the
+ * sampled runs.)
+ */
+function simulated(segments: readonly Segment[]): boolean {
+  const first = segments.find((seg) => seg.kind !== 'start' && seg.kind !== 'mark' && seg.kind !== 'reset');
+  return first !== undefined && simRecordOf(first) !== undefined;
+}
+
+/** The planned path driven with its errors (no controller simulation). */
+function samplePlanned(segments: readonly Segment[], noise: NoiseModel, track: number, turns: TurnDirection, count: number, seed: number,
   onProgress?: (done: number) => void): RunSamples {
   const flip = turns === 'clockwise' ? 1 : -1;
   const n = segments.length;
@@ -95,11 +118,11 @@ export function sampleRun(segments: readonly Segment[], noise: NoiseModel, track
         }
         if (gyro && (seg.kind === 'turn' || seg.kind === 'drive')) h = planned(seg.end.heading) + refErr + noise.gyro * RAD * gauss();
         if (seg.kind === 'square') {
-          h = planned(seg.end.heading) + SPREAD_DEFAULTS.squareHeading * RAD * gauss();
+          h = planned(seg.end.heading) + (noise.square ?? SPREAD_DEFAULTS.squareHeading) * RAD * gauss();
           // Flush against the wall: across it, the planned position and a small error.
           const across = Math.abs(Math.sin(h)) > Math.abs(Math.cos(h)) ? 'x' : 'y';
-          if (across === 'x') x = seg.end.x + SPREAD_DEFAULTS.squareAcross * gauss();
-          else y = seg.end.y + SPREAD_DEFAULTS.squareAcross * gauss();
+          if (across === 'x') x = seg.end.x + (noise.squareAcross ?? SPREAD_DEFAULTS.squareAcross) * gauss();
+          else y = seg.end.y + (noise.squareAcross ?? SPREAD_DEFAULTS.squareAcross) * gauss();
         }
       }
       out.x[i][s] = x;
@@ -165,4 +188,167 @@ export function sampleStats(s: RunSamples, i: number): { mean: [number, number, 
     return sum / (n - 1);
   }));
   return { mean, cov };
+}
+
+/**
+ * A segment's random wheel error as the lower triangle of its covariance's
+ * Cholesky factor (x, y, heading in mm and file degrees), from the planned
+ * travel in sub-steps: the sampled runs add L·z at the motion's end, which
+ * has the sub-stepped model's second moments (the cross-track growth along a
+ * long drive included). A gyro-steered motion's error moves it along its path only.
+ */
+function wheelFactor(seg: Segment, track: number, k: number, flip: number): Float64Array | undefined {
+  if (k <= 0 || !(seg.kind === 'drive' || seg.kind === 'turn' || seg.kind === 'square')) return undefined;
+  const steered = seg.sensing === 'gyro';
+  let c = ZERO_COV;
+  let along = { xx: 0, xy: 0, yy: 0 };
+  for (const piece of seg.path) {
+    const h0 = flip * piece.from.heading * RAD;
+    const { ds, dTheta } = pieceTravel(piece, flip);
+    const sL = ds + (dTheta * track) / 2;
+    const sR = ds - (dTheta * track) / 2;
+    if (steered) {
+      // Each wheel's error moves the midpoint by half of it, along the heading.
+      const q = (k * (Math.abs(sL) + Math.abs(sR))) / 4;
+      const m = h0 + dTheta / 2;
+      along = { xx: along.xx + q * Math.sin(m) ** 2, xy: along.xy + q * Math.sin(m) * Math.cos(m), yy: along.yy + q * Math.cos(m) ** 2 };
+    } else c = propagateTravel(c, h0, sL, sR, track, k, k);
+  }
+  const m = steered
+    ? [along.xx, along.xy, 0, along.xy, along.yy, 0, 0, 0, 0]
+    : [c.xx, c.xy, flip * c.xh / RAD, c.xy, c.yy, flip * c.yh / RAD, flip * c.xh / RAD, flip * c.yh / RAD, c.hh / (RAD * RAD)];
+  return cholesky3(m);
+}
+
+/** A piece's signed travel of the axle midpoint (mm) and its turn (compass radians). */
+function pieceTravel(piece: PathPiece, flip: number): { ds: number; dTheta: number } {
+  const h0 = flip * piece.from.heading * RAD;
+  if (piece.type === 'line') {
+    const len = Math.hypot(piece.to.x - piece.from.x, piece.to.y - piece.from.y);
+    return { ds: (piece.to.x - piece.from.x) * Math.sin(h0) + (piece.to.y - piece.from.y) * Math.cos(h0) >= 0 ? len : -len, dTheta: 0 };
+  }
+  const dTheta = flip * piece.turned * RAD;
+  const r = Math.hypot(piece.from.x - piece.center.x, piece.from.y - piece.center.y);
+  const mid = h0 + dTheta / 2;
+  return { ds: r * Math.abs(dTheta) * ((piece.to.x - piece.from.x) * Math.sin(mid) + (piece.to.y - piece.from.y) * Math.cos(mid) >= 0 ? 1 : -1), dTheta };
+}
+
+/** The lower-triangular L with L Lᵀ = m (3×3, row-major), zero columns where m is singular there. */
+function cholesky3(m: number[]): Float64Array {
+  const L = new Float64Array(9);
+  for (let i = 0; i < 3; i++) {
+    for (let j = 0; j <= i; j++) {
+      let sum = m[i * 3 + j];
+      for (let q = 0; q < j; q++) sum -= L[i * 3 + q] * L[j * 3 + q];
+      if (i === j) L[i * 3 + i] = sum > 1e-18 ? Math.sqrt(sum) : 0;
+      else L[i * 3 + j] = L[j * 3 + j] > 0 ? sum / L[j * 3 + j] : 0;
+    }
+  }
+  return L;
+}
+
+/** The error model applied to a simulated robot: its motions as the check simulated them, with the run's errors. */
+function sampleSimulated(segments: readonly Segment[], noise: NoiseModel, track: number, turns: TurnDirection, count: number, seed: number,
+  onProgress?: (done: number) => void): RunSamples {
+  const flip = turns === 'clockwise' ? 1 : -1;
+  const n = segments.length;
+  const out: RunSamples = {
+    x: segments.map(() => new Float64Array(count)), y: segments.map(() => new Float64Array(count)), heading: segments.map(() => new Float64Array(count)),
+  };
+  const gauss = normalSource(seed);
+  const k = noise.wheel ?? SPREAD_DEFAULTS.wheel;
+  const squareSd = noise.square ?? SPREAD_DEFAULTS.squareHeading;
+  const squareAcross = noise.squareAcross ?? SPREAD_DEFAULTS.squareAcross;
+  const records: (SimRecord | undefined)[] = segments.map((seg) => simRecordOf(seg));
+  const factors = segments.map((seg) => wheelFactor(seg, track, k, flip));
+  const base = records.find((r) => r)?.robot;
+  if (!base) return out;
+  const robot: SimRobot = { ...base };
+  for (let s = 0; s < count; s++) {
+    if (onProgress && s % 50 === 0) onProgress(s / count);
+    // Per-run constants: a wheel (1 + dist) times as large (its encoder's millimetres go further, at the same motor
+    // speed), a track (1 + trackScale) times the calibrated one, and the gyro's drift rate (degrees per second).
+    const dist = noise.drive * gauss();
+    robot.fullSpeed = base.fullSpeed * (1 + dist);
+    robot.track = base.track * (1 + noise.turn * gauss());
+    const drift = noise.drift * gauss();
+    let state: SimState | undefined;
+    let zeroAt = 0;
+    let zeroT = 0;
+    let stopped = false;
+    for (let i = 0; i < n; i++) {
+      const seg = segments[i];
+      if (seg.kind === 'start') {
+        state = restState(seg.start.x, seg.start.y, seg.start.heading);
+        zeroAt = state.h;
+        zeroT = 0;
+        stopped = false;
+      } else if (state && !stopped) {
+        if (zeroes(seg)) {
+          zeroAt = state.h;
+          zeroT = state.t;
+        }
+        const rec = records[i];
+        // A motion the prediction never reached (after one that never ends): the robot is still where it stopped.
+        if (!rec && seg.kind !== 'mark' && seg.kind !== 'reset') stopped = true;
+        if (rec) {
+          let motion: SimMotion = rec.motion;
+          let squaredEnd: { x: number; y: number; heading: number } | undefined;
+          const gyro = motion.kind === 'gyro-turn' || motion.kind === 'hold';
+          // The reading: scaled from the zero, with the drift since it and (in a gyro motion) the sensor's own error.
+          const offset = drift * (state.t - zeroT) + (gyro ? noise.gyro * gauss() : 0);
+          state.zero = zeroAt - offset / robot.scale;
+          if (rec.again) {
+            const again = rec.again(state);
+            if (!again) {
+              stopped = true;
+              record(out, i, s, state);
+              continue;
+            }
+            motion = again.motion;
+            squaredEnd = again.end;
+          }
+          // A gyro turn aims at the reading the prediction worked out (the targets table's yaw target): the
+          // sampled runs differ in where the reference and the sensor put the robot, as the error model says.
+          if (motion.kind === 'encoders' && dist !== 0) motion = { ...motion, left: motion.left * (1 + dist), right: motion.right * (1 + dist) };
+          else if (motion.kind === 'hold' && dist !== 0) motion = { ...motion, distance: motion.distance * (1 + dist) };
+          const outcome = simulateMotion(state, robot, motion);
+          // The wheels' random error over the motion.
+          const L = factors[i];
+          let dx = 0;
+          let dy = 0;
+          if (L) {
+            const z0 = gauss();
+            const z1 = gauss();
+            const z2 = gauss();
+            dx = L[0] * z0;
+            dy = L[3] * z0 + L[4] * z1;
+            state.h += L[6] * z0 + L[7] * z1 + L[8] * z2;
+          }
+          if (!outcome.finished) stopped = true; // it waits (or spins) for ever: the rest of the run never happens
+          if (squaredEnd && outcome.finished) {
+            // Flush against the wall and square to it: the square's own small errors replace the heading's and the
+            // position's across the wall; along the wall the robot keeps where it came (and its wheels' error).
+            state.h = squaredEnd.heading + squareSd * gauss();
+            const h = flip * squaredEnd.heading * RAD;
+            if (Math.abs(Math.sin(h)) > Math.abs(Math.cos(h))) { state.x = squaredEnd.x + squareAcross * gauss(); state.y = squaredEnd.y + dy; } else { state.y = squaredEnd.y + squareAcross * gauss(); state.x = squaredEnd.x + dx; }
+            state.vL = 0;
+            state.vR = 0;
+          } else {
+            state.x += dx;
+            state.y += dy;
+          }
+        }
+      }
+      if (state) record(out, i, s, state);
+    }
+  }
+  onProgress?.(1);
+  return out;
+}
+
+function record(out: RunSamples, i: number, s: number, state: SimState): void {
+  out.x[i][s] = state.x;
+  out.y[i][s] = state.y;
+  out.heading[i][s] = state.h;
 }

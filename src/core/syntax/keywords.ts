@@ -35,7 +35,7 @@ export const OPTIONS: Record<Statement['kind'], readonly string[]> = {
   box: ['to'],
   circle: ['radius'],
   zone: ['to'],
-  noise: ['drive', 'turn', 'gyro', 'drift', 'wheel'],
+  noise: ['drive', 'turn', 'gyro', 'drift', 'wheel', 'square', 'across'],
   gyro: ['sample', 'delay', 'scale'],
   limit: [],
   let: [],
@@ -46,7 +46,7 @@ export const OPTIONS: Record<Statement['kind'], readonly string[]> = {
   resetYaw: [],
   square: ['speed'],
   wait: [],
-  mark: ['at', 'heading', 'within', 'in'],
+  mark: ['at', 'heading', 'within', 'in', 'level'],
 };
 
 export const RESERVED_WORDS: ReadonlySet<string> = new Set([

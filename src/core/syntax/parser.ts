@@ -141,6 +141,7 @@ const MARK_OPTIONS: OptionSpecs = {
   heading: { value: EXPR, example: 'heading 90' },
   within: { value: EXPR, example: 'within 20 mm' },
   in: { value: { kind: 'string' }, example: 'in "dock"' },
+  level: { value: EXPR, example: 'level 90%' },
 };
 
 const NOISE_OPTIONS: OptionSpecs = {
@@ -149,6 +150,8 @@ const NOISE_OPTIONS: OptionSpecs = {
   gyro: { value: EXPR, example: 'gyro 1 deg' },
   drift: { value: EXPR, example: 'drift 0.5 deg/min' },
   wheel: { value: EXPR, example: 'wheel 0.01 mm' },
+  square: { value: EXPR, example: 'square 0.5 deg' },
+  across: { value: EXPR, example: 'square 0.5 deg across 1 mm' },
 };
 
 const SQUARE_OPTIONS: OptionSpecs = { speed: { value: EXPR, example: 'speed 30%' } };
@@ -403,7 +406,7 @@ class LineReader {
     this.optionWords = OPTIONS.noise;
     const options = this.options(NOISE_OPTIONS);
     const fields: StatementFields<NoiseStmt> = { kind: 'noise' };
-    copyExprs(fields, options, ['drive', 'turn', 'gyro', 'drift', 'wheel']);
+    copyExprs(fields, options, ['drive', 'turn', 'gyro', 'drift', 'wheel', 'square', 'across']);
     return this.finish<NoiseStmt>(keyword, keyword, fields);
   }
 
@@ -520,7 +523,7 @@ class LineReader {
     const at = options.get('at')?.point;
     const zone = options.get('in')?.string;
     if (at) fields.at = at;
-    copyExprs(fields, options, ['heading', 'within']);
+    copyExprs(fields, options, ['heading', 'within', 'level']);
     if (zone) fields.inZone = zone;
     return this.finish<MarkStmt>(keyword, keyword, fields);
   }
