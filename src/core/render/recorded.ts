@@ -46,7 +46,7 @@ export function drawRecorded(out: string[], view: View, overlay: RecordedOverlay
     const y = view.y(end.y);
     out.push(
       `<circle class="recorded-end" cx="${num(x)}" cy="${num(y)}" r="${num(3.5 * px)}" fill="currentColor"/>`,
-      `<text class="label recorded-label" x="${num(x - 6 * px)}" y="${num(y + 16 * px)}" font-size="${num(fontPx * px)}" text-anchor="end" fill="currentColor" stroke="none">recorded</text>\n`,
+      `<text class="label recorded-label" x="${num(x - 6 * px)}" y="${num(y + 28 * px)}" font-size="${num(fontPx * px)}" text-anchor="end" fill="currentColor" stroke="none">recorded</text>\n`,
     );
   }
   out.push('</g>\n');
