@@ -117,8 +117,8 @@ function restoredState(state: unknown): { uri: string; run: number; spread?: Spr
   return { uri: s.uri, run: typeof s.run === 'number' && Number.isInteger(s.run) ? s.run : -1, ...(spread ? { spread } : {}) };
 }
 
-/** How long the sampling command waits for the preview to say it drew the cloud, ms. */
-const CLOUD_SHOWN_TIMEOUT_MS = 15000;
+/** How long the sampling command waits for the preview to say it drew the cloud (a new webview loads first), ms. */
+const CLOUD_SHOWN_TIMEOUT_MS = 60000;
 
 /**
  * Hands a Monte Carlo cloud of `document` at `version` to the preview, which
@@ -181,9 +181,11 @@ class PathPreview implements vscode.Disposable {
   /** Where the drawing shows the 95 % ovals (the toolbar's choice). */
   spread: SpreadShown = 'marks';
   /** The last Monte Carlo cloud, for one version of one document: cleared by the next edit. */
-  private cloud: { uri: string; version: number; cloud: SpreadCloud } | undefined;
+  private cloud: { uri: string; version: number; cloud: SpreadCloud; id: number } | undefined;
+  /** Numbers the clouds, so the webview's word that it drew one is about that one. */
+  private cloudSerial = 0;
   /** Sampling commands waiting for the webview to draw their cloud. */
-  private cloudWaiters: { uri: string; version: number; resolve: (dots: number | undefined) => void }[] = [];
+  private cloudWaiters: { id: number; resolve: (dots: number | undefined) => void }[] = [];
 
   constructor(private readonly panel: vscode.WebviewPanel, mediaRoot: vscode.Uri) {
     panel.webview.html = previewHtml(panel.webview, mediaRoot);
@@ -259,11 +261,11 @@ class PathPreview implements vscode.Disposable {
 
   showCloud(document: vscode.TextDocument, version: number, cloud: SpreadCloud): Promise<number | undefined> {
     if (!this.isPreviewing(document.uri) || document.version !== version) return Promise.resolve(undefined);
-    const uri = document.uri.toString();
-    this.cloud = { uri, version, cloud };
+    const id = ++this.cloudSerial;
+    this.cloud = { uri: document.uri.toString(), version, cloud, id };
     return new Promise((resolve) => {
       const waiter = {
-        uri, version,
+        id,
         resolve: (dots: number | undefined) => {
           clearTimeout(timer);
           this.cloudWaiters = this.cloudWaiters.filter((w) => w !== waiter);
@@ -277,9 +279,9 @@ class PathPreview implements vscode.Disposable {
   }
 
   /** The cloud of this version of the document, if it has one; an older document version's cloud is dropped. */
-  private cloudFor(uri: string, version: number): SpreadCloud | undefined {
+  private cloudFor(uri: string, version: number): { cloud: SpreadCloud; id: number } | undefined {
     if (this.cloud && (this.cloud.uri !== uri || this.cloud.version < version)) this.cloud = undefined;
-    return this.cloud?.version === version ? this.cloud.cloud : undefined;
+    return this.cloud?.version === version ? this.cloud : undefined;
   }
 
   private isPreviewing(uri: vscode.Uri): boolean {
@@ -304,13 +306,14 @@ class PathPreview implements vscode.Disposable {
     if (!document || this.disposed) return;
     const { result, version, text } = getAnalysis(document);
     if (this.run >= result.runs.length) this.run = -1;
-    const cloud = this.cloudFor(document.uri.toString(), version);
+    const shown = this.cloudFor(document.uri.toString(), version);
+    const cloud = shown?.cloud;
     const recorded = recordedOverlayFor(document, result);
     const svg = renderSvg(result, { standalone: false, width: this.viewWidth, ...runOption(this.run), spread: this.spread, ...(cloud ? { cloud } : {}), ...(recorded ? { recorded } : {}) });
     const message = buildRenderMessage(result, { uri: document.uri.toString(), version }, this.run, svg, targetTables(result, text), this.viewWidth,
       buildTimeline(result, this.run));
     message.spread = this.spread;
-    if (cloud) message.cloud = { count: cloud.count, dots: cloud.spots.filter((s) => this.run < 0 || s.run === this.run).reduce((n, s) => n + s.x.length, 0) };
+    if (shown) message.cloud = { count: shown.cloud.count, id: shown.id, dots: shown.cloud.spots.filter((s) => this.run < 0 || s.run === this.run).reduce((n, s) => n + s.x.length, 0) };
     this.posted = { uri: message.uri, version: message.version };
     this.post(message);
     this.postTrace();
@@ -381,7 +384,7 @@ class PathPreview implements vscode.Disposable {
         }
         return;
       case 'cloudShown':
-        for (const waiter of this.cloudWaiters.filter((w) => w.uri === message.uri && w.version === message.version)) waiter.resolve(message.dots);
+        for (const waiter of this.cloudWaiters.filter((w) => w.id === message.id)) waiter.resolve(message.dots);
         return;
       case 'viewSize':
         // Text and strokes are sized for the panel's width: a narrow panel gets the same readable labels.
@@ -392,7 +395,7 @@ class PathPreview implements vscode.Disposable {
         return;
       case 'exportSvg': {
         const { result, version } = getAnalysis(document);
-        const cloud = this.cloudFor(document.uri.toString(), version);
+        const cloud = this.cloudFor(document.uri.toString(), version)?.cloud;
         const recorded = recordedOverlayFor(document, result);
         const svg = renderSvg(result, { standalone: true, ...runOption(this.run), spread: this.spread, ...(cloud ? { cloud } : {}), ...(recorded ? { recorded } : {}) });
         await this.save(document, 'svg', new TextEncoder().encode(svg));

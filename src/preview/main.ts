@@ -314,7 +314,7 @@ class Preview {
     for (const path of Array.from(this.svg.querySelectorAll('.cloud path'))) dots += (path.getAttribute('d')?.match(/M/g) ?? []).length;
     this.cloudNote.textContent = `${message.cloud.count.toLocaleString('en')} sampled runs`;
     this.cloudNote.title = 'The dots are where sampled runs end (at each run\'s end and each mark); they clear at the next edit of the plan';
-    this.post({ type: 'cloudShown', ...this.stamp(), dots });
+    this.post({ type: 'cloudShown', ...this.stamp(), id: message.cloud.id, dots });
   }
 
   private fillRunSelect(message: RenderMessage): void {

@@ -61,8 +61,8 @@ export interface RenderMessage extends DocumentStamp {
   turns: TurnDirection;
   /** Where the drawing shows the 95 % ovals (absent: at marks). */
   spread?: SpreadShown;
-  /** Present when the drawing holds a Monte Carlo cloud: runs sampled per plan run, and the dots drawn. */
-  cloud?: { count: number; dots: number };
+  /** Present when the drawing holds a Monte Carlo cloud: runs sampled per plan run, the dots drawn, and the cloud's number (echoed in `cloudShown`). */
+  cloud?: { count: number; dots: number; id: number };
 }
 
 /** The robot's outline: a rectangle (`axle` mm ahead of its centre sits the axle midpoint) or a circle about the axle midpoint. */
@@ -155,9 +155,10 @@ export interface SetSpreadMessage extends DocumentStamp {
   spread: SpreadShown;
 }
 
-/** The webview drew a drawing with a Monte Carlo cloud: `dots` sampled end points are on screen. */
+/** The webview drew a drawing with the Monte Carlo cloud numbered `id`: `dots` sampled end points are on screen. */
 export interface CloudShownMessage extends DocumentStamp {
   type: 'cloudShown';
+  id: number;
   dots: number;
 }
 
@@ -239,7 +240,7 @@ export function parsePreviewMessage(value: unknown): PreviewMessage | undefined 
     case 'setSpread':
       return isSpreadShown(value.spread) ? { type: 'setSpread', ...stamp, spread: value.spread } : undefined;
     case 'cloudShown':
-      return isIndex(value.dots, 0) ? { type: 'cloudShown', ...stamp, dots: value.dots } : undefined;
+      return isIndex(value.dots, 0) && isIndex(value.id, 0) ? { type: 'cloudShown', ...stamp, id: value.id, dots: value.dots } : undefined;
     case 'scrub':
       return isIndex(value.line, -1) ? { type: 'scrub', ...stamp, line: value.line } : undefined;
     case 'reveal':

@@ -23,7 +23,7 @@ function renderWith(version: number, spread: SpreadShown, cloud?: SpreadCloud): 
   const svg = renderSvg(result, { standalone: false, spread, ...(cloud ? { cloud } : {}) });
   const message = buildRenderMessage(result, { uri: URI, version }, -1, svg, targetTables(result, PLAN), 1000, buildTimeline(result, -1));
   message.spread = spread;
-  if (cloud) message.cloud = { count: cloud.count, dots: cloud.spots.reduce((n, s) => n + s.x.length, 0) };
+  if (cloud) message.cloud = { count: cloud.count, dots: cloud.spots.reduce((n, s) => n + s.x.length, 0), id: version };
   return message;
 }
 
@@ -87,7 +87,7 @@ describe('path preview: the spread and the sampled cloud (Chromium)', function (
     assert.deepStrictEqual(cloud.spots.map((s) => s.kind), ['mark', 'end']);
     assert.strictEqual(dots, 2000);
     const said = await host.waitForPosted('cloudShown');
-    assert.deepStrictEqual(said, { type: 'cloudShown', uri: URI, version: 4, dots: 2000 });
+    assert.deepStrictEqual(said, { type: 'cloudShown', uri: URI, version: 4, id: 4, dots: 2000 });
     assert.strictEqual(await host.page.locator('.toolbar .cloud-note').textContent(), '1,000 sampled runs');
     // The sampled share sits under the mark's name, beside the linear model's chance.
     const share = cloud.spots.find((s) => s.line === LINE_MARK)!.share!;
