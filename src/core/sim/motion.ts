@@ -450,15 +450,19 @@ function runGyroTurn(s: SimState, r: SimRobot, m: GyroTurnMotion, trace?: TraceS
       return { finished: false, stalled: true, capped: false, peakRate: peak, finalError: e };
     }
     remember(s, r);
-    // Far from the target the power is held at its top (saturated): ENCODER_STEPS samples are then one exact step
-    // of the wheels, and one arc while their speeds stand in the ratio of their commands. The step is kept when
-    // the error is still saturated at its end (it falls monotonically in between) and the reading has not wrapped.
-    if (longTurns && u === m.power && m.gain * Math.abs(e) >= m.power && steady(s, uL * r.fullSpeed, uR * r.fullSpeed * r.mismatch)) {
+    // Far from the target the power is held at its top (saturated), and near it at the floor `min`: ENCODER_STEPS
+    // samples are then one exact step of the wheels, and one arc while their speeds stand in the ratio of their
+    // commands. The error falls monotonically through the step, so the step is kept when at its end the error is
+    // still saturated (or still under the floor's reach) and outside the stop band, and the reading has not wrapped.
+    const saturated = u === m.power && m.gain * Math.abs(e) >= m.power;
+    const floored = u === m.min && m.gain * Math.abs(e) <= m.min && effective(u, r.stall) !== 0;
+    if (longTurns && (saturated || floored) && steady(s, uL * r.fullSpeed, uR * r.fullSpeed * r.mismatch)) {
       const x = s.x, y = s.y, h = s.h, vL = s.vL, vR = s.vR, t = s.t;
       advance(s, r, uL, uR, r.longStep, out, false, r.decayLong);
       const after = readingOf(s, r);
       const eAfter = m.target - after;
-      if (Math.sign(eAfter) === dir && m.gain * Math.abs(eAfter) >= m.power && Math.abs(after - reading - r.scale * (s.h - h)) < 1e-6) {
+      const keeps = saturated ? m.gain * Math.abs(eAfter) >= m.power : Math.abs(eAfter) >= m.stop && Math.abs(eAfter) <= Math.abs(e);
+      if (keeps && Math.sign(eAfter) === dir && Math.abs(after - reading - r.scale * (s.h - h)) < 1e-6) {
         peak = Math.max(peak, rate(s, r));
         poses?.pose(s.t, s.x, s.y, s.h);
         continue;

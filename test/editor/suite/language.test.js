@@ -192,9 +192,27 @@ describe('Veer language features', () => {
     assert.equal(actions.length, 1, actions.map((a) => a.title).join(' | '));
     assert.match(actions[0].title, /^Insert the fewest yaw resets that remove the wrap crossings \(1 reset; the path stays the same\)$/);
     assert.ok(await vscode.workspace.applyEdit(actions[0].edit));
-    assert.equal(scratch.getText(), swerveLines((l) => [...l.slice(0, 7), 'reset yaw', 'drive 900 hold 0', 'turn 90 by gyro min 10%', 'drive 300 hold 90', ...l.slice(10)]));
+    // One reset anywhere from before the drive of 900 to before the turn removes the crossing; the one just before
+    // the turn leaves the smaller spread at the run's end (the core's tests), so only the last hold is rewritten.
+    assert.equal(scratch.getText(), swerveLines((l) => [...l.slice(0, 8), 'reset yaw', 'turn 90 by gyro min 10%', 'drive 300 hold 90', ...l.slice(10)]));
     assert.doesNotMatch(scratch.getText(), /hold 450/);
     await diagnosticsWhere(scratch.uri, (d) => d.length === 0);
+    await vscode.commands.executeCommand('workbench.action.revertAndCloseActiveEditor');
+  });
+
+  it('the refactoring "Insert `reset yaw` before line N" inserts the reset that shrinks the run\'s final spread, keeping the path', async () => {
+    // An invented shelf run: a reset after a long encoder drive puts its heading error into the reference; a reset
+    // again just after squaring on the top wall gives the later gyro motions the square's small error instead.
+    const lines = ['wheel 56 mm', 'track 120 mm', 'field 2000 by 2000', 'start (300, 300) heading 0', 'drive 1000', 'reset yaw', 'drive 500',
+      'square front', 'drive -300', 'turn 90 by gyro', 'drive 800 hold 90', 'turn to 0 by gyro', 'drive 300', ''];
+    const doc = await vscode.workspace.openTextDocument({ language: 'veer', content: lines.join('\n') });
+    await vscode.window.showTextDocument(doc);
+    await diagnosticsWhere(doc.uri, () => true);
+    const actions = await codeActions(doc.uri, new vscode.Range(9, 0, 9, 0), 'refactor.veer.bestReset');
+    assert.equal(actions.length, 1, actions.map((a) => a.title).join(' | '));
+    assert.match(actions[0].title, /^Insert `reset yaw` before line 9: the run ends within \d+ mm instead of \d+ mm/);
+    assert.ok(await vscode.workspace.applyEdit(actions[0].edit));
+    assert.equal(doc.getText(), [...lines.slice(0, 8), 'reset yaw', ...lines.slice(8)].join('\n'));
     await vscode.commands.executeCommand('workbench.action.revertAndCloseActiveEditor');
   });
 
