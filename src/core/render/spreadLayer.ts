@@ -9,7 +9,7 @@
 //   heading-band  the heading's 95 % band: a wedge from the oval's centre
 //   spread-layer  the layer of a run's motion-end ovals and wedges
 //   cloud         the sampled end points of one place of a run (dots)
-import type { Point, RunResult, Segment, SegmentSpread, TurnDirection } from '../types';
+import type { Point, Pose, RunResult, Segment, SegmentSpread, TurnDirection } from '../types';
 import { forwardVector } from '../solve/frame';
 import type { SpreadCloud, SpreadShown } from './cloud';
 import { escapeXml, num } from './markup';
@@ -30,11 +30,22 @@ const DOT_PX = 2.6;
 /** Straight pieces of a wedge's arc. */
 const WEDGE_PIECES = 12;
 
+/**
+ * Where the spread is centred: the pose the controller simulation predicts at
+ * the segment's end, where there is one (the spread is the real robot's, and
+ * a mark's chance is worked out about that pose too), else the planned end.
+ */
+export function spreadCentre(seg: Segment): Pose {
+  const p = seg.predicted?.end;
+  return p && Number.isFinite(p.x) && Number.isFinite(p.y) && Number.isFinite(p.heading) ? p : seg.end;
+}
+
 /** Whether a segment's spread can be drawn as an oval. */
 export function drawableSpread(seg: Segment): SegmentSpread | undefined {
   const s = seg.spread;
   const e = s?.ellipse95;
-  return e && Number.isFinite(e.a) && Number.isFinite(e.b) && Number.isFinite(e.tilt) && e.a > 0 && Number.isFinite(seg.end.x) && Number.isFinite(seg.end.y)
+  const c = spreadCentre(seg);
+  return e && Number.isFinite(e.a) && Number.isFinite(e.b) && Number.isFinite(e.tilt) && e.a > 0 && Number.isFinite(c.x) && Number.isFinite(c.y)
     ? s
     : undefined;
 }
@@ -50,12 +61,12 @@ export function spreadOval(c: SpreadCanvas, p: Point, spread: SegmentSpread, cls
 }
 
 /**
- * The heading's 95 % band (±1.96 standard deviations about the planned
- * heading) as a thin wedge from the end point, WEDGE_PX long; a band of a
- * whole turn or more is a disc.
+ * The heading's 95 % band (±1.96 standard deviations about the predicted,
+ * else planned, heading) as a thin wedge from the oval's centre, WEDGE_PX
+ * long; a band of a whole turn or more is a disc.
  */
 export function headingWedge(c: SpreadCanvas, seg: Segment, spread: SegmentSpread, attrs = ''): string {
-  const p = seg.end;
+  const p = spreadCentre(seg);
   if (!Number.isFinite(p.heading) || !Number.isFinite(spread.headingSd)) return '';
   const r = WEDGE_PX * c.view.px;
   const half = Math.min(180, Z95 * spread.headingSd);
@@ -114,7 +125,7 @@ export function drawSpreadLayer(out: string[], c: SpreadCanvas, run: RunResult, 
     const e = spread.ellipse95;
     parts.push(
       `<g class="spread-end"${attrs}><title>${escapeXml(`line ${seg.line + 1}: the robot ends this ${seg.kind} inside the oval in 19 runs out of 20 (${formatMm(e.a)} by ${formatMm(e.b)})`)}</title>`,
-      spreadOval(c, seg.end, spread, 'spread'),
+      spreadOval(c, spreadCentre(seg), spread, 'spread'),
       headingWedge(c, seg, spread),
       '</g>\n',
     );

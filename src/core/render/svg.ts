@@ -43,7 +43,7 @@ import { escapeXml, num } from './markup';
 import { boundRecorded, drawRecorded, RECORDED_STYLE } from './recorded';
 import type { RecordedOverlay } from '../record/compare';
 import type { SpreadCloud, SpreadShown } from './cloud';
-import { drawableSpread, drawCloud, drawSpreadLayer, sampledShares, spreadOval } from './spreadLayer';
+import { drawableSpread, drawCloud, drawSpreadLayer, sampledShares, spreadCentre, spreadOval } from './spreadLayer';
 import { Bounds, formatLength, makeView, scaleBarLength, type View } from './view';
 
 export interface RenderOptions {
@@ -730,7 +730,7 @@ function drawAnnotations(out: string[], d: Drawing, run: RunResult, runIndex: nu
       // (and, after sampling, the share of sampled runs that did).
       const on = spread.shown !== 'off';
       const ovalSpread = on ? drawableSpread(seg) : undefined;
-      const oval = ovalSpread ? spreadOval(d, p, ovalSpread, 'spread') : '';
+      const oval = ovalSpread ? spreadOval(d, spreadCentre(seg), ovalSpread, 'spread') : '';
       const sampled = spread.shares.get(`${runIndex}:${i}`);
       const chance = on && seg.hitProbability !== undefined ? ` · ${formatChance(seg.hitProbability)}` : '';
       const about = (on && seg.hitProbability !== undefined ? `: met in ${formatChance(seg.hitProbability)} of runs; the oval holds 19 runs in 20` : '')
