@@ -197,6 +197,16 @@ function travel(P: Cov, piece: PathPiece, compass: (deg: number) => number, trac
 }
 
 /** Adds q·g gᵀ to the pose block, for one wheel's random error of variance q with the step's Jacobian column g. */
+/**
+ * Where a segment's spread is centred: where the robot is predicted to end
+ * (the controller simulation; the sampled runs scatter about it), or the
+ * planned pose where nothing is predicted.
+ */
+export function spreadCenter(seg: Segment): { x: number; y: number } {
+  const p = seg.predicted;
+  return p && Number.isFinite(p.end.x) && Number.isFinite(p.end.y) ? p.end : seg.end;
+}
+
 /** Whether the yaw reads zero at this segment: a `reset yaw`, or a turn written with `reset`. */
 export function zeroes(seg: Segment): boolean {
   return seg.kind === 'reset' || seg.zeroesYaw === true;
