@@ -322,6 +322,13 @@ describe('calibration: the runs to measure', () => {
     assert.ok(cw.segments.filter((s) => s.kind === 'turn').every((s) => s.turned === -90));
   });
 
+  it('a robot that needs 25 % power to move, and a title of 120 characters: runs that still check without errors', () => {
+    const plan = `plan "${'a'.repeat(120)}"\nwheel 56\ntrack 120\nmotor 900 deg/s stall 25%\nfield 2000 by 1500\n`;
+    const runs = writeCalibrationRuns(checkPlan(plan));
+    const check = checkPlan(runs.text!);
+    assert.deepEqual(check.diagnostics.filter((d) => d.severity === 'error').map((d) => `${d.range.start.line + 1}: ${d.message}`), []);
+  });
+
   it('refuses a field too small for the square, and a plan without a wheel, saying why', () => {
     assert.match(writeCalibrationRuns(checkPlan('wheel 56\ntrack 120\nfield 500 by 400\n')).problems[0], /too small for the square test/);
     assert.match(writeCalibrationRuns(checkPlan('track 120\n')).problems[0], /no usable `wheel D`/);

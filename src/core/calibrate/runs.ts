@@ -5,6 +5,7 @@
 import type { CheckResult, PlanSetup } from '../types';
 import { MIN_TRIALS } from './compute';
 import { checkPlan } from '../check';
+import { RAMP_FLOOR } from '../sim/motion';
 
 export interface CalibrationRuns {
   /** The plan text, or undefined when the plan lacks what the runs need. */
@@ -67,9 +68,12 @@ export function writeCalibrationRuns(result: CheckResult, options: CalibrationRu
   // Whole turns and power for the spins: slow, yet inside the simulation's 20 s per motion (15 s here).
   const fullSpeed = ((r.motorSpeed ?? 900) / (r.gear ?? 1)) * Math.PI * r.wheelDiameter! / 360;
   const perTurn = Math.PI * (r.effectiveTrack ?? r.track!);
-  let spinPower = 0.2;
+  // Low powers, but well above the stall power (a robot that needs more than 20 % to move gets more).
+  const stallPct = Math.ceil((r.stall ?? 0.05) * 100);
+  const slowest = Math.max(20, stallPct + 5);
+  let spinPower = slowest / 100;
   let turns = Math.min(SPIN_TURNS, Math.floor((15 * spinPower * fullSpeed) / perTurn));
-  while (turns < SPIN_TURNS && spinPower < 0.3 - 1e-9) {
+  while (turns < SPIN_TURNS && spinPower < Math.max(0.3, slowest / 100) - 1e-9) {
     spinPower += 0.05;
     turns = Math.min(SPIN_TURNS, Math.floor((15 * spinPower * fullSpeed) / perTurn));
   }
@@ -79,7 +83,10 @@ export function writeCalibrationRuns(result: CheckResult, options: CalibrationRu
   }
   const spin = `${Math.round(spinPower * 100)}%`;
   // The turns of the laps end slowly (a ramp down to just above the stall power), so that they coast little.
-  const turnMin = Math.min(15, Math.ceil((r.stall ?? 0.05) * 100) + 3);
+  const turnMin = Math.min(slowest - 2, stallPct + 3);
+  const turnSpeed = `${slowest}%`;
+  // A ramped drive starts and ends at the ramp's floor power: only where the wheels move at that power.
+  const driveSpeed = `${Math.max(30, slowest + 10)}%${(r.stall ?? 0.05) < RAMP_FLOOR ? ' ramp 300 mm/s^2' : ''}`;
   const cw = setup.turns === 'clockwise';
   const right = cw ? 90 : -90; // a turn to the right, in the plan's sign
   const facingX = cw ? 90 : 270; // the field heading that faces +x
@@ -104,7 +111,7 @@ export function writeCalibrationRuns(result: CheckResult, options: CalibrationRu
   const corner = { x: Math.round((field.width - side) / 2), y: Math.round((field.height - side) / 2) };
   const L = [] as string[];
   const out = (...lines: string[]) => L.push(...lines);
-  const title = setup.title.replace(/["\\]/g, '');
+  const title = setup.title.replace(/["\\]/g, '').slice(0, 90);
 
   out(
     `plan "Calibration runs for ${title}"`,
@@ -136,7 +143,7 @@ export function writeCalibrationRuns(result: CheckResult, options: CalibrationRu
     `#   drive ${num(drive)} mm measured ___, ___, ___`,
     `run "straight drive"`,
     `start (${num(driveStart.x)}, ${num(driveStart.y)}) heading ${num(driveStart.h)}`,
-    `drive ${num(drive)} speed 30% ramp 300 mm/s^2`,
+    `drive ${num(drive)} speed ${driveSpeed}`,
     '',
     `# 2. Spins by encoders: the effective track.`,
     `# Lay a straight reference line of tape under the robot's middle, along its heading. The robot`,
@@ -168,11 +175,11 @@ export function writeCalibrationRuns(result: CheckResult, options: CalibrationRu
     `#   lap counterclockwise ${num(side)} mm ahead ___ left ___`,
     `run "square, clockwise lap"`,
     `start (${num(corner.x)}, ${num(corner.y)}) heading 0`,
-    ...lap(side, right, turnMin),
+    ...lap(side, right, turnMin, turnSpeed, driveSpeed),
     '',
     `run "square, counterclockwise lap"`,
     `start (${num(corner.x + side)}, ${num(corner.y)}) heading 0`,
-    ...lap(side, -right, turnMin),
+    ...lap(side, -right, turnMin, turnSpeed, driveSpeed),
     '',
   );
   return L.join('\n');
@@ -185,9 +192,9 @@ function squareFrom(text: string): number {
 }
 
 /** Four legs and four turns back to the start pose. */
-function lap(side: number, turn: number, min: number): string[] {
+function lap(side: number, turn: number, min: number, turnSpeed: string, driveSpeed: string): string[] {
   const lines: string[] = [];
-  for (let i = 0; i < 4; i++) lines.push(`drive ${num(side)} speed 30% ramp 300 mm/s^2`, `turn ${turn} speed 20% min ${min}% ramp`);
+  for (let i = 0; i < 4; i++) lines.push(`drive ${num(side)} speed ${driveSpeed}`, `turn ${turn} speed ${turnSpeed} min ${min}% ramp`);
   return lines;
 }
 
