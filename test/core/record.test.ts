@@ -2,7 +2,7 @@ import { strict as assert } from 'node:assert';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { checkPlan } from '../../src/core';
-import { readLog, LogError, type LogRobot } from '../../src/core/record/log';
+import { readLog, LogError, parseNumber, type LogRobot } from '../../src/core/record/log';
 import { arcStep, reconstruct } from '../../src/core/record/odometry';
 import { replayLog } from '../../src/core/record/compare';
 import { simulateLog } from '../../scripts/recorded-run';
@@ -226,5 +226,31 @@ describe('recorded runs: comparison with the plan', () => {
     throwsAt(() => replayLog(result, demo.csv, 'demo.csv', { wheelUnits: { kind: 'mm' } }), /header says deg, the settings say mm/);
     const asMm = demo.csv.replace('left_deg,right_deg', 'left_mm,right_mm');
     throwsAt(() => replayLog(result, asMm, 'demo.csv'), /column 2 \(left\) and column 3 \(right\): the log drives \d+ mm where the plan drives \d+ mm \(\d\.\d\d times\).*wheel units/);
+  });
+});
+
+describe('recorded runs: reading numbers', () => {
+  it('reads every cell exactly as JavaScript\'s own string-to-number conversion (the oracle: `+cell`), 200,000 generated cells', () => {
+    // A seeded generator of decimals as logs write them (signs, leading and trailing points, up to 17 characters),
+    // and of cells the fast path must hand over (exponents, spaces, words, 16+ digits).
+    let a = 12345;
+    const next = () => { a = (Math.imul(a, 1103515245) + 12345) >>> 0; return a / 4294967296; };
+    const shapes = [
+      () => (next() * 10 ** Math.floor(next() * 8)).toFixed(Math.floor(next() * 8)),
+      () => `-${(next() * 1000).toFixed(Math.floor(next() * 5))}`,
+      () => `.${Math.floor(next() * 1e6)}`,
+      () => `${Math.floor(next() * 1e6)}.`,
+      () => `+${(next() * 100).toFixed(3)}`,
+      () => String(next() * 1e-9),
+      () => `${Math.floor(next() * 1e17)}`,
+      () => ` ${(next() * 10).toFixed(2)}`,
+      () => ['', '.', '-', '1.2.3', 'abc', '1e3', 'Infinity', '0x1f', '-0', '00012.50'][Math.floor(next() * 10)],
+    ];
+    for (let k = 0; k < 200_000; k++) {
+      const cell = shapes[k % shapes.length]();
+      const want = +cell;
+      const got = parseNumber(cell);
+      assert.ok(Object.is(got, want), `${JSON.stringify(cell)}: ${got} vs ${want}`);
+    }
   });
 });
