@@ -67,6 +67,7 @@ function calibrate(argv: string[], io: CliIo, readPlan: (file: string) => string
     if (out === '') throw new CalibrateUsage('`--runs` needs a file name, e.g. `--runs calibration.veer`');
     const record = recordNameFor(basename(planFile));
     if (out !== '-' && resolve(out) === resolve(planFile)) throw new CalibrateUsage(`\`--runs ${out}\` is the plan itself: writing the runs there would destroy the plan. Choose another name, e.g. \`--runs ${basename(planFile).replace(/\.veer$/i, '')}-calibration.veer\``);
+    if (out !== '-' && resolve(out) === resolve(recordNameFor(planFile))) throw new CalibrateUsage(`\`--runs ${out}\` is the plan's calibration record: writing the runs there would destroy the measurements. Choose a name ending .veer, e.g. \`--runs calibration.veer\``);
     const runs = writeCalibrationRuns(result, { planName: basename(planFile), recordName: record });
     if (!runs.text) {
       for (const p of runs.problems) io.err(`${planFile}: ${p}\n`);

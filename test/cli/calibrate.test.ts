@@ -97,6 +97,12 @@ describe('veer calibrate', () => {
     assert.equal(self.status, 2);
     assert.match(self.err, /is the plan itself/);
     assert.equal(readFileSync(join(dir, 'tray.veer'), 'utf8'), PLAN);
+    // Nor over the measurements.
+    const record = readFileSync(join(dir, 'tray.calib'), 'utf8');
+    const over = run(['calibrate', join(dir, 'tray.veer'), '--runs', join(dir, 'tray.calib')]);
+    assert.equal(over.status, 2);
+    assert.match(over.err, /calibration record: writing the runs there would destroy the measurements/);
+    assert.equal(readFileSync(join(dir, 'tray.calib'), 'utf8'), record);
   });
 
   it('a field too small for the square: exit 1 and why, no file written', () => {
