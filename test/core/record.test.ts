@@ -159,6 +159,8 @@ describe('recorded runs: reading a log', () => {
     throwsAt(() => readLog('time_s,left_mm,right_mm,line\n0,0,0,2.5\n0.01,0,0,3\n', 'f', robot), /line 2, column 4 \(line\): `2.5` is not a plan line/, 2, 4);
     throwsAt(() => readLog('# veer: wheel-units=inch\ntime_s,left,right\n0,0,0\n', 'f', robot), /line 1: `wheel-units` takes/, 1);
     throwsAt(() => readLog('time_s,left_deg,right_deg\n0,0,0\n0.01,1\n', 'f', robot), /line 3: 2 columns, but the log needs 3/, 3);
+    // A cell's invisible characters are written out, never sent to the terminal as they are.
+    throwsAt(() => readLog('time_s,left_deg,right_deg\n0,0,0\n0.01,\u001b[31mred,1\n', 'f', robot), /`<U\+001B>\[31mred` is not a number/, 3, 2);
   });
 
   it('a yaw in radians read as degrees, and a yaw counting the other way, are caught against the wheels', () => {

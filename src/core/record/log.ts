@@ -5,6 +5,7 @@
 // is an error naming the file's line and the column, never a guess.
 import Papa from 'papaparse';
 import { wrapReading } from '../solve/frame';
+import { showText } from '../text';
 import type { RecordedRun, RecordedSample } from './types';
 
 /** What a column holds. */
@@ -68,12 +69,12 @@ export const WHEEL_SPEED_LIMIT = 5000;
 /** Parses one settings value (`deg`, `counts:360`, ...) into settings; throws a plain message on a bad one. */
 export function parseSetting(key: string, value: string, into: LogSettings): void {
   const v = value.trim().toLowerCase();
-  const bad = (choices: string) => new Error(`\`${key}\` takes ${choices}, not \`${value}\``);
+  const bad = (choices: string) => new Error(`\`${key}\` takes ${choices}, not \`${showText(value, 40)}\``);
   switch (key) {
     case 'columns': {
       const roles = v.split(',').map((r) => r.trim());
       const unknown = roles.find((r) => r !== '-' && !(COLUMN_ROLES as readonly string[]).includes(normaliseRole(r) ?? ''));
-      if (unknown !== undefined) throw new Error(`\`columns\` names each column by position with ${COLUMN_ROLES.join(', ')} or - (skip), e.g. \`time,left,right,yaw\`; \`${unknown}\` is none of these`);
+      if (unknown !== undefined) throw new Error(`\`columns\` names each column by position with ${COLUMN_ROLES.join(', ')} or - (skip), e.g. \`time,left,right,yaw\`; \`${showText(unknown, 40)}\` is none of these`);
       const named = roles.filter((r) => r !== '-').map((r) => normaliseRole(r)!);
       const twice = named.find((r, i) => named.indexOf(r) !== i);
       if (twice) throw new Error(`\`columns\` names \`${twice}\` twice`);
@@ -107,7 +108,7 @@ export function parseSetting(key: string, value: string, into: LogSettings): voi
       into.powerUnits = v;
       return;
     default:
-      throw new Error(`unknown setting \`${key}\`: the settings are columns, time-units, wheel-units, yaw-units, yaw-sign and power-units`);
+      throw new Error(`unknown setting \`${showText(key, 40)}\`: the settings are columns, time-units, wheel-units, yaw-units, yaw-sign and power-units`);
   }
 }
 
@@ -185,7 +186,7 @@ export function readLog(text: string, source: string, robot: LogRobot, options: 
     if (!body.toLowerCase().startsWith(SETTINGS_PREFIX)) continue;
     for (const pair of body.slice(SETTINGS_PREFIX.length).trim().split(/\s+/).filter(Boolean)) {
       const eq = pair.indexOf('=');
-      if (eq <= 0) throw new LogError(`line ${c.line}: the settings comment takes key=value pairs, e.g. \`# veer: wheel-units=deg yaw-units=deg\`; \`${pair}\` has no \`=\``, c.line);
+      if (eq <= 0) throw new LogError(`line ${c.line}: the settings comment takes key=value pairs, e.g. \`# veer: wheel-units=deg yaw-units=deg\`; \`${showText(pair, 40)}\` has no \`=\``, c.line);
       try {
         parseSetting(pair.slice(0, eq).trim().toLowerCase(), pair.slice(eq + 1), fromComment);
       } catch (e) {
@@ -215,7 +216,7 @@ export function readLog(text: string, source: string, robot: LogRobot, options: 
     const header = rows[0];
     const used = settings.columns.flatMap((role, index) => (role === '-' ? [] : [header[index] ?? '']));
     if (used.some((cell) => cell.trim() !== '' && !Number.isFinite(Number(cell)))) {
-      throw new LogError(`line ${rowLines[0]}: \`columns\` says the log has no header row, but this row is not numbers (\`${header.slice(0, 4).join(',')}\`): leave \`columns\` out to read the header, or delete the row`, rowLines[0]);
+      throw new LogError(`line ${rowLines[0]}: \`columns\` says the log has no header row, but this row is not numbers (\`${showText(header.slice(0, 4).join(','), 60)}\`): leave \`columns\` out to read the header, or delete the row`, rowLines[0]);
     }
     columns = settings.columns.flatMap((role, index) => (role === '-' ? [] : [{ role, index, name: role }]));
     dataFrom = 0;
@@ -229,15 +230,15 @@ export function readLog(text: string, source: string, robot: LogRobot, options: 
     header.forEach((cell, index) => {
       const { role, unit } = headerCell(cell);
       if (!role) {
-        ignored.push(`${index + 1} (${cell.trim() || 'no name'})`);
+        ignored.push(`${index + 1} (${showText(cell.trim(), 40) || 'no name'})`);
         return;
       }
       const twice = columns.find((c) => c.role === role);
-      if (twice) throw new LogError(`line ${rowLines[0]}, column ${index + 1} (${cell.trim()}): a second ${role} column (the first is column ${twice.index + 1}); keep one`, rowLines[0], index + 1);
+      if (twice) throw new LogError(`line ${rowLines[0]}, column ${index + 1} (${showText(cell.trim(), 40)}): a second ${role} column (the first is column ${twice.index + 1}); keep one`, rowLines[0], index + 1);
       if (unit !== undefined && !HEADER_UNITS[role].includes(unit)) {
-        throw new LogError(`line ${rowLines[0]}, column ${index + 1} (${cell.trim()}): unknown unit \`${unit}\` for ${role}; use ${HEADER_UNITS[role].join(', ') || 'no unit'}`, rowLines[0], index + 1);
+        throw new LogError(`line ${rowLines[0]}, column ${index + 1} (${showText(cell.trim(), 40)}): unknown unit \`${showText(unit, 20)}\` for ${role}; use ${HEADER_UNITS[role].join(', ') || 'no unit'}`, rowLines[0], index + 1);
       }
-      columns.push({ role, index, name: cell.trim(), headerUnit: unit });
+      columns.push({ role, index, name: showText(cell.trim(), 40), headerUnit: unit });
     });
     if (ignored.length) notes.push(`columns left out (not a name Veer reads): ${ignored.join(', ')}`);
     dataFrom = 1;
@@ -309,7 +310,7 @@ export function readLog(text: string, source: string, robot: LogRobot, options: 
     const v = cell === undefined ? NaN : parseNumber(cell);
     // `+''` and `+' '` are 0: an empty cell is told apart only when the number is 0.
     if (v - v !== 0 || (v === 0 && cell.trim() === '')) {
-      throw new LogError(`line ${line}, ${describe(c)}: ${cell === undefined || cell.trim() === '' ? 'the cell is empty' : `\`${cell.slice(0, 40)}\` is not a number`}; every row needs a number there`, line, c.index + 1);
+      throw new LogError(`line ${line}, ${describe(c)}: ${cell === undefined || cell.trim() === '' ? 'the cell is empty' : `\`${showText(cell, 40)}\` is not a number`}; every row needs a number there`, line, c.index + 1);
     }
     return v;
   };
@@ -346,7 +347,7 @@ export function readLog(text: string, source: string, robot: LogRobot, options: 
     }
     if (lineCol) {
       const v = num(row, lineCol, line);
-      if (!Number.isInteger(v) || v < 1) throw new LogError(`line ${line}, ${describe(lineCol)}: \`${row[lineCol.index]}\` is not a plan line (a whole number from 1)`, line, lineCol.index + 1);
+      if (!Number.isInteger(v) || v < 1) throw new LogError(`line ${line}, ${describe(lineCol)}: \`${showText(row[lineCol.index], 20)}\` is not a plan line (a whole number from 1)`, line, lineCol.index + 1);
       s.line = v;
     }
     if (i > 0) {
