@@ -113,6 +113,17 @@ describe('veer calibrate', () => {
     assert.equal(existsSync(join(dir, 'c.veer')), false);
   });
 
+  it('the example plan\'s record (examples/parcel-table.calib) gives every value without a problem', () => {
+    const r = run(['calibrate', join(__dirname, '..', '..', 'examples', 'parcel-table.veer'), '--json']);
+    assert.equal(r.status, 0, r.out);
+    const doc = JSON.parse(r.out);
+    assert.deepEqual(doc.problems, []);
+    // The drives by hand: (1591 + 1593 + 1590)/3/1600 = 0.994583; the wheels' mean 58 × that = 57.686 mm.
+    assert.ok(Math.abs(doc.wheel.mean_diameter_mm.value - 58 * (4774 / 3 / 1600)) < 1e-9);
+    assert.equal(doc.square.x_cw_mm.n, 5);
+    assert.equal(doc.setup_lines.length, 3);
+  });
+
   it('is listed in --help', () => {
     assert.match(run(['--help']).out, /veer calibrate PLAN --runs OUT\.veer/);
   });
