@@ -153,6 +153,32 @@ describe('spread: along a run (robot model section 3 rules)', () => {
 });
 
 describe('spread: marks', () => {
+  it('a mark\'s `level` sets the share of runs it wants; outside 50 % to under 100 % it is refused', () => {
+    // The same 2 m encoder drive as below; the chance of ending within 180 mm is between 80 % and 95 % here.
+    const plan = (level: string) => ['wheel 56 mm', 'track 120 mm', 'noise drive 5% wheel 0.02 mm', 'start (500, 500) heading 0', 'drive 2000',
+      `mark "far" at (500, 2500) within 180${level}`].join('\n');
+    const plain = checkPlan(plan(''), { simulate: false });
+    const p = plain.runs[0].segments.find((s) => s.kind === 'mark')!.hitProbability!;
+    assert.ok(p > 0.8 && p < 0.95, `${p}`);
+    assert.equal(plain.diagnostics.filter((d) => d.code === 'miss').length, 1);
+    assert.equal(checkPlan(plan(' level 80%'), { simulate: false }).diagnostics.filter((d) => d.code === 'miss').length, 0);
+    const strict = checkPlan(plan(' level 99%'), { simulate: false }).diagnostics.find((d) => d.code === 'miss')!;
+    assert.match(strict.message, /\(99 % wanted\)/);
+    for (const bad of [' level 100%', ' level 30%']) {
+      const d = checkPlan(plan(bad), { simulate: false }).diagnostics.find((x) => x.severity === 'error')!;
+      assert.match(d.message, /^A level of/);
+    }
+  });
+
+  it('`noise square A across D` sets the spread a square leaves (robot model section 3)', () => {
+    const text = ['wheel 56 mm', 'track 120 mm', 'noise square 2 deg across 3 mm', 'field 2000 by 2000', 'start (300, 300) heading 0', 'drive 1000', 'square front'].join('\n');
+    const r = checkPlan(text, { simulate: false });
+    const sq = r.runs[0].segments.find((s) => s.kind === 'square')!.spread!;
+    // Facing the top wall: the heading's sd is A, the position's across the wall (y) is D.
+    assert.ok(Math.abs(sq.headingSd - 2) < 1e-9, `${sq.headingSd}`);
+    assert.ok(Math.abs(Math.sqrt(sq.cov[1][1]) - 3) < 1e-9, `${sq.cov[1][1]}`);
+  });
+
   it('a mark the planned pose meets but most runs miss gets a miss warning naming the biggest source', () => {
     // 2 m by encoders with a 5 % distance scale: about 100 mm along the track (robot model section 3,
     // distScale × D), more than the wheels' random error across it (√(k D³ / 3b²) = 61 mm with k = 0.02 mm).
