@@ -130,6 +130,27 @@ describe('fitting the robot model to a recorded run', () => {
     }
   });
 
+  it('finds how late the yaw reading is, and fits the rest at that delay', () => {
+    // A reading 40 ms late (4 rows). Its standard error counts the yaw's noise only, not the wheels'
+    // interpolated between rows, so the delay is checked to a practical 1 ms (common practice, no published source).
+    const fit = fitRobot(log(3, { delay: 0.04 }), PLAN);
+    assertFinite(fit);
+    assert.ok(Math.abs(fit.params.gyroDelay.value! - 0.04) < 0.001, `${fit.params.gyroDelay.value}`);
+    assert.equal(fit.params.gyroDelay.differs, true);
+    within(fit, 'effectiveTrack', TRUTH.track);
+    within(fit, 'mismatch', TRUTH.mismatch);
+    within(fit, 'drift', TRUTH.drift);
+    const text = 'plan "x"\nwheel 56 mm\ntrack 120 mm\ngyro sample 10 ms\nrun "a"\nstart (0, 0) heading 0\n';
+    const out = applyEdits(text, fitFixes(text, fit)[0].edits);
+    assert.match(out, /^gyro sample 10 ms delay \S+ ms$/m);
+    assert.ok(Math.abs(checkPlan(out).setup.gyro.delay - 0.04) < 0.001);
+    // Without a delay in the log, the delay found is within a quarter row of zero: nothing to change.
+    const none = fitRobot(log(3), PLAN);
+    assert.equal(none.params.gyroDelay.found, true);
+    assert.equal(none.params.gyroDelay.differs, false);
+    assert.ok(Math.abs(none.params.gyroDelay.value!) < 0.0025);
+  });
+
   it('reads the right wheel as the log reader gives it, with the plan\'s mismatch in it', () => {
     // The reader converts the right wheel's degrees with the plan's mismatch (1.005 here): the fit divides it out.
     const plan = { ...PLAN, mismatch: 1.005 };

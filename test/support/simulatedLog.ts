@@ -45,6 +45,8 @@ export interface LogNoise {
   yawQuantum?: number;
   /** The plan's mismatch: the log reader converts the right wheel's degrees with it (default 1). */
   planMismatch?: number;
+  /** How late the yaw reading is, s: the heading that long ago, interpolated between samples (default 0). */
+  delay?: number;
   /** Sample times (s) at which the reading is zeroed again (a `reset yaw`). */
   resets?: number[];
 }
@@ -101,11 +103,22 @@ export function simulatedLog(truth: TruthRobot, schedule: PowerStep[], noise: Lo
   const resets = [...(noise.resets ?? [])].sort((a, b) => a - b);
   let left = 0, right = 0;
   let zero = 0, zeroT = 0;
+  const delay = noise.delay ?? 0;
+  // (time, heading) of every sample so far, for a delayed reading.
+  const hist: number[] = [];
+  const headingAt = (when: number): number => {
+    let i = hist.length - 2;
+    while (i > 0 && hist[i] > when) i -= 2;
+    if (i + 2 >= hist.length || hist[i] >= when) return hist[Math.max(0, i) + 1];
+    const [t0, h0, t1, h1] = [hist[i], hist[i + 1], hist[i + 2], hist[i + 3]];
+    return h0 + ((h1 - h0) * (when - t0)) / (t1 - t0);
+  };
   const row = (uL: number, uR: number) => {
     while (resets.length && resets[0] <= s.t + 1e-9) { resets.shift(); zero = s.h; zeroT = s.t; }
     const q = (v: number, step?: number) => (step ? Math.round(v / step) * step : v);
     const sample: RecordedSample = { t: s.t, left: q(left + noise.travel * gauss(), noise.quantum), right: q(right + noise.travel * gauss(), noise.quantum) * (noise.planMismatch ?? 1) };
-    if (withYaw) sample.yaw = wrapReading(q(truth.scale * (s.h - zero) + truth.drift * (s.t - zeroT) + noise.yaw * gauss(), noise.yawQuantum), truth.yawLo);
+    hist.push(s.t, s.h);
+    if (withYaw) sample.yaw = wrapReading(q(truth.scale * (headingAt(s.t - delay) - zero) + truth.drift * (s.t - zeroT) + noise.yaw * gauss(), noise.yawQuantum), truth.yawLo);
     if (withPower) { sample.powerLeft = uL; sample.powerRight = uR; }
     samples.push(sample);
   };

@@ -1,7 +1,8 @@
 // Fitting the robot model to a recorded run (the robot model, sections 1, 2 and 5):
 // motor speed, lag and stall power from the commanded powers and the wheel
-// travel; the effective track (or the gyro scale) and the gyro's drift from the
-// yaw reading against the wheel travel. Each value comes with its standard
+// travel; the effective track (or the gyro scale), the wheel mismatch, the
+// reading's delay and the gyro's drift from the yaw reading against the wheel
+// travel. Each value comes with its standard
 // error, its 95 % interval and the number of samples behind it, or a plain note
 // saying why this log cannot give it.
 //
@@ -12,11 +13,14 @@
 //       filled in by the check).
 //
 //   fitRobot(run: RecordedRun, current: FitCurrent, options?: FitOptions): FitResult
-//       result.params.{motorSpeed, motorLag, stall, effectiveTrack, gyroScale, drift}:
-//       each a FitParam { found, value?, se?, low?, high?, current?, differs?,
-//       samples, note? } in the plan's canonical units (deg/s of the motor shaft,
-//       s, fraction, mm, plain number, deg/s). `found` false: `note` says why and
-//       no number is set. Nothing is ever NaN.
+//       result.params.{motorSpeed, motorLag, stall, effectiveTrack, gyroScale,
+//       mismatch, gyroDelay, drift}: each a FitParam { found, value?, se?, low?,
+//       high?, current?, differs?, samples, note? } in the plan's canonical units
+//       (deg/s of the motor shaft, s, fraction, mm, plain number, plain number,
+//       s, deg/s). `found` false: `note` says why and no number is set. Nothing
+//       is ever NaN.
+//       The log's travel is as the log reader gives it: mm of the plan's wheel
+//       diameter, the right wheel's with the plan's mismatch in it.
 //       result.notes: what the fit assumed or skipped, for the whole log.
 //       result.residual: rms misfit of the wheel travel (mm) and of the yaw (deg).
 //       effectiveTrack and gyroScale are two readings of ONE number (the yaw per
@@ -28,7 +32,8 @@
 //       types.ts, applied with fix/text.ts `applyEdits`): first one fix with every
 //       recommended edit (preferred), then one per setup line. Values are offered
 //       only where the log found them and the plan's value lies outside their
-//       95 % interval (options.all: every value found). The track is the
+//       95 % interval (options.all: every value found); fixes' titles give the
+//       value and its interval, `changesPath` is set on every one. The track is the
 //       recommended reading of the yaw fit; the gyro scale is offered as a
 //       separate fix "instead of the track".
 //
@@ -52,12 +57,19 @@
 //   does, and the reported interval joins every bracket whose residual is
 //   within the 95 % likelihood-ratio bound (chi-square, 1 degree: 3.84) of the
 //   best. It is a bracket between commanded powers, not a normal interval.
-// - Yaw: reading = scale/b_eff x (signed travel difference, in degrees of a
-//   unit track) + drift x t + an offset per stretch between resets.
-//   Wraps are undone and resets found from the jump of one sample against the
-//   one predicted from the wheels. Linear least squares, offsets eliminated
-//   per stretch. The drift is fitted only when the log holds at least
-//   STILL_MIN_S seconds with both wheels still; otherwise it is taken as zero.
+// - Yaw: reading = c1 x left' + c2 x right' + drift x t + an offset per
+//   stretch between resets, with each wheel's travel (at the row's time less
+//   the reading's delay) as degrees of heading for a 1 mm track. c1 = scale /
+//   b_eff; c2 / c1 = true mismatch / plan's mismatch (fitted only when the log
+//   both drives and turns; else one column, the plan's mismatch). Wraps are
+//   undone and resets found from the jump of one sample against the one
+//   predicted from the wheels. Linear least squares, offsets eliminated per
+//   stretch. The drift is fitted only when the log holds at least STILL_MIN_S
+//   seconds with both wheels still; otherwise it is taken as zero. The delay:
+//   the residual's minimum over a grid and Brent's search, its se from its
+//   Gauss–Newton column; the rest is fitted at it only where it differs from
+//   the plan's by more than its interval and a quarter row (the wheels' noise,
+//   interpolated between rows, adds error its se does not count).
 import type { Fix, PlanSetup, Statement, TextEdit, TurnDirection } from '../types';
 import type { RecordedRun } from './types';
 import { parsePlan } from '../syntax/parser';
@@ -84,6 +96,10 @@ const MIN_TURNED_DEG = 20;
 /** The mismatch is fitted only where the two wheels' travels are less correlated than this, and kept only with a standard error below MISMATCH_SE_MAX. */
 const MISMATCH_CORR = 0.9999;
 const MISMATCH_SE_MAX = 0.01;
+/** The reading's delay is searched from DELAY_LO to DELAY_HI (s) in steps of DELAY_STEP, then refined. */
+const DELAY_LO = -0.05;
+const DELAY_HI = 0.5;
+const DELAY_STEP = 0.05;
 /** Fewest rows a fit works on. */
 export const MIN_ROWS = 20;
 
@@ -112,7 +128,7 @@ export interface FitCurrent {
   noiseDrift: number;
 }
 
-export type FitName = 'motorSpeed' | 'motorLag' | 'stall' | 'effectiveTrack' | 'gyroScale' | 'mismatch' | 'drift';
+export type FitName = 'motorSpeed' | 'motorLag' | 'stall' | 'effectiveTrack' | 'gyroScale' | 'mismatch' | 'gyroDelay' | 'drift';
 
 export interface FitParam {
   name: FitName;
@@ -161,6 +177,7 @@ const LABELS: Record<FitName, [string, string]> = {
   effectiveTrack: ['effective track', 'mm'],
   gyroScale: ['gyro scale', ''],
   mismatch: ['wheel mismatch', ''],
+  gyroDelay: ['gyro delay', 's'],
   drift: ['gyro drift', 'deg/s'],
 };
 
@@ -361,14 +378,14 @@ function searchLag(ws: WheelData[], stall: number, start: number, near = false):
 }
 
 /** Brent's minimisation of f in [a, c] from b with f(b) = fb known (Brent, Algorithms for Minimization without Derivatives, 1973). */
-function brent(f: (x: number) => number, a: number, b: number, c: number, fb: number, tol: number): { x: number; f: number } {
+function brent(f: (x: number) => number, a: number, b: number, c: number, fb: number, tol: number, absTol = 1e-10): { x: number; f: number } {
   const CG = 0.3819660112501051;
   let lo = Math.min(a, c), hi = Math.max(a, c);
   let x = b, w = b, v = b, fx = fb, fw = fb, fv = fb;
   let d = 0, e = 0;
   for (let it = 0; it < 60; it++) {
     const xm = 0.5 * (lo + hi);
-    const tol1 = tol * Math.abs(x) + 1e-10, tol2 = 2 * tol1;
+    const tol1 = tol * Math.abs(x) + absTol, tol2 = 2 * tol1;
     if (Math.abs(x - xm) <= tol2 - 0.5 * (hi - lo)) break;
     let golden = true;
     if (Math.abs(e) > tol1) {
@@ -600,31 +617,49 @@ function pct(v: number): string {
 // Yaw: effective track (or gyro scale) and drift.
 
 interface YawFit {
-  params: Pick<Record<FitName, FitParam>, 'effectiveTrack' | 'gyroScale' | 'mismatch' | 'drift'>;
+  params: Pick<Record<FitName, FitParam>, 'effectiveTrack' | 'gyroScale' | 'mismatch' | 'gyroDelay' | 'drift'>;
   rmsDeg?: number;
   notes: string[];
 }
 
 /** Least squares of y on the columns (already centred): coefficients, their covariance factor (X^T X)^-1, or undefined when singular. */
-function regress(cols: ArrayLike<number>[], y: ArrayLike<number>): { beta: number[]; inv: number[][] } | undefined {
+function regress(cols: ArrayLike<number>[], y: ArrayLike<number>): { beta: number[]; inv: number[][]; sse: number } | undefined {
   const p = cols.length;
   const A = Array.from({ length: p }, () => new Array<number>(p).fill(0));
   const b = new Array<number>(p).fill(0);
-  for (let a = 0; a < p; a++) {
-    const ca = cols[a];
-    for (let c = a; c < p; c++) {
-      const cc = cols[c];
-      let sum = 0;
-      for (let k = 0; k < y.length; k++) sum += ca[k] * cc[k];
-      A[a][c] = A[c][a] = sum;
+  // One pass over the rows for every product (at most five columns).
+  const c0 = cols[0], c1 = cols[1] ?? c0, c2 = cols[2] ?? c0, c3 = cols[3] ?? c0;
+  let s00 = 0, s01 = 0, s02 = 0, s03 = 0, s11 = 0, s12 = 0, s13 = 0, s22 = 0, s23 = 0, s33 = 0;
+  let y0 = 0, y1 = 0, y2 = 0, y3 = 0;
+  if (p <= 4) {
+    for (let k = 0; k < y.length; k++) {
+      const a = c0[k], bb = c1[k], c = c2[k], d = c3[k], yk = y[k];
+      s00 += a * a; s01 += a * bb; s02 += a * c; s03 += a * d; s11 += bb * bb; s12 += bb * c; s13 += bb * d;
+      s22 += c * c; s23 += c * d; s33 += d * d;
+      y0 += a * yk; y1 += bb * yk; y2 += c * yk; y3 += d * yk;
     }
-    let sy = 0;
-    for (let k = 0; k < y.length; k++) sy += ca[k] * y[k];
-    b[a] = sy;
+    const S = [[s00, s01, s02, s03], [s01, s11, s12, s13], [s02, s12, s22, s23], [s03, s13, s23, s33]];
+    const Y = [y0, y1, y2, y3];
+    for (let a = 0; a < p; a++) { b[a] = Y[a]; for (let c = 0; c < p; c++) A[a][c] = S[a][c]; }
+  } else {
+    for (let a = 0; a < p; a++) {
+      for (let c = a; c < p; c++) {
+        let sum = 0;
+        for (let k = 0; k < y.length; k++) sum += cols[a][k] * cols[c][k];
+        A[a][c] = A[c][a] = sum;
+      }
+      let sy = 0;
+      for (let k = 0; k < y.length; k++) sy += cols[a][k] * y[k];
+      b[a] = sy;
+    }
   }
   const inv = invertSym(A);
   if (!inv) return undefined;
-  return { beta: inv.map((row) => row.reduce((s, v, j) => s + v * b[j], 0)), inv };
+  const beta = inv.map((row) => row.reduce((s, v, j) => s + v * b[j], 0));
+  // The residual's sum of squares from the sums (the columns are centred, so it loses little): y'y - beta'X'y.
+  let yy = 0;
+  for (let k = 0; k < y.length; k++) yy += y[k] * y[k];
+  return { beta, inv, sse: Math.max(0, yy - beta.reduce((s, v, j) => s + v * b[j], 0)) };
 }
 
 function fitYaw(run: RecordedRun, cur: FitCurrent, options: FitOptions): YawFit {
@@ -634,61 +669,57 @@ function fitYaw(run: RecordedRun, cur: FitCurrent, options: FitOptions): YawFit 
       effectiveTrack: notFound('effectiveTrack', why, 0, track),
       gyroScale: notFound('gyroScale', why, 0, cur.gyroScale),
       mismatch: notFound('mismatch', why, 0, cur.mismatch),
+      gyroDelay: notFound('gyroDelay', why, 0, cur.gyroDelay),
       drift: notFound('drift', driftWhy, 0),
     },
     notes: [],
   });
-  if (!run.hasYaw) return none('the log has no yaw column: the effective track, the gyro scale and the mismatch come from the yaw reading against the wheel travel', 'the log has no yaw column: the drift is the reading\'s change while the wheels stand still');
+  if (!run.hasYaw) return none('the log has no yaw column: the effective track, the gyro scale, its delay and the mismatch come from the yaw reading against the wheel travel', 'the log has no yaw column: the drift is the reading\'s change while the wheels stand still');
   const notes: string[] = [];
   const all = run.samples.filter((s) => Number.isFinite(s.t) && Number.isFinite(s.left) && Number.isFinite(s.right));
   const sign = cur.turns === 'clockwise' ? 1 : -1;
-  // Each wheel's travel at the row's time less the reading's delay, as degrees of heading for a track of 1 mm
-  // (heading = sign x (left - mismatch x right) / track).
-  const L: number[] = [], R: number[] = [], t: number[] = [], Y: number[] = [], seg: number[] = [];
-  const wheelsAt = (k: number): [number, number] => {
-    if (!(cur.gyroDelay > 0)) return [all[k].left, all[k].right];
-    const tt = all[k].t - cur.gyroDelay;
-    let j = k;
-    while (j > 0 && all[j].t > tt) j--;
-    const a = all[j], b = all[Math.min(j + 1, all.length - 1)];
-    const w = b.t > a.t ? Math.min(1, Math.max(0, (tt - a.t) / (b.t - a.t))) : 0;
-    return [a.left + w * (b.left - a.left), a.right + w * (b.right - a.right)];
-  };
+  // Each wheel's travel as degrees of heading for a track of 1 mm: heading = left' + right' with
+  // left' = sign x left, right' = -sign x right (the right wheel's travel holds the plan's mismatch already).
+  const NA = all.length;
+  const At = new Float64Array(NA), Al = new Float64Array(NA), Ar = new Float64Array(NA);
+  for (let k = 0; k < NA; k++) { At[k] = all[k].t; Al[k] = (sign * all[k].left) / RAD; Ar[k] = (-sign * all[k].right) / RAD; }
+  // The yaw rows.
+  const rowsWithYaw: number[] = [];
+  for (let k = 0; k < NA; k++) { const y = all[k].yaw; if (y !== undefined && Number.isFinite(y)) rowsWithYaw.push(k); }
+  const n = rowsWithYaw.length;
+  if (n < MIN_ROWS) return none(`the log has only ${n} row${n === 1 ? '' : 's'} with a yaw reading: the yaw fit needs at least ${MIN_ROWS}`);
+  const t = new Float64Array(n);
+  for (let i = 0; i < n; i++) t[i] = At[rowsWithYaw[i]];
+  const L = new Float64Array(n), R = new Float64Array(n), rateL = new Float64Array(n), rateR = new Float64Array(n);
+  /** The wheels at each yaw row's time less `delay`, by linear interpolation between rows (and their rates). */
+  const wheelsAt = (delay: number): void => interpolateWheels(At, Al, Ar, t, delay, L, R, rateL, rateR);
+  // Unwrap the reading and find its resets, with the wheels at the plan's delay.
+  wheelsAt(cur.gyroDelay);
+  const Y = new Float64Array(n);
+  const seg = new Int32Array(n);
   let still = 0, stillRows = 0;
   const c0 = track !== undefined && track > 0 ? cur.gyroScale / track : 0;
-  let started = false;
-  let pY = 0, pD = 0, pT = 0, pUn = 0, pL = 0, pR = 0;
-  let segs = 0, resets = 0, wraps = 0;
-  for (let k = 0; k < all.length; k++) {
-    const s = all[k];
-    const yaw = s.yaw;
-    if (yaw === undefined || !Number.isFinite(yaw)) continue;
-    const [l, r] = wheelsAt(k);
-    const lDeg = (sign * l) / RAD, rDeg = (-sign * r) / RAD;
-    // The right wheel's travel comes with the plan's mismatch in it already.
-    const d = lDeg + rDeg;
-    let un: number;
-    if (!started) { un = yaw; segs = 1; started = true; }
-    else {
-      const pred = c0 * (d - pD);
-      const jump = yaw - pY - pred;
-      const turns = Math.round(jump / 360);
-      const rest = jump - 360 * turns;
-      if (Math.abs(rest) <= JUMP_DEG + 0.1 * Math.abs(pred)) {
-        un = pUn + (yaw - pY) - 360 * turns;
-        if (turns !== 0) wraps++;
-      } else { un = yaw; segs++; resets++; }
-      const dt = s.t - pT;
-      if (dt > 0 && Math.abs(s.left - pL) <= STILL_MM && Math.abs(s.right - pR) <= STILL_MM) {
-        still += dt;
-        stillRows++;
-      }
+  let segs = 1, resets = 0, wraps = 0;
+  for (let i = 0; i < n; i++) {
+    const row = all[rowsWithYaw[i]];
+    const yaw = row.yaw!;
+    if (i === 0) { Y[0] = yaw; continue; }
+    const prev = all[rowsWithYaw[i - 1]];
+    const pred = c0 * (L[i] + R[i] - L[i - 1] - R[i - 1]);
+    const jump = yaw - prev.yaw! - pred;
+    const turns = Math.round(jump / 360);
+    const rest = jump - 360 * turns;
+    if (Math.abs(rest) <= JUMP_DEG + 0.1 * Math.abs(pred)) {
+      Y[i] = Y[i - 1] + (yaw - prev.yaw!) - 360 * turns;
+      if (turns !== 0) wraps++;
+    } else { Y[i] = yaw; segs++; resets++; }
+    seg[i] = segs - 1;
+    const dt = row.t - prev.t;
+    if (dt > 0 && Math.abs(row.left - prev.left) <= STILL_MM && Math.abs(row.right - prev.right) <= STILL_MM) {
+      still += dt;
+      stillRows++;
     }
-    t.push(s.t); L.push(lDeg); R.push(rDeg); Y.push(un); seg.push(segs - 1);
-    pY = yaw; pD = d; pT = s.t; pUn = un; pL = s.left; pR = s.right;
   }
-  const n = t.length;
-  if (n < MIN_ROWS) return none(`the log has only ${n} row${n === 1 ? '' : 's'} with a yaw reading: the yaw fit needs at least ${MIN_ROWS}`);
   if (resets > 0) notes.push(`the yaw reading jumped ${resets} time${resets === 1 ? '' : 's'} by more than the wheels explain (a reset of the reading, or a glitch): each stretch between jumps is fitted with its own zero`);
   if (wraps > 0) notes.push(`the yaw reading wrapped ${wraps} time${wraps === 1 ? '' : 's'}; the fit follows it across the wrap`);
   const stillMin = options.stillMin ?? STILL_MIN_S;
@@ -696,73 +727,123 @@ function fitYaw(run: RecordedRun, cur: FitCurrent, options: FitOptions): YawFit 
   if (!withDrift) notes.push(`the drift is taken as zero for the track: the log has ${still.toFixed(2)} s with both wheels still, and the drift needs at least ${stillMin} s`);
   // Offsets per stretch eliminated: centre every column within its stretch.
   const nseg = segs;
-  const centre = (v: number[]): Float64Array => {
-    const sum = new Float64Array(nseg), cnt = new Float64Array(nseg);
-    for (let k = 0; k < n; k++) { sum[seg[k]] += v[k]; cnt[seg[k]]++; }
-    const out = new Float64Array(n);
-    for (let k = 0; k < n; k++) out[k] = v[k] - sum[seg[k]] / cnt[seg[k]];
-    return out;
-  };
-  const Lc = centre(L), Rc = centre(R), Tc = centre(t), Yc = centre(Y);
-  const Dc = new Float64Array(n);
-  for (let k = 0; k < n; k++) Dc[k] = Lc[k] + Rc[k];
+  const sum = new Float64Array(nseg), cnt = new Float64Array(nseg);
+  for (let i = 0; i < n; i++) cnt[seg[i]]++;
+  const centre = (v: Float64Array, out = new Float64Array(n)): Float64Array => centreInto(v, seg, cnt, sum, out);
+  const Tc = centre(t), Yc = centre(Y);
+  const Lc = new Float64Array(n), Rc = new Float64Array(n), Dc = new Float64Array(n);
+  const tCols = withDrift ? [Tc] : [];
   let dMin = Infinity, dMax = -Infinity;
-  for (let k = 0; k < n; k++) { const d = L[k] + R[k]; if (d < dMin) dMin = d; if (d > dMax) dMax = d; }
-  // The robot's turning in this log, degrees of heading on the plan's track (or of the reading).
+  for (let i = 0; i < n; i++) { const d = L[i] + R[i]; if (d < dMin) dMin = d; if (d > dMax) dMax = d; }
+  // The robot's turning in this log, degrees of heading on the plan's track.
   const turnedDeg = track !== undefined && track > 0 ? (dMax - dMin) / track : 0;
   const driftNote = withDrift ? undefined : `the log has ${still.toFixed(2)} s with both wheels still; the drift needs at least ${stillMin} s of standing still (wait a few seconds at the start of the run)`;
   // The mismatch needs both turning and driving straight: the two wheels' columns must not move together.
+  centre(L, Lc); centre(R, Rc);
   let sLL = 0, sRR = 0, sLR = 0;
-  for (let k = 0; k < n; k++) { sLL += Lc[k] * Lc[k]; sRR += Rc[k] * Rc[k]; sLR += Lc[k] * Rc[k]; }
+  for (let i = 0; i < n; i++) { sLL += Lc[i] * Lc[i]; sRR += Rc[i] * Rc[i]; sLR += Lc[i] * Rc[i]; }
   const corr = sLL > 0 && sRR > 0 ? Math.abs(sLR) / Math.sqrt(sLL * sRR) : 1;
-  const tCols = withDrift ? [Tc] : [];
-  let fit2 = corr < MISMATCH_CORR ? regress([Lc, Rc, ...tCols], Yc) : undefined;
-  let mismatchWhy = fit2 ? '' : 'the log does not both drive and turn: the wheels moved together (or against each other) throughout, so their sizes cannot be told apart';
-  const fit1 = regress([Dc, ...tCols], Yc);
-  const residualOf = (cols: ArrayLike<number>[], beta: number[]) => {
+  let twoWheels = corr < MISMATCH_CORR;
+  let mismatchWhy = twoWheels ? '' : 'the log does not both drive and turn: the wheels moved together (or against each other) throughout, so their sizes cannot be told apart';
+  const residualOf = (cols: Float64Array[], beta: number[]) => {
+    const c0 = cols[0], c1 = cols[1] ?? c0, c2 = cols[2] ?? c0;
+    const b0 = beta[0], b1 = cols.length > 1 ? beta[1] : 0, b2 = cols.length > 2 ? beta[2] : 0;
     let sse = 0, lag1 = 0, prevR = 0;
-    for (let k = 0; k < n; k++) {
-      let r = Yc[k];
-      for (let c = 0; c < cols.length; c++) r -= beta[c] * cols[c][k];
+    for (let i = 0; i < n; i++) {
+      const r = Yc[i] - b0 * c0[i] - b1 * c1[i] - b2 * c2[i];
       sse += r * r;
-      if (k > 0 && seg[k] === seg[k - 1]) lag1 += r * prevR;
+      if (i > 0 && seg[i] === seg[i - 1]) lag1 += r * prevR;
       prevR = r;
     }
     return { sse, factor: correlationFactor(lag1, sse) };
   };
-  const mismatchCol = fit2 !== undefined;
-  if (fit2) {
-    // The mismatch's standard error (delta method on c2 / c1); too loose a value is not offered, and the plan's is used.
-    const { beta, inv } = fit2;
-    const { sse, factor } = residualOf([Lc, Rc, ...tCols], beta);
-    const s2 = (sse / Math.max(1, n - nseg - beta.length)) * factor;
-    const m = cur.mismatch * beta[1] / beta[0];
-    const varM = m * m * s2 * (inv[1][1] / (beta[1] * beta[1]) + inv[0][0] / (beta[0] * beta[0]) - (2 * inv[0][1]) / (beta[0] * beta[1]));
-    if (!(Number.isFinite(m) && m > 0 && varM >= 0 && Math.sqrt(varM) < MISMATCH_SE_MAX)) {
-      mismatchWhy = 'the log holds too little straight driving next to its turning to tell the two wheels\' sizes apart';
-      fit2 = undefined;
-    }
-  }
-  const chosen = fit2 ? { cols: [Lc, Rc, ...tCols], fit: fit2 } : fit1 ? { cols: [Dc, ...tCols], fit: fit1 } : undefined;
-  if (!chosen || turnedDeg < 1e-9) {
+  /** The columns and fit with the wheels at `delay`. */
+  /** The columns and fit with the wheels at `delay` (`quick`: the residual from the sums only, for the search). */
+  const fitAt = (delay: number, quick = false) => {
+    wheelsAt(delay);
+    centre(L, Lc); centre(R, Rc);
+    for (let i = 0; i < n; i++) Dc[i] = Lc[i] + Rc[i];
+    const cols = twoWheels ? [Lc, Rc, ...tCols] : [Dc, ...tCols];
+    const fit = regress(cols, Yc);
+    if (!fit) return undefined;
+    return { cols, fit, ...(quick ? { sse: fit.sse, factor: 1 } : residualOf(cols, fit.beta)) };
+  };
+  if (turnedDeg < 1e-9 || !fitAt(cur.gyroDelay)) {
     const why = 'the wheels never turned the robot in this log: the track shows only in turns';
     return {
       params: {
         effectiveTrack: notFound('effectiveTrack', why, n, track),
         gyroScale: notFound('gyroScale', why, n, cur.gyroScale),
-        mismatch: notFound('mismatch', mismatchCol ? why : mismatchWhy, n, cur.mismatch),
+        mismatch: notFound('mismatch', twoWheels ? why : mismatchWhy, n, cur.mismatch),
+        gyroDelay: notFound('gyroDelay', why, n, cur.gyroDelay),
         drift: notFound('drift', driftNote ?? 'the drift could not be separated from the turning in this log', stillRows),
       },
       notes,
     };
   }
-  const { beta, inv } = chosen.fit;
+  // The reading's delay: the residual's minimum over a grid, then Brent's search (only with enough turning).
+  let delay = cur.gyroDelay;
+  let delayWhy = '';
+  if (turnedDeg >= MIN_TURNED_DEG) {
+    const grid: number[] = [];
+    for (let d = DELAY_LO; d <= DELAY_HI + 1e-12; d += DELAY_STEP) grid.push(d);
+    const cost = (d: number) => fitAt(d, true)?.sse ?? Infinity;
+    const sses = grid.map(cost);
+    let best = 0;
+    sses.forEach((v, i) => { if (v < sses[best]) best = i; });
+    if (best === 0 || best === grid.length - 1) {
+      delayWhy = `the yaw reading fits the wheels best at a delay of ${(grid[best] * 1000).toFixed(0)} ms, the end of the range tried: are the log's columns from one moment?`;
+    } else {
+      // To a microsecond: far below any delay's standard error.
+      const m = brent(cost, grid[best - 1], grid[best], grid[best + 1], sses[best], 0, 1e-6);
+      delay = m.f <= sses[best] ? m.x : grid[best];
+    }
+  } else delayWhy = `the robot turned only about ${turnedDeg.toFixed(1)}° in this log; the reading's delay shows in turns`;
+  // The delay's standard error (Gauss–Newton): its column d(model)/d(delay) = -(c1 x left rate + c2 x right
+  // rate), centred per stretch, next to the others.
+  let delaySe = NaN;
+  if (!delayWhy) {
+    const at = fitAt(delay)!;
+    const b = at.fit.beta;
+    const g = new Float64Array(n);
+    for (let i = 0; i < n; i++) g[i] = twoWheels ? -(b[0] * rateL[i] + b[1] * rateR[i]) : -b[0] * (rateL[i] + rateR[i]);
+    const full = regress([...at.cols, centre(g)], Yc);
+    const dofD = n - nseg - b.length - 1;
+    if (full && dofD > 0) delaySe = Math.sqrt((at.sse / dofD) * at.factor * full.inv[b.length][b.length]);
+    else delayWhy = 'the delay could not be separated from the rest in this log';
+  }
+  // The other values are fitted at the delay found only where it differs from the plan's by more than its
+  // interval and a quarter of the log's row spacing; a small difference there is within the rows' timing,
+  // and the wheels' own noise, interpolated between rows, would only blur them.
+  const rowStep = medianStep(t);
+  const useDelay = !delayWhy && Math.abs(delay - cur.gyroDelay) > Math.max(Z95 * delaySe, 0.25 * rowStep);
+  const fittedDelay = delay;
+  if (!useDelay) delay = cur.gyroDelay;
+  if (twoWheels) {
+    // Keep the mismatch only where the log tells it well (delta method on c2 / c1).
+    const at = fitAt(delay);
+    const m = at ? (cur.mismatch * at.fit.beta[1]) / at.fit.beta[0] : NaN;
+    const varM = at ? mismatchVariance(at.fit.beta, at.fit.inv, (at.sse / Math.max(1, n - nseg - at.fit.beta.length)) * at.factor, m) : NaN;
+    if (!(Number.isFinite(m) && m > 0 && varM >= 0 && Math.sqrt(varM) < MISMATCH_SE_MAX)) {
+      twoWheels = false;
+      mismatchWhy = 'the log holds too little straight driving next to its turning to tell the two wheels\' sizes apart';
+    }
+  }
+  const chosen = fitAt(delay)!;
+  const { beta } = chosen.fit;
+  let inv = chosen.fit.inv;
   const p = beta.length;
-  const { sse, factor } = residualOf(chosen.cols, beta);
-  const dof = n - nseg - p;
-  const rmsDeg = Math.sqrt(sse / n);
+  let delayIndex = -1;
+  if (useDelay) {
+    const g = new Float64Array(n);
+    for (let i = 0; i < n; i++) g[i] = twoWheels ? -(beta[0] * rateL[i] + beta[1] * rateR[i]) : -beta[0] * (rateL[i] + rateR[i]);
+    const full = regress([...chosen.cols, centre(g)], Yc);
+    if (full) { inv = full.inv; delayIndex = p; }
+  }
+  const dof = n - nseg - p - (delayIndex >= 0 ? 1 : 0);
+  const rmsDeg = Math.sqrt(chosen.sse / n);
   if (!(dof > 0)) return none(`the log's ${n} yaw rows in ${nseg} stretches leave nothing to fit with`);
-  const sigma2 = (sse / dof) * factor;
+  const sigma2 = (chosen.sse / dof) * chosen.factor;
   const c = beta[0];
   const seC = Math.sqrt(sigma2 * inv[0][0]);
   let effectiveTrack: FitParam, gyroScale: FitParam;
@@ -787,20 +868,70 @@ function fitYaw(run: RecordedRun, cur: FitCurrent, options: FitOptions): YawFit 
       : notFound('gyroScale', 'the plan gives no track to tell the scale from', n);
   }
   let mismatch: FitParam;
-  if (fit2) {
+  if (twoWheels) {
     // The right wheel's travel already holds the plan's mismatch: the fit finds the true one over it.
-    const m = cur.mismatch * beta[1] / beta[0];
-    const se = Math.abs(m) * Math.sqrt(Math.max(0, sigma2 * (inv[1][1] / (beta[1] * beta[1]) + inv[0][0] / (beta[0] * beta[0]) - (2 * inv[0][1]) / (beta[0] * beta[1]))));
-    mismatch = found('mismatch', m, se, n, cur.mismatch, 'from the heading the yaw reading shows against the two wheels\' travel (straight drives show it best)');
+    const m = (cur.mismatch * beta[1]) / beta[0];
+    mismatch = found('mismatch', m, Math.sqrt(Math.max(0, mismatchVariance(beta, inv, sigma2, m))), n, cur.mismatch,
+      'from the heading the yaw reading shows against the two wheels\' travel (straight drives show it best)');
   } else {
     mismatch = notFound('mismatch', mismatchWhy, n, cur.mismatch);
     notes.push(`the track assumes the plan's mismatch ${cur.mismatch}: ${mismatchWhy}`);
+  }
+  let gyroDelay: FitParam;
+  if (!delayWhy) {
+    const se = delayIndex >= 0 ? Math.sqrt(sigma2 * inv[delayIndex][delayIndex]) : delaySe;
+    gyroDelay = found('gyroDelay', fittedDelay, se, n, cur.gyroDelay, useDelay
+      ? 'how late the yaw reading is against the wheels\' travel; the track, scale, mismatch and drift are fitted at this delay'
+      : `how late the yaw reading is against the wheels' travel; within a quarter of the log's row spacing (or its interval) of the plan's ${(cur.gyroDelay * 1000).toFixed(0)} ms, so the rest is fitted at the plan's`);
+    // Below a quarter row the difference is within the rows' timing: not worth an edit.
+    if (!useDelay) gyroDelay.differs = false;
+    if (gyroDelay.high !== undefined && gyroDelay.high < 0) {
+      gyroDelay.note = `the yaw reading leads the wheels by ${(-fittedDelay * 1000).toFixed(1)} ms: is the log's yaw column one row early? ${gyroDelay.note}`;
+    }
+  } else {
+    gyroDelay = notFound('gyroDelay', delayWhy, n, cur.gyroDelay);
+    if (turnedDeg >= MIN_TURNED_DEG) notes.push(`the fit uses the plan's gyro delay (${(cur.gyroDelay * 1000).toFixed(0)} ms): ${delayWhy}`);
   }
   const driftParam = withDrift
     ? found('drift', beta[p - 1], Math.sqrt(sigma2 * inv[p - 1][p - 1]), stillRows, undefined,
       `from ${still.toFixed(1)} s with both wheels still (fitted with the turning)`)
     : notFound('drift', driftNote!, stillRows);
-  return { params: { effectiveTrack, gyroScale, mismatch, drift: driftParam }, rmsDeg, notes };
+  return { params: { effectiveTrack, gyroScale, mismatch, gyroDelay, drift: driftParam }, rmsDeg, notes };
+}
+
+/** Each wheel's travel (and rate) at times t less `delay`, by linear interpolation between the rows (At, Al, Ar). */
+function interpolateWheels(At: Float64Array, Al: Float64Array, Ar: Float64Array, t: Float64Array, delay: number,
+  L: Float64Array, R: Float64Array, rateL: Float64Array, rateR: Float64Array): void {
+  const NA = At.length, n = t.length;
+  let j = 0;
+  for (let i = 0; i < n; i++) {
+    const tt = t[i] - delay;
+    while (j < NA - 2 && At[j + 1] <= tt) j++;
+    while (j > 0 && At[j] > tt) j--;
+    const j1 = j + 1 < NA ? j + 1 : NA - 1;
+    const span = At[j1] - At[j];
+    const w = span > 0 ? Math.min(1, Math.max(0, (tt - At[j]) / span)) : 0;
+    const dl = Al[j1] - Al[j], dr = Ar[j1] - Ar[j];
+    L[i] = Al[j] + w * dl;
+    R[i] = Ar[j] + w * dr;
+    rateL[i] = span > 0 ? dl / span : 0;
+    rateR[i] = span > 0 ? dr / span : 0;
+  }
+}
+
+/** v less its mean within each stretch, into out. */
+function centreInto(v: Float64Array, seg: Int32Array, cnt: Float64Array, sum: Float64Array, out: Float64Array): Float64Array {
+  const n = v.length;
+  sum.fill(0);
+  for (let i = 0; i < n; i++) sum[seg[i]] += v[i];
+  for (let i = 0; i < sum.length; i++) sum[i] /= cnt[i];
+  for (let i = 0; i < n; i++) out[i] = v[i] - sum[seg[i]];
+  return out;
+}
+
+/** The variance of m = mismatch x c2 / c1 (delta method) from the coefficients' covariance sigma2 x inv. */
+function mismatchVariance(beta: number[], inv: number[][], sigma2: number, m: number): number {
+  return m * m * sigma2 * (inv[1][1] / (beta[1] * beta[1]) + inv[0][0] / (beta[0] * beta[0]) - (2 * inv[0][1]) / (beta[0] * beta[1]));
 }
 
 // ---------------------------------------------------------------------------
@@ -814,7 +945,7 @@ export function fitRobot(run: RecordedRun, current: FitCurrent, options: FitOpti
     const params = {} as Record<FitName, FitParam>;
     const cur: Record<FitName, number | undefined> = {
       motorSpeed: current.motorSpeed, motorLag: current.motorLag, stall: current.stall,
-      effectiveTrack: current.effectiveTrack, gyroScale: current.gyroScale, mismatch: current.mismatch, drift: undefined,
+      effectiveTrack: current.effectiveTrack, gyroScale: current.gyroScale, mismatch: current.mismatch, gyroDelay: current.gyroDelay, drift: undefined,
     };
     for (const name of Object.keys(LABELS) as FitName[]) params[name] = notFound(name, why, 0, cur[name]);
     return { params, residual: {}, notes: [why], rows, source: run.source, noiseDrift: current.noiseDrift };
@@ -848,9 +979,12 @@ export interface FitFixOptions {
   all?: boolean;
 }
 
-/** A value rounded to a tenth of its standard error's order (at most 6 significant digits). */
-export function roundForPlan(v: number, se: number): number {
-  const step = se > 0 ? Math.pow(10, Math.floor(Math.log10(se)) - 1) : 0;
+/**
+ * A value rounded to a tenth of its standard error's order, but never finer than `finest` (a step
+ * below what the robot repeats from run to run), at most 6 significant digits.
+ */
+export function roundForPlan(v: number, se: number, finest = 0): number {
+  const step = Math.max(finest, se > 0 ? Math.pow(10, Math.floor(Math.log10(se)) - 1) : 0);
   const r = step > 0 ? Math.round(v / step) * step : v;
   return Number(r.toPrecision(6));
 }
@@ -888,15 +1022,15 @@ export function fitFixes(text: string, fit: FitResult, options: FitFixOptions = 
   // motor S lag T stall P
   const motorParts: { key: 'speed' | 'lag' | 'stall'; text: string; say: string }[] = [];
   if (offer(P.motorSpeed)) {
-    const v = roundForPlan(P.motorSpeed.value!, P.motorSpeed.se!);
+    const v = roundForPlan(P.motorSpeed.value!, P.motorSpeed.se!, 0.1);
     motorParts.push({ key: 'speed', text: `${num(v)} deg/s`, say: `motor speed ${num(v)} deg/s (95 %: ${interval(P.motorSpeed)})` });
   }
   if (offer(P.motorLag)) {
-    const v = roundForPlan(P.motorLag.value! * 1000, P.motorLag.se! * 1000);
+    const v = roundForPlan(P.motorLag.value! * 1000, P.motorLag.se! * 1000, 0.1);
     motorParts.push({ key: 'lag', text: `${num(v)} ms`, say: `lag ${num(v)} ms (95 %: ${interval(P.motorLag, 1000)} ms)` });
   }
   if (offer(P.stall)) {
-    const v = roundForPlan(P.stall.value! * 100, P.stall.se! * 100);
+    const v = roundForPlan(P.stall.value! * 100, P.stall.se! * 100, 0.1);
     motorParts.push({ key: 'stall', text: `${num(v)}%`, say: `stall ${num(v)} % (between ${num(P.stall.low! * 100)} and ${num(P.stall.high! * 100)} %)` });
   }
   if (motorParts.length) {
@@ -921,7 +1055,7 @@ export function fitFixes(text: string, fit: FitResult, options: FitFixOptions = 
   // track W effective WE
   if (offer(P.effectiveTrack)) {
     const p = P.effectiveTrack;
-    const v = roundForPlan(p.value!, p.se!);
+    const v = roundForPlan(p.value!, p.se!, 0.01);
     const stmt = find('track');
     const say = `effective track ${num(v)} mm (95 %: ${interval(p)} mm, assuming the gyro scale ${fitScaleText(p)})`;
     if (stmt) {
@@ -934,7 +1068,7 @@ export function fitFixes(text: string, fit: FitResult, options: FitFixOptions = 
   // wheel D mismatch E
   if (offer(P.mismatch)) {
     const p = P.mismatch;
-    const v = roundForPlan(p.value!, p.se!);
+    const v = roundForPlan(p.value!, p.se!, 1e-5);
     const stmt = find('wheel');
     if (stmt) {
       const say = `wheel mismatch ${num(v)} (95 %: ${interval(p)})`;
@@ -944,12 +1078,26 @@ export function fitFixes(text: string, fit: FitResult, options: FitFixOptions = 
       said.push(say);
     }
   }
+  // gyro delay T (only a delay the robot can have: not below zero)
+  const gyroStmt = find('gyro');
+  let delayText: string | undefined;
+  if (offer(P.gyroDelay) && P.gyroDelay.value! >= 0) {
+    const p = P.gyroDelay;
+    const v = roundForPlan(p.value! * 1000, p.se! * 1000, 0.1);
+    delayText = `${num(v)} ms`;
+    const say = `gyro delay ${num(v)} ms (95 %: ${interval(p, 1000)} ms)`;
+    const edits = [gyroStmt ? option(gyroStmt, gyroStmt.delay, 'delay', delayText) : newLine(`gyro delay ${delayText}`)];
+    fixes.push({ title: `Set the ${say}${from}`, edits, changesPath: true });
+    recommended.push(...edits);
+    said.push(say);
+  }
   // gyro scale F: instead of the track
   if (offer(P.gyroScale)) {
     const p = P.gyroScale;
-    const v = roundForPlan(p.value!, p.se!);
-    const stmt = find('gyro');
-    const edit = stmt ? option(stmt, stmt.scale, 'scale', num(v)) : newLine(`gyro scale ${num(v)}`);
+    const v = roundForPlan(p.value!, p.se!, 1e-5);
+    const stmt = gyroStmt;
+    // Without a gyro line, the new one carries the delay too (two gyro lines would be an error).
+    const edit = stmt ? option(stmt, stmt.scale, 'scale', num(v)) : newLine(`gyro ${delayText ? `delay ${delayText} ` : ''}scale ${num(v)}`);
     fixes.push({ title: `Set the gyro scale ${num(v)} (95 %: ${interval(p)}) instead of the effective track, which it assumes${from}`, edits: [edit], changesPath: true });
   }
   // noise drift R: only where the drift seen is larger than the plan's spread allows for.
@@ -958,7 +1106,7 @@ export function fitFixes(text: string, fit: FitResult, options: FitFixOptions = 
     const current = fit.noiseDrift;
     const lowAbs = Math.max(0, Math.min(Math.abs(d.low!), Math.abs(d.high!)) * (Math.sign(d.low!) === Math.sign(d.high!) ? 1 : 0));
     if (options.all || current === undefined || lowAbs > current) {
-      const perMin = roundForPlan(Math.abs(d.value) * 60, d.se * 60);
+      const perMin = roundForPlan(Math.abs(d.value) * 60, d.se * 60, 0.01);
       const stmt = find('noise');
       const edit = stmt ? option(stmt, stmt.drift, 'drift', `${num(perMin)} deg/min`) : newLine(`noise drift ${num(perMin)} deg/min`);
       const say = `gyro drift ${num(perMin)} deg/min in the noise model (this run drifted ${num(roundForPlan(d.value * 60, d.se * 60))} deg/min, 95 %: ${interval(d, 60)})`;
