@@ -7,7 +7,7 @@ import * as vscode from 'vscode';
 import {
   calibratePlan, parseRecord, planCalibrationHover, recordHover, writeCalibrationRuns, type PlanCalibration,
 } from '../core/calibrate';
-import { getAnalysis, isPlan, LANGUAGE_ID } from './analysis';
+import { getAnalysis, isPlan, LANGUAGE_ID, onDidAnalyse } from './analysis';
 import { toCodeAction, toHover, toRange } from './convert';
 
 export const RECORD_LANGUAGE_ID = 'veer-calibration';
@@ -120,6 +120,12 @@ export function registerCalibration(context: vscode.ExtensionContext): void {
     vscode.workspace.onDidOpenTextDocument((d) => void refresh(d)),
     vscode.workspace.onDidChangeTextDocument((e) => void refresh(e.document)),
     vscode.workspace.onDidCloseTextDocument((d) => problems.delete(d.uri)),
+    // A changed plan changes what its open record computes (a missing track, another wheel).
+    onDidAnalyse((analysis) => {
+      const recordUri = recordUriOf(analysis.uri);
+      const record = recordUri && vscode.workspace.textDocuments.find((d) => d.uri.toString() === recordUri.toString());
+      if (record) void refresh(record);
+    }),
   );
   for (const d of vscode.workspace.textDocuments) void refresh(d);
 }
