@@ -333,6 +333,7 @@ function render(file: string, output: string, run: string | undefined, strict: b
   const cloud = spread.samples !== undefined
     ? sampleCloud(result, spread.samples, spread.seed, progressReporter(io, `sampling ${spread.samples} runs of ${file}`))
     : undefined;
+  if (cloud && cloud.spots.length === 0) io.err(`${file}: no sampled end points to draw: the plan needs \`track\` and a run with a start and a motion\n`);
   // `--log`: the recorded run's reconstructed path over the plan (docs/recorded-runs.md).
   const recorded = log ? overlayForRender(result, log.file, log.values, runSel) : undefined;
   if (recorded && 'error' in recorded) throw new FileError(recorded.error);

@@ -1,7 +1,7 @@
 // `veer render` with the spread: --spread marks|all|off, --no-spread, and the
 // Monte Carlo cloud with --samples N [--seed S].
 import { strict as assert } from 'node:assert';
-import { mkdtempSync, readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runCli } from '../../src/cli/main';
@@ -46,6 +46,14 @@ describe('veer render: the spread', () => {
     assert.match(svg, />sampled (&gt; 99|&lt; 1|\d+) %</);
     assert.equal(rendered('--samples', '300', '--seed', '5'), svg);
     assert.notEqual(rendered('--samples', '300', '--seed', '6'), svg);
+  });
+
+  it('says when --samples has nothing to sample', () => {
+    const plan = join(mkdtempSync(join(tmpdir(), 'veer-spread-')), 'empty.veer');
+    writeFileSync(plan, 'field 1000 by 1000\n');
+    const r = run(['render', plan, '-o', `${plan}.svg`, '--samples', '10']);
+    assert.equal(r.status, 0, r.err);
+    assert.match(r.err, /no sampled end points to draw: the plan needs `track` and a run with a start and a motion/);
   });
 
   it('refuses spread options it cannot follow, saying what to write', () => {
