@@ -221,6 +221,14 @@ describe('recorded runs: comparison with the plan', () => {
     }
   });
 
+  it('a plan with two runs: the line column says which; without it, the run must be named', () => {
+    const two = checkPlan(`${planText}\nrun "back"\nstart (1825, 1010) heading 180\ndrive 500\n`, { fileName: 'two.veer' });
+    assert.equal(replayLog(two, demo.csv, 'demo.csv').comparison.runIndex, 0);
+    const noLine = demo.csv.replace(/,line\n/, '\n').replace(/,\d+\n/g, '\n');
+    throwsAt(() => replayLog(two, noLine, 'demo.csv'), /the plan has 2 runs \("to the dock", "back"\): say which one the log recorded \(`--run NAME`\)/);
+    assert.equal(replayLog(two, noLine, 'demo.csv', {}, 0).comparison.alignedBy, 'time');
+  });
+
   it('a log of another plan, and a unit mix-up, are refused with the row and column', () => {
     const other = demo.csv.replace(/,17\n/g, ',42\n');
     throwsAt(() => replayLog(result, other, 'other.csv'), /line \d+, column 7 \(line\): plan line 42 is not a motion of run "to the dock" \(lines 14 to 20\)/, undefined, 7);

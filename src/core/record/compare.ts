@@ -194,12 +194,14 @@ export function compareRun(plan: RunResult, runIndex: number, run: RecordedRun, 
     while (rest > 0 && Math.abs(s[rest - 1].left - s[n - 1].left) + Math.abs(s[rest - 1].right - s[n - 1].right) < REST_MM) rest--;
     const lastMoving = [...motions].reverse().find((m) => m.distance > 0 || m.turned !== 0);
     const from = firstMoving ? base(firstMoving) : 0;
-    const until = lastMoving ? base(lastMoving) + (predictedAll ? lastMoving.predicted!.duration : lastMoving.duration) : from;
+    const lastDuration = lastMoving ? (predictedAll ? lastMoving.predicted!.duration : lastMoving.duration) : 0;
+    const until = lastMoving ? base(lastMoving) + (Number.isFinite(lastDuration) ? lastDuration : 0) : from;
     timeScale = until > from && s[rest].t > since ? Math.min(TIME_SCALE_LIMIT, Math.max(1 / TIME_SCALE_LIMIT, (s[rest].t - since) / (until - from))) : 1;
     timeOffset = since - from * timeScale;
     for (const seg of motions) {
       const t0 = base(seg) * timeScale + timeOffset;
-      const dur = (predictedAll ? seg.predicted!.duration : seg.duration) * timeScale;
+      const own = predictedAll ? seg.predicted!.duration : seg.duration;
+      const dur = (Number.isFinite(own) ? own : 0) * timeScale;
       if (t0 > s[n - 1].t) continue; // the log ends before this motion
       const from = indexAt(run, Math.max(0, t0));
       const to = indexAt(run, Math.min(s[n - 1].t, t0 + dur));
