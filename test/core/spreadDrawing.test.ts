@@ -108,25 +108,35 @@ describe('render: the spread', () => {
     }
   });
 
-  it('the heading wedge spans the planned heading ± 1.96 standard deviations', () => {
-    const doc = parse(renderSvg(result, { spread: 'all' }));
+  for (const turns of ['clockwise', 'counterclockwise'] as const) {
+    it(`the heading wedge spans the planned heading ± 1.96 standard deviations (turns ${turns})`, () => {
+      const r = turns === 'clockwise' ? result : checkPlan(`turns counterclockwise\n${PLAN.replace('turn 90', 'turn -90').replace('turn -90\ndrive 400', 'turn 90\ndrive 400')}`, { simulate: false });
+      wedgesMatch(r, turns);
+    });
+  }
+
+  function wedgesMatch(r: CheckResult, turns: 'clockwise' | 'counterclockwise'): void {
+    const doc = parse(renderSvg(r, { spread: 'all' }));
     const { a: fa, b: fb } = frameOf(doc);
-    const segs = result.runs[0].segments;
-    for (const el of all(doc, hasClass('heading-band'))) {
+    const segs = r.runs[0].segments;
+    const wedges = all(doc, hasClass('heading-band'));
+    assert.equal(wedges.length, SPIN_LINES.length + 1);
+    for (const el of wedges) {
       const owner = el.getAttribute('data-line') !== null ? el : el.parentNode as Element;
       const line = Number(owner.getAttribute('data-line'));
       const seg = segs.filter((s) => s.line === line).pop()!;
       const pts = [...el.getAttribute('d')!.matchAll(/[ML]([-\d.e]+) ([-\d.e]+)/g)].map((m) => ({ x: Number(m[1]) + fa, y: fb - Number(m[2]) }));
       const [apex, first, last] = [pts[0], pts[1], pts[pts.length - 1]];
-      // Compass bearing of a point seen from the apex (clockwise from +y, the plan's convention: clockwise file).
-      const bearing = (p: { x: number; y: number }) => (Math.atan2(p.x - apex.x, p.y - apex.y) * 180) / Math.PI;
+      // The file's heading of a point seen from the apex: 0 up the field (+y), positive clockwise or counterclockwise.
+      const sign = turns === 'clockwise' ? 1 : -1;
+      const bearing = (p: { x: number; y: number }) => (sign * Math.atan2(p.x - apex.x, p.y - apex.y) * 180) / Math.PI;
       const half = Z95 * seg.spread!.headingSd;
       const wrap = (deg: number) => ((deg + 540) % 360) - 180;
       assert.ok(Math.abs(wrap(bearing(first) - (seg.end.heading - half))) < 0.05, `line ${line + 1}: ${bearing(first)} vs ${seg.end.heading - half}`);
       assert.ok(Math.abs(wrap(bearing(last) - (seg.end.heading + half))) < 0.05, `line ${line + 1}: ${bearing(last)} vs ${seg.end.heading + half}`);
       assert.ok(half > 0.1, `line ${line + 1}: a visible band (${half}°)`);
     }
-  });
+  }
 
   it('writes only elements and attributes on the preview\'s allow-list, with every layer drawn', () => {
     const svg = renderSvg(result, { spread: 'all', cloud: sampleCloud(result, 200), standalone: false });
