@@ -224,6 +224,13 @@ describe('fitting the robot model to a recorded run', () => {
       assert.match(still.params.effectiveTrack.note!, /turned only about/);
     });
 
+    it('a plan without a track: the yaw fit says to add one', () => {
+      const fit = fitRobot(log(2), { ...PLAN, effectiveTrack: undefined });
+      assertFinite(fit);
+      assert.match(fit.params.effectiveTrack.note!, /no `track` line/);
+      within(fit, 'motorSpeed', 900);
+    });
+
     it('a log that never commands a power too small to move the wheels: the stall is only bounded', () => {
       const schedule = calibrationSchedule().map((s) => (s.uL !== 0 && Math.abs(s.uL) < 0.06 ? { ...s, uL: 0, uR: 0 } : s));
       const fit = fitRobot(simulatedLog(TRUTH, schedule, { seed: 6, ...NOISE }), PLAN);

@@ -769,7 +769,9 @@ function fitYaw(run: RecordedRun, cur: FitCurrent, options: FitOptions): YawFit 
     return { cols, fit, ...(quick ? { sse: fit.sse, factor: 1 } : residualOf(cols, fit.beta)) };
   };
   if (turnedDeg < 1e-9 || !fitAt(cur.gyroDelay)) {
-    const why = 'the wheels never turned the robot in this log: the track shows only in turns';
+    const why = track === undefined || !(track > 0)
+      ? 'the plan has no `track` line: add the measured track (middle of one tyre to the other) first, e.g. `track 120 mm`'
+      : 'the wheels never turned the robot in this log: the track shows only in turns';
     return {
       params: {
         effectiveTrack: notFound('effectiveTrack', why, n, track),
