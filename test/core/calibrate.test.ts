@@ -363,5 +363,10 @@ describe('calibration: the setup edits and hovers', () => {
     const { edits } = calibrated(plan, 'gyro 10 turns reads 3590, 3591\nspin 10 turns measured 3600, 3610\n');
     const text = applyEdits(plan, edits.all!.edits);
     assert.match(text, /^wheel 56\ntrack 120 effective 119\.\d+\ngyro scale 0\.997\d*\n$/);
+    // The track above the wheel: the new `gyro` line goes between them, and the printed lines keep them apart.
+    const upside = 'track 120\nwheel 56\n';
+    const other = calibrated(upside, 'gyro 10 turns reads 3590, 3591\ndrive 1000 measured 990, 991\n').edits;
+    assert.match(applyEdits(upside, other.all!.edits), /^track 120\ngyro scale 0\.997\d*\nwheel 55\.4\d*\n$/);
+    assert.deepEqual(other.lines.map((l) => l.split(' ')[0]), ['wheel', 'gyro']);
   });
 });

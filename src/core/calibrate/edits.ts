@@ -109,7 +109,9 @@ function linesAfter(result: CheckResult, text: string, fix: Fix | undefined): st
   const kinds = new Set(['wheel', 'track', 'gyro']);
   const out: string[] = [];
   const byLine = new Map<number, TextEdit[]>();
-  for (const e of fix.edits) byLine.set(e.range.start.line, [...(byLine.get(e.range.start.line) ?? []), e]);
+  // A whole new line (it ends with a line break) is listed as it is; the others edit their statement.
+  const inserted = fix.edits.filter((e) => e.newText.endsWith('\n'));
+  for (const e of fix.edits) if (!inserted.includes(e)) byLine.set(e.range.start.line, [...(byLine.get(e.range.start.line) ?? []), e]);
   for (const s of result.ast.statements) {
     if (!kinds.has(s.kind)) continue;
     const edits = byLine.get(s.line);
@@ -117,8 +119,7 @@ function linesAfter(result: CheckResult, text: string, fix: Fix | undefined): st
     byLine.delete(s.line);
     out.push(applyToStatement(s, lines[s.line] ?? '', edits));
   }
-  // Inserted lines (a new `gyro` line).
-  for (const edits of byLine.values()) for (const e of edits) out.push(e.newText.trim());
+  for (const e of inserted) out.push(e.newText.trim());
   return out;
 }
 
