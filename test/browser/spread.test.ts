@@ -111,6 +111,11 @@ describe('path preview: the spread and the sampled cloud (Chromium)', function (
     await host.page.mouse.wheel(0, -900);
     await host.page.waitForFunction(() => !document.body.classList.contains('is-fitted'));
     await host.page.screenshot({ path: 'test-output/preview-cloud-zoomed.png' });
+    // In a dark theme the dots take the run's dark-theme colour.
+    await host.setTheme('vscode-dark');
+    assert.strictEqual(await host.page.$eval('svg.drawing .cloud path', (p) => getComputedStyle(p).stroke),
+      await host.page.$eval('svg.drawing .path.run-0', (g) => getComputedStyle(g).color));
+    await host.page.screenshot({ path: 'test-output/preview-cloud-dark.png' });
 
     // The next edit's drawing comes without the cloud: the dots and the note go.
     await shown(renderWith(5, 'marks'));
