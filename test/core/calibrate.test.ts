@@ -50,7 +50,7 @@ describe('calibration: the square test (Borenstein & Feng 1996)', () => {
     assert.equal(calibration.square.formula.mismatch.toFixed(6), '1.000900');
     assert.equal(calibration.square.formula.trackFactor.toFixed(6), '1.001594');
     // The values offered are the exact laps' (Newton's method on the lap's arcs, started from the formulas):
-    // they differ from the first-order formulas by the square of the errors, here below 1e-4.
+    // they differ from the first-order formulas by the products of the errors, here below 1e-4.
     close(calibration.square.mismatch.value, 1.0009004, 1e-5, 'exact mismatch');
     close(calibration.square.trackFactor.value, 1.0015941, 1e-4, 'exact track factor');
     // The effective track the exact factor gives: 120 × factor (the wheel unchanged).
@@ -98,7 +98,7 @@ describe('calibration: the square test (Borenstein & Feng 1996)', () => {
       assert.ok(calibration?.square, JSON.stringify(calibration?.problems));
       close(calibration.square.mismatch.value, Ed, 5e-5, `mismatch (E_d ${Ed}, E_b ${Eb})`);
       close(calibration.square.trackFactor.value, Eb, 5e-5, `track factor (E_d ${Ed}, E_b ${Eb})`);
-      // The paper's first-order formulas alone miss by more than that for errors this size (the square of the errors).
+      // The paper's first-order formulas alone miss by more than that for errors this size (the products of the errors they leave out).
       assert.ok(Math.abs(calibration.square.formula.trackFactor - Eb) > 5e-5, `${calibration.square.formula.trackFactor}`);
     }
   });
