@@ -8,7 +8,7 @@ import { checkPlan, ExpressionCache } from '../core';
 import { calibratePlan, calibrationJson, calibrationText, MAX_RECORD_CHARS, writeCalibrationRuns } from '../core/calibrate';
 import type { CliIo } from './main';
 
-export const CALIBRATE_HELP = `  veer calibrate PLAN --runs OUT.veer     write the calibration runs for the plan's robot (a straight drive,
+export const CALIBRATE_HELP = `  veer calibrate PLAN --runs OUT.veer      write the calibration runs for the plan's robot (a straight drive,
                                            spins by encoders, spins for the gyro, the square test), sized to
                                            its field, with what to measure written as comments
   veer calibrate PLAN [--record FILE] [--json]
