@@ -24,12 +24,26 @@ export type SamplingOutcome =
   | { status: 'cancelled' }
   | { status: 'stale' };
 
+/** The plan being sampled, while a sampling runs: one at a time. */
+let sampling: string | undefined;
+
 export function registerSampling(context: vscode.ExtensionContext): void {
   const script = vscode.Uri.joinPath(context.extensionUri, 'dist', 'sampleWorker.js').fsPath;
-  context.subscriptions.push(vscode.commands.registerCommand(SAMPLE_COMMAND, () => sampleActivePlan(script)));
+  context.subscriptions.push(vscode.commands.registerCommand(SAMPLE_COMMAND, async () => {
+    if (sampling) {
+      void vscode.window.showInformationMessage(`Veer is already sampling the runs of ${sampling}: wait for it, or cancel it in its notification.`);
+      return undefined;
+    }
+    sampling = 'a plan';
+    try {
+      return await sampleActivePlan(script, (name) => { sampling = name; });
+    } finally {
+      sampling = undefined;
+    }
+  }));
 }
 
-async function sampleActivePlan(script: string): Promise<SamplingOutcome | undefined> {
+async function sampleActivePlan(script: string, started: (name: string) => void): Promise<SamplingOutcome | undefined> {
   const active = vscode.window.activeTextEditor?.document;
   const document = active && isPlan(active) ? active : vscode.window.visibleTextEditors.map((e) => e.document).find(isPlan);
   if (!document) {
@@ -48,8 +62,9 @@ async function sampleActivePlan(script: string): Promise<SamplingOutcome | undef
     void vscode.window.showInformationMessage('Nothing to sample yet: the plan needs a robot with its track width and at least one run.');
     return undefined;
   }
-  if (!isPreviewing(document)) await vscode.commands.executeCommand(OPEN_PREVIEW_COMMAND, document.uri);
   const name = document.uri.path.split('/').pop() ?? document.uri.toString();
+  started(name);
+  if (!isPreviewing(document)) await vscode.commands.executeCommand(OPEN_PREVIEW_COMMAND, document.uri);
   const request: SampleRequest = { text, fileName: name, count, seed: SEED };
   let reply: { cloud: SpreadCloud; ms: number } | 'cancelled';
   try {

@@ -85,6 +85,14 @@ describe('Veer: Sample the Runs (Monte Carlo)', () => {
     assert.ok(worst < outcome.ms / 2, `the host's longest pause (${worst} ms) is most of the sampling's ${outcome.ms.toFixed(0)} ms`);
   });
 
+  it('runs one sampling at a time: a second request while one runs is turned away', async () => {
+    await config().update('sampling.count', 15000, vscode.ConfigurationTarget.Global);
+    const first = vscode.commands.executeCommand('veer.sampleRuns');
+    const second = await vscode.commands.executeCommand('veer.sampleRuns');
+    assert.equal(second, undefined);
+    assert.equal((await first).status, 'done');
+  });
+
   it('refuses a count outside 10 to 100,000 without sampling', async () => {
     await config().update('sampling.count', 3, vscode.ConfigurationTarget.Global);
     const outcome = await vscode.commands.executeCommand('veer.sampleRuns');
