@@ -178,7 +178,7 @@ export function replayJson(planFile: string, logFile: string, r: Replay, fit: Fi
       kind: m.kind,
       label: m.label,
       planned: { start_s: r3(m.planned.start), duration_s: r3(m.planned.duration), end: poseJson(m.planned.end) },
-      ...(m.predicted ? { predicted: { start_s: r3(m.predicted.start), duration_s: Number.isFinite(m.predicted.duration) ? r3(m.predicted.duration) : null, end: poseJson(m.predicted.end) } } : {}),
+      ...(m.predicted ? { predicted: { start_s: r3(m.predicted.start), duration_s: Number.isFinite(m.predicted.duration) ? r3(m.predicted.duration) : null, end: poseJson(m.predicted.end), ...(m.predicted.atRest ? { at_rest: true } : {}) } } : {}),
       ...(m.recorded ? {
         recorded: {
           start_s: r3(m.recorded.start), duration_s: r3(m.recorded.duration),
@@ -244,6 +244,7 @@ export function replayText(planFile: string, logFile: string, r: Replay, fit: Fi
     lines.push(`${lpad(String(m.line), 4)}  ${pad(m.label, 22)} ${lpad('', 6)}${timeText(m)}   ${errText(m.vsPlanned)}   ${errText(m.vsPredicted)}`);
   }
   const last = [...c.motions].reverse().find((m) => m.recorded);
+  if (last?.predicted?.atRest) lines.push(`  (line ${last.line}, the log's last motion: its time and end run until the wheels come to rest, and its prediction is where the predicted robot comes to rest)`);
   if (last?.recorded) {
     lines.push('');
     const e = last.vsPlanned!;

@@ -202,6 +202,11 @@ describe('recorded runs: comparison with the plan', () => {
     // off by several degrees (0.008 × 2315 mm / 123 mm = 8.6° from the mismatch alone, hand estimate).
     assert.ok(Math.abs(last.recorded!.endWheels.heading - demo.trueEnd.heading) > 4);
     assert.ok(Math.abs(last.recorded!.end.heading - demo.trueEnd.heading) < 1.5);
+    // The last motion ends at rest in the log, and is compared with where the predicted robot comes to rest:
+    // closer in heading than the pose where the predicted code moves on (the pivot still coasting then).
+    const seg19 = result.runs[0].segments.find((x) => x.line === 18)!;
+    assert.ok(last.predicted!.atRest);
+    assert.ok(Math.abs(last.vsPredicted!.heading) < Math.abs(last.recorded!.end.heading - seg19.predicted!.end.heading));
     // Time: the true motor is 5 % slower, so each drive takes longer than predicted.
     for (const m of c.motions.filter((x) => x.kind === 'drive')) assert.ok(m.timeVsPredicted! > 0);
   });

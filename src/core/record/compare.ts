@@ -7,6 +7,8 @@ import type { CheckResult, Point, Pose, RunResult, Segment, SegmentKind } from '
 import { LogError, readLog, type LogRobot, type LogSettings, type ReadLog } from './log';
 import { reconstruct, type Reconstruction, type ReconstructedPath } from './odometry';
 import type { RecordedRun } from './types';
+import { copyState, simulateMotion } from '../sim/motion';
+import { simRecordOf } from '../sim/run';
 
 /** One pose's difference: distance between the axle midpoints, mm, and the heading's, degrees (recorded minus the other). */
 export interface PoseError {
@@ -20,7 +22,8 @@ export interface MotionComparison {
   kind: SegmentKind;
   label: string;
   planned: { start: number; duration: number; end: Pose };
-  predicted?: { start: number; duration: number; end: Pose };
+  /** `atRest`: the end is where the predicted robot comes to rest after the motion (the log's last motion), not where its code moves on. */
+  predicted?: { start: number; duration: number; end: Pose; atRest?: boolean };
   /** Undefined when the log does not reach this motion. */
   recorded?: {
     /** Seconds from the log's first row. */
@@ -211,7 +214,9 @@ export function compareRun(plan: RunResult, runIndex: number, run: RecordedRun, 
 
   // The last motion the log reaches ends where the wheels come to rest (the log may run on after the code ends).
   const lastSpan = [...motions].reverse().map((m) => spans.get(m)).find((x) => x);
+  let atRest: Segment | undefined;
   if (lastSpan && lastSpan.to === n - 1) {
+    atRest = motions.find((m) => spans.get(m) === lastSpan);
     let rest = n - 1;
     while (rest > lastSpan.from && Math.abs(s[rest - 1].left - s[n - 1].left) + Math.abs(s[rest - 1].right - s[n - 1].right) < REST_MM) rest--;
     lastSpan.to = rest;
@@ -225,7 +230,11 @@ export function compareRun(plan: RunResult, runIndex: number, run: RecordedRun, 
       line: seg.line + 1, kind: seg.kind, label: labelOf(seg),
       planned: { start: plannedStart.get(seg)!, duration: seg.duration, end: seg.end },
     };
-    if (seg.predicted) m.predicted = { start: seg.predicted.start, duration: seg.predicted.duration, end: seg.predicted.end };
+    if (seg.predicted) {
+      // The log's last motion ends where the wheels came to rest: compared with where the prediction comes to rest.
+      const rest = seg === atRest ? predictedRest(seg) : undefined;
+      m.predicted = { start: seg.predicted.start, duration: seg.predicted.duration, end: rest ?? seg.predicted.end, ...(rest ? { atRest: true } : {}) };
+    }
     if (span) {
       const end = poseOf(best, span.to);
       const endWheels = poseOf(rec.wheels, span.to);
@@ -237,7 +246,7 @@ export function compareRun(plan: RunResult, runIndex: number, run: RecordedRun, 
       m.vsPlanned = poseError(end, seg.end);
       m.timeVsPlanned = m.recorded.duration - seg.duration;
       if (seg.predicted && Number.isFinite(seg.predicted.duration)) {
-        m.vsPredicted = poseError(end, seg.predicted.end);
+        m.vsPredicted = poseError(end, m.predicted!.end);
         m.timeVsPredicted = m.recorded.duration - seg.predicted.duration;
       }
       recordedDistance += travelled(run, span.from, span.to);
@@ -259,6 +268,17 @@ export function compareRun(plan: RunResult, runIndex: number, run: RecordedRun, 
     ...(plan.predictedDuration !== undefined && Number.isFinite(plan.predictedDuration) ? { predictedDuration: plan.predictedDuration } : {}),
     recordedDistance, plannedDistance,
   };
+}
+
+/** Where the simulated robot comes to rest after a motion (its wheels coasting down), from the check's record of it. */
+function predictedRest(seg: Segment): Pose | undefined {
+  const rec = simRecordOf(seg);
+  if (!rec || !seg.predicted || !Number.isFinite(seg.predicted.duration)) return undefined;
+  const state = copyState(rec.state);
+  if (!simulateMotion(state, rec.robot, rec.motion).finished) return undefined;
+  // Ten lags (at least a second) of standing still: the wheels' speed falls to e^-10 of what it was.
+  simulateMotion(state, rec.robot, { kind: 'wait', time: Math.max(1, 10 * rec.robot.lag) });
+  return { x: state.x, y: state.y, heading: state.h };
 }
 
 /** The first sample at or after time t (the last when t is past the end). */
