@@ -224,6 +224,47 @@ describe('fitting the robot model to a recorded run', () => {
       assert.match(still.params.effectiveTrack.note!, /turned only about/);
     });
 
+    it('a right wheel whose travel runs against its power: a note says the wheels disagree', () => {
+      const run = log(2);
+      for (const r of run.samples) r.right = -r.right;
+      const fit = fitRobot(run, PLAN);
+      assertFinite(fit);
+      assert.ok(fit.notes.some((n) => /the wheels disagree/.test(n)), fit.notes.join(' | '));
+      // The agreeing log has no such note.
+      assert.ok(!fitRobot(log(2), PLAN).notes.some((n) => /disagree/.test(n)));
+    });
+
+    it('rows without numbers, or whose time runs back, are left out and counted', () => {
+      const run = log(2);
+      run.samples[10] = { ...run.samples[10], left: NaN };
+      run.samples[20] = { ...run.samples[20], t: 0.05 };
+      const fit = fitRobot(run, PLAN);
+      assertFinite(fit);
+      assert.ok(fit.notes.some((n) => /1 row of simulated-2\.csv without a number/.test(n)), fit.notes.join(' | '));
+      assert.ok(fit.notes.some((n) => /1 row of simulated-2\.csv whose time runs back/.test(n)));
+      within(fit, 'motorSpeed', 900);
+    });
+
+    it('random logs of every shape: never a NaN, and every value either found or explained', function () {
+      this.timeout(60_000);
+      // Seeded shapes: random powers and durations, with or without yaw and powers, short and long.
+      let a = 12345;
+      const rnd = () => ((a = (Math.imul(a, 1103515245) + 12345) >>> 0) / 4294967296);
+      for (let trial = 0; trial < 60; trial++) {
+        const steps = Array.from({ length: 1 + Math.floor(rnd() * 12) }, () => ({
+          uL: rnd() < 0.3 ? 0 : (rnd() * 2 - 1), uR: rnd() < 0.3 ? 0 : (rnd() * 2 - 1), duration: rnd() < 0.2 ? 0.01 : rnd() * 2,
+        }));
+        const run = simulatedLog(TRUTH, steps, { seed: trial, ...NOISE, withYaw: rnd() < 0.8, withPower: rnd() < 0.8 });
+        const fit = fitRobot(run, PLAN);
+        assertFinite(fit);
+        for (const p of Object.values(fit.params)) {
+          if (p.found) assert.ok(p.value !== undefined && p.se !== undefined && p.low! <= p.value && p.value <= p.high!, `${trial} ${p.name}`);
+          else assert.ok(p.note && p.note.length > 10 && p.value === undefined, `${trial} ${p.name}: ${p.note}`);
+        }
+        for (const f of fitFixes('plan "x"\nwheel 56 mm\ntrack 121 mm\n', fit)) assert.ok(f.edits.length > 0 && f.title.length > 0);
+      }
+    });
+
     it('a plan without a track: the yaw fit says to add one', () => {
       const fit = fitRobot(log(2), { ...PLAN, effectiveTrack: undefined });
       assertFinite(fit);

@@ -45,7 +45,11 @@
 //   unit power K and in each wheel's starting travel and speed, so those are
 //   solved exactly and only the lag is searched (golden section on its log).
 //   Both wheels share K and the lag (the plan has one `motor` line; the
-//   encoders count nominal-wheel mm, so `mismatch` does not enter).
+//   encoders count nominal-wheel mm, so `mismatch` does not enter); each
+//   wheel's own K is worked out too, and a note says when they disagree.
+//   (An equation-error fit of the recursion, linear in a and (1-a)K, would
+//   take the speeds from differences of noisy travel readings, which biases
+//   it: errors in the variables. The output-error fit has no such bias.)
 //   Covariance: residual variance x (J^T J)^-1 with the full Jacobian (the
 //   lag's column by central differences), widened by (1+r)/(1-r) when the
 //   residuals' lag-one correlation r is positive; the motor speed in deg/s
@@ -480,7 +484,17 @@ function fitMotor(run: RecordedRun, cur: FitCurrent): MotorFit {
   const sol = search.sol;
   const K = sol.beta[0];
   // Jacobian at the solution: [h, d/dtau, 1, f] per wheel.
-  for (const w of ws) basis(w, tau, stall);
+  ws.forEach((w, i) => basis(w, tau, stall, w.h, w.f, SUMS[i]));
+  // Each wheel on its own (the same lag): two wheels far apart mean a column the wrong way round or a
+  // wheel that slips, and one motor speed fits neither.
+  const own = ws.map((_, i) => {
+    const S = SUMS[i];
+    const b = solveSym([[S[0], S[1], S[2]], [S[1], S[3], S[4]], [S[2], S[4], S[5]]], [S[6], S[7], S[8]]);
+    return b ? b[0] : NaN;
+  });
+  if (Number.isFinite(own[0]) && Number.isFinite(own[1]) && (own[0] * own[1] <= 0 || Math.abs(own[0] - own[1]) > 0.1 * Math.max(Math.abs(own[0]), Math.abs(own[1])))) {
+    notes.push(`the wheels disagree: at full power the left goes ${own[0].toFixed(0)} mm/s and the right ${own[1].toFixed(0)} mm/s by this log (more than 10 % apart), so one motor speed fits neither; check that the power and travel columns belong together and have the same sign, and look for a slipping wheel`);
+  }
   const eps = 1e-4 * tau;
   const hp = ws.map(() => new Float64Array(n)), fp = ws.map(() => new Float64Array(n));
   const hm = ws.map(() => new Float64Array(n)), fm = ws.map(() => new Float64Array(n));
@@ -676,7 +690,13 @@ function fitYaw(run: RecordedRun, cur: FitCurrent, options: FitOptions): YawFit 
   });
   if (!run.hasYaw) return none('the log has no yaw column: the effective track, the gyro scale, its delay and the mismatch come from the yaw reading against the wheel travel', 'the log has no yaw column: the drift is the reading\'s change while the wheels stand still');
   const notes: string[] = [];
-  const all = run.samples.filter((s) => Number.isFinite(s.t) && Number.isFinite(s.left) && Number.isFinite(s.right));
+  // Rows with every number, in time order (a row whose time runs back is left out, as in the motor fit).
+  const all: RecordedRun['samples'] = [];
+  for (const s of run.samples) {
+    if (!Number.isFinite(s.t) || !Number.isFinite(s.left) || !Number.isFinite(s.right)) continue;
+    if (all.length && !(s.t >= all[all.length - 1].t)) continue;
+    all.push(s);
+  }
   const sign = cur.turns === 'clockwise' ? 1 : -1;
   // Each wheel's travel as degrees of heading for a track of 1 mm: heading = left' + right' with
   // left' = sign x left, right' = -sign x right (the right wheel's travel holds the plan's mismatch already).
@@ -952,6 +972,13 @@ export function fitRobot(run: RecordedRun, current: FitCurrent, options: FitOpti
     for (const name of Object.keys(LABELS) as FitName[]) params[name] = notFound(name, why, 0, cur[name]);
     return { params, residual: {}, notes: [why], rows, source: run.source, noiseDrift: current.noiseDrift };
   }
+  let unread = 0, back = 0, last = -Infinity;
+  for (const s of run.samples) {
+    if (!Number.isFinite(s.t) || !Number.isFinite(s.left) || !Number.isFinite(s.right)) { unread++; continue; }
+    if (s.t < last) back++; else last = s.t;
+  }
+  if (unread) notes.push(`${unread} row${unread === 1 ? '' : 's'} of ${run.source} without a number for the time or a wheel ${unread === 1 ? 'is' : 'are'} left out of the fit`);
+  if (back) notes.push(`${back} row${back === 1 ? '' : 's'} of ${run.source} whose time runs back ${back === 1 ? 'is' : 'are'} left out of the fit`);
   const motor = fitMotor(run, current);
   const yaw = fitYaw(run, current, options);
   notes.push(...motor.notes, ...yaw.notes);
