@@ -6,7 +6,8 @@ import { parseArgs } from 'node:util';
 import { checkPlan, ExpressionCache, type CheckResult, type Pose } from '../core';
 import { replayLog, type MotionComparison, type PoseError, type RecordedOverlay, type Replay } from '../core/record/compare';
 import { LogError, parseSetting, settingsText, type LogSettings } from '../core/record/log';
-import { currentFromSetup, fitRobot, type FitParam, type FitResult } from '../core/record/fit';
+import { currentFromSetup, fitFixes, fitRobot, type FitParam, type FitResult } from '../core/record/fit';
+import type { Fix } from '../core';
 import type { CliIo } from './main';
 
 export const REPLAY_HELP = `  veer replay PLAN LOG [--json] [--run NAME] [--columns ROLES] [--time-units U] [--wheel-units U]
@@ -102,8 +103,9 @@ function replay(argv: string[], io: CliIo, readPlan: (file: string) => string): 
     throw e;
   }
   const fit = fitRobot(r.log.run, currentFromSetup(result.setup));
-  if (values.json) io.out(JSON.stringify(replayJson(planFile, logFile, r, fit), null, 2) + '\n');
-  else io.out(replayText(planFile, logFile, r, fit));
+  const edits = fitFixes(text, fit);
+  if (values.json) io.out(JSON.stringify(replayJson(planFile, logFile, r, fit, edits), null, 2) + '\n');
+  else io.out(replayText(planFile, logFile, r, fit, edits));
   const errors = result.diagnostics.filter((d) => d.severity === 'error').length;
   if (errors) io.err(`${planFile}: ${errors} error${errors === 1 ? '' : 's'} in the plan (\`veer check ${planFile}\` lists them): the comparison uses the plan as far as it could be computed\n`);
   return errors ? 1 : 0;
@@ -157,7 +159,7 @@ const r3 = (v: number) => Math.round(v * 1000) / 1000;
 const poseJson = (p: Pose) => ({ x_mm: r3(p.x), y_mm: r3(p.y), heading_deg: r3(p.heading) });
 const errJson = (e: PoseError) => ({ position_mm: r3(e.position), heading_deg: r3(e.heading) });
 
-export function replayJson(planFile: string, logFile: string, r: Replay, fit: FitResult) {
+export function replayJson(planFile: string, logFile: string, r: Replay, fit: FitResult, edits: Fix[] = []) {
   const c = r.comparison;
   return {
     plan: planFile,
@@ -204,6 +206,12 @@ export function replayJson(planFile: string, logFile: string, r: Replay, fit: Fi
       })),
       notes: fit.notes,
     },
+    setup_edits: edits.map((f) => ({
+      title: f.title,
+      ...(f.preferred ? { preferred: true } : {}),
+      // 1-based lines and columns; the end column is just after the text replaced.
+      edits: f.edits.map((e) => ({ line: e.range.start.line + 1, column: e.range.start.character + 1, end_line: e.range.end.line + 1, end_column: e.range.end.character + 1, new_text: e.newText })),
+    })),
   };
 }
 
@@ -230,7 +238,7 @@ function timeText(m: MotionComparison): string {
   return `${lpad(f(m.planned.duration, 2), 6)} ${lpad(p, 6)} ${lpad(rec, 10)}`;
 }
 
-export function replayText(planFile: string, logFile: string, r: Replay, fit: FitResult): string {
+export function replayText(planFile: string, logFile: string, r: Replay, fit: FitResult, edits: Fix[] = []): string {
   const c = r.comparison;
   const lines: string[] = [];
   const how = c.alignedBy === 'line' ? 'motions found by the log\'s line column' : `motions found by aligning times (the run starts ${f(c.timeOffset ?? 0, 2)} s into the log, its times stretched ${f(c.timeScale ?? 1, 3)} times to the log's)`;
@@ -259,6 +267,11 @@ export function replayText(planFile: string, logFile: string, r: Replay, fit: Fi
   lines.push('The robot model fitted to the log (95 % intervals; the editor offers the values as setup edits):');
   for (const p of Object.values(fit.params)) lines.push(`  ${fitLine(p)}`);
   for (const n of fit.notes) lines.push(`  note: ${n}`);
+  if (edits.length) {
+    lines.push('');
+    lines.push('Setup edits the fit suggests (the editor applies them; apply one of the track and the gyro scale, not both):');
+    for (const f of edits) lines.push(`  ${f.preferred ? '*' : '-'} ${f.title}`);
+  }
   lines.push('');
   lines.push('Safety: try every change at low speed first and keep people clear of a moving robot.');
   return lines.join('\n') + '\n';

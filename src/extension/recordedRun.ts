@@ -111,7 +111,7 @@ async function overlayCommand(arg: unknown): Promise<OverlayOutcome> {
   const actions = ['Show the Comparison', ...(fixes.length ? ['Apply Fitted Values…'] : [])];
   void vscode.window.showInformationMessage(`Recorded run of "${c.name}" (${entry.name}) ${summary}. Try changes at low speed first.`, ...actions).then(async (choice) => {
     if (choice === 'Show the Comparison') {
-      const doc = await vscode.workspace.openTextDocument({ content: replayText(basename(document.uri), entry.name, r, fit), language: 'plaintext' });
+      const doc = await vscode.workspace.openTextDocument({ content: replayText(basename(document.uri), entry.name, r, fit, fixes), language: 'plaintext' });
       await vscode.window.showTextDocument(doc, { preview: true, viewColumn: vscode.ViewColumn.Beside });
     } else if (choice === 'Apply Fitted Values…') {
       const pick = await vscode.window.showQuickPick(fixes.map((f) => ({ label: f.title, fix: f })), { title: 'Setup edits from the recorded run', placeHolder: 'Each edit changes the plan\'s robot (and so the prediction)' });

@@ -36,6 +36,10 @@ describe('veer replay', () => {
     const speed = doc.fit.params.find((p: { name: string }) => p.name === 'motorSpeed');
     // The simulated true robot's motor runs at 95 % of the plan's 900 deg/s = 855 deg/s (scripts/recorded-run.ts).
     assert.ok(speed.found && Math.abs(speed.value - 855) < 5, `motor speed ${speed.value}`);
+    // The first setup edit is the preferred one with every recommended value, on the plan's lines.
+    assert.ok(doc.setup_edits.length >= 1 && doc.setup_edits[0].preferred);
+    // Edits of the setup lines (1 to 12) or a new line after them (13), all above the run (line 14).
+    assert.ok(doc.setup_edits[0].edits.every((e: { line: number }) => e.line >= 1 && e.line <= 13), JSON.stringify(doc.setup_edits[0].edits));
   });
 
   it('--json without the line column aligns by time and still follows the schema', () => {
@@ -55,6 +59,7 @@ describe('veer replay', () => {
     assert.match(out, /^\s+18 {2}drive 1565 mm \(hold\)/m);
     assert.match(out, /Run end \(line 19\)/);
     assert.match(out, /motor speed\s+855 deg\/s/);
+    assert.match(out, /Setup edits the fit suggests.*\n {2}\* Set the/);
     assert.match(out, /low speed/);
   });
 
