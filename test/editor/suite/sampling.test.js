@@ -40,7 +40,9 @@ describe('Veer: Sample the Runs (Monte Carlo)', () => {
     this.timeout(90000);
     await config().update('sampling.count', 10, vscode.ConfigurationTarget.Global);
     assert.equal(previewTabs().length, 0);
+    const began = Date.now();
     const outcome = await vscode.commands.executeCommand('veer.sampleRuns');
+    console.log(`      a new preview drew the cloud ${Date.now() - began} ms after the command started (sampling ${outcome && outcome.ms.toFixed(0)} ms)`);
     assert.equal(outcome.status, 'done');
     assert.equal(outcome.dots, 20, `10 sampled runs at the mark and at the run's end: ${JSON.stringify(outcome)}`);
     assert.equal(previewTabs().length, 1);
