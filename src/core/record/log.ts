@@ -377,7 +377,7 @@ export function readLog(text: string, source: string, robot: LogRobot, options: 
       const line = firstLine + index++;
       if (line < rowLines[0] + dataFrom || failure !== undefined) return;
       try {
-        const quotes = results.errors.find((e) => e.type === 'Quotes');
+        const quotes = results.errors.length ? results.errors.find((e) => e.type === 'Quotes') : undefined;
         if (quotes) throw quoteError(line, quotes.message);
         if (!skipped(results.data)) processRow(results.data, line);
       } catch (e) {
