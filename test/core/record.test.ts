@@ -226,6 +226,22 @@ describe('recorded runs: comparison with the plan', () => {
     }
   });
 
+  it('a `reset yaw` found by the line column: a small jump of the reading there is the zeroing, not a turn', () => {
+    const plan = checkPlan('wheel 60 mm\ntrack 120 mm\nrun "r"\nstart (0, 0) heading 0\nturn 3\nreset yaw\ndrive 300\n', { fileName: 'z.veer' });
+    // A 3° spin on a 120 mm track: each wheel π × 120 × 3/360 = 3.14159 mm (hand calculation), 10 rows; then the
+    // reading is zeroed and the robot drives 300 mm straight in 30 rows.
+    const rows = ['time_s,left_mm,right_mm,yaw_deg,line'];
+    let t = 0;
+    for (let k = 0; k <= 10; k++) rows.push(`${(t += 0.01).toFixed(2)},${0.314159 * k},${-0.314159 * k},${0.3 * k},5`);
+    for (let k = 1; k <= 30; k++) rows.push(`${(t += 0.01).toFixed(2)},${3.14159 + 10 * k},${-3.14159 + 10 * k},0,7`);
+    const r = replayLog(plan, rows.join('\n'), 'z.csv');
+    assert.deepEqual(r.reconstruction.zeroings, [11]);
+    const drive = r.comparison.motions.find((m) => m.line === 7)!;
+    // Heading 3° kept through the zeroing; 300 mm along it: (300 sin 3°, 300 cos 3°) = (15.7008, 299.5889) (hand calculation).
+    assert.ok(Math.abs(drive.recorded!.end.heading - 3) < 1e-3, `heading ${drive.recorded!.end.heading}`);
+    assert.ok(Math.abs(drive.recorded!.end.x - 15.7008) < 0.01 && Math.abs(drive.recorded!.end.y - 299.5889) < 0.01, JSON.stringify(drive.recorded!.end));
+  });
+
   it('a plan with two runs: the line column says which; without it, the run must be named', () => {
     const two = checkPlan(`${planText}\nrun "back"\nstart (1825, 1010) heading 180\ndrive 500\n`, { fileName: 'two.veer' });
     assert.equal(replayLog(two, demo.csv, 'demo.csv').comparison.runIndex, 0);

@@ -113,9 +113,33 @@ export function replayRead(result: CheckResult, log: ReadLog, run?: number): Rep
   if (!start) throw new LogError(`run "${plan.name}" has no \`start\`: the recorded path needs the run's start pose`);
   const reconstruction = reconstruct(log.run, start.start, {
     track: r.effectiveTrack ?? r.track ?? NaN, turns: result.setup.turns, gyroScale: result.setup.gyro.scale,
-  });
+  }, zeroHints(plan, log.run));
   const comparison = compareRun(plan, runIndex, log.run, reconstruction);
   return { log, reconstruction, comparison, overlay: overlayOf(reconstruction, plan.name, runIndex) };
+}
+
+/**
+ * Where the plan zeroes the yaw (`reset yaw`, a turn with `reset`), as rows of
+ * a log with a line column: the first row of that line or, when the code never
+ * logs the reset's own line, of the next motion after it.
+ */
+function zeroHints(plan: RunResult, run: RecordedRun): number[] {
+  if (!run.hasLine) return [];
+  const order = new Map<number, number>();
+  plan.segments.forEach((x, i) => { if (!order.has(x.line + 1)) order.set(x.line + 1, i); });
+  const zeroing = plan.segments.map((x, i) => (x.kind === 'reset' || x.zeroesYaw ? i : -1)).filter((i) => i >= 0);
+  const hints: number[] = [];
+  const s = run.samples;
+  let next = 0;
+  for (let i = 0; i < s.length && next < zeroing.length; i++) {
+    const o = s[i].line === undefined ? undefined : order.get(s[i].line!);
+    if (o === undefined) continue;
+    if (o >= zeroing[next]) {
+      hints.push(i);
+      while (next < zeroing.length && zeroing[next] <= o) next++;
+    }
+  }
+  return hints;
 }
 
 /** The run a log belongs to: the one its line column names, or the plan's only run. */

@@ -34,6 +34,9 @@ export interface Reconstruction {
 
 /** A jump of the reading this much larger than the wheels' turn, within one sample, is the sensor being zeroed. */
 export const ZEROING_JUMP_DEG = 10;
+/** Within ZEROING_HINT_ROWS rows of where the plan zeroes the sensor (a `reset yaw`, a turn with `reset`), a jump of this much is the zeroing. */
+export const ZEROING_NEAR_DEG = 0.5;
+export const ZEROING_HINT_ROWS = 3;
 
 /**
  * One step of the exact arc update: the pose after the left and right wheels
@@ -65,9 +68,12 @@ export function chordStep(pose: Pose, ds: number, dHeading: number, turns: TurnD
  * wheels (a reading in radians taken for degrees, a reversed sign), and
  * throws a LogError naming the column when they disagree.
  */
-export function reconstruct(run: RecordedRun, start: Pose, robot: OdometryRobot): Reconstruction {
+export function reconstruct(run: RecordedRun, start: Pose, robot: OdometryRobot, zeroHints: readonly number[] = []): Reconstruction {
   const s = run.samples;
   const n = s.length;
+  // Rows where the plan zeroes the sensor (found by the log's line column): there a smaller jump is a zeroing too.
+  const near = new Uint8Array(n);
+  for (const h of zeroHints) for (let k = h; k < Math.min(n, h + ZEROING_HINT_ROWS); k++) near[k] = 1;
   const sign = robot.turns === 'clockwise' ? 1 : -1;
   const b = robot.track;
   if (!(b > 0)) throw new LogError('the plan has no track: add a `track` line so the wheels\' travel can be turned into a heading');
@@ -117,7 +123,7 @@ export function reconstruct(run: RecordedRun, start: Pose, robot: OdometryRobot)
       let dYaw = s[i].yaw! - s[i - 1].yaw!;
       dYaw -= 360 * Math.round(dYaw / 360); // across the wrap point
       dYaw /= scale;
-      if (Math.abs(dYaw - wDeg) > ZEROING_JUMP_DEG) {
+      if (Math.abs(dYaw - wDeg) > (near[i] ? ZEROING_NEAR_DEG : ZEROING_JUMP_DEG)) {
         zeroings.push(i);
         dYaw = wDeg;
       } else {
