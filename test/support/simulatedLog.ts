@@ -45,6 +45,8 @@ export interface LogNoise {
   yawQuantum?: number;
   /** The plan's mismatch: the log reader converts the right wheel's degrees with it (default 1). */
   planMismatch?: number;
+  /** sd of the yaw reading's random walk per sample, degrees (a gyro's angle random walk; default 0). */
+  yawWalk?: number;
   /** How late the yaw reading is, s: the heading that long ago, interpolated between samples (default 0). */
   delay?: number;
   /** Sample times (s) at which the reading is zeroed again (a `reset yaw`). */
@@ -104,6 +106,7 @@ export function simulatedLog(truth: TruthRobot, schedule: PowerStep[], noise: Lo
   let left = 0, right = 0;
   let zero = 0, zeroT = 0;
   const delay = noise.delay ?? 0;
+  let walk = 0;
   // (time, heading) of every sample so far, for a delayed reading.
   const hist: number[] = [];
   const headingAt = (when: number): number => {
@@ -118,7 +121,8 @@ export function simulatedLog(truth: TruthRobot, schedule: PowerStep[], noise: Lo
     const q = (v: number, step?: number) => (step ? Math.round(v / step) * step : v);
     const sample: RecordedSample = { t: s.t, left: q(left + noise.travel * gauss(), noise.quantum), right: q(right + noise.travel * gauss(), noise.quantum) * (noise.planMismatch ?? 1) };
     hist.push(s.t, s.h);
-    if (withYaw) sample.yaw = wrapReading(q(truth.scale * (headingAt(s.t - delay) - zero) + truth.drift * (s.t - zeroT) + noise.yaw * gauss(), noise.yawQuantum), truth.yawLo);
+    if (noise.yawWalk) walk += noise.yawWalk * gauss();
+    if (withYaw) sample.yaw = wrapReading(q(truth.scale * (headingAt(s.t - delay) - zero) + truth.drift * (s.t - zeroT) + walk + noise.yaw * gauss(), noise.yawQuantum), truth.yawLo);
     if (withPower) { sample.powerLeft = uL; sample.powerRight = uR; }
     samples.push(sample);
   };

@@ -67,8 +67,12 @@
 //   b_eff; c2 / c1 = true mismatch / plan's mismatch (fitted only when the log
 //   both drives and turns; else one column, the plan's mismatch). Wraps are
 //   undone and resets found from the jump of one sample against the one
-//   predicted from the wheels. Linear least squares, offsets eliminated per
-//   stretch. The drift is fitted only when the log holds at least STILL_MIN_S
+//   predicted from the wheels. The reading's error is white noise plus a
+//   random walk (a gyro's angle random walk, slip that builds up): linear
+//   least squares (offsets eliminated per stretch) for the searches, then
+//   generalised least squares through the local-level Kalman filter, the
+//   walk's share of the noise by maximum likelihood; with no walk that is
+//   least squares again. The drift is fitted only when the log holds at least STILL_MIN_S
 //   seconds with both wheels still; otherwise it is taken as zero. The delay:
 //   the residual's minimum over a grid and Brent's search, its se from its
 //   Gauss–Newton column; the rest is fitted at it only where it differs from
@@ -104,6 +108,8 @@ const MISMATCH_SE_MAX = 0.01;
 const DELAY_LO = -0.05;
 const DELAY_HI = 0.5;
 const DELAY_STEP = 0.05;
+/** A random walk of the yaw reading above this share of its noise (variance per row) gets a note. */
+const WALK_NOTE = 0.01;
 /** Fewest rows a fit works on. */
 export const MIN_ROWS = 20;
 
@@ -852,20 +858,28 @@ function fitYaw(run: RecordedRun, cur: FitCurrent, options: FitOptions): YawFit 
     }
   }
   const chosen = fitAt(delay)!;
-  const { beta } = chosen.fit;
-  let inv = chosen.fit.inv;
-  const p = beta.length;
+  const ols = chosen.fit.beta;
+  const p = ols.length;
+  const rmsDeg = Math.sqrt(chosen.sse / n);
+  // The final fit: generalised least squares with the reading's error as white noise plus a random walk
+  // (a gyro's angle random walk, and anything the wheels leave unexplained that builds up), each stretch's
+  // zero a diffuse start of the walk. The two variances come from the least-squares residuals' differences.
+  const raw: Float64Array[] = twoWheels ? [L, R] : [Float64Array.from(L, (v, i) => v + R[i])];
+  if (withDrift) raw.push(t);
   let delayIndex = -1;
   if (useDelay) {
     const g = new Float64Array(n);
-    for (let i = 0; i < n; i++) g[i] = twoWheels ? -(beta[0] * rateL[i] + beta[1] * rateR[i]) : -beta[0] * (rateL[i] + rateR[i]);
-    const full = regress([...chosen.cols, centre(g)], Yc);
-    if (full) { inv = full.inv; delayIndex = p; }
+    for (let i = 0; i < n; i++) g[i] = twoWheels ? -(ols[0] * rateL[i] + ols[1] * rateR[i]) : -ols[0] * (rateL[i] + rateR[i]);
+    raw.push(g);
+    delayIndex = p;
   }
-  const dof = n - nseg - p - (delayIndex >= 0 ? 1 : 0);
-  const rmsDeg = Math.sqrt(chosen.sse / n);
-  if (!(dof > 0)) return none(`the log's ${n} yaw rows in ${nseg} stretches leave nothing to fit with`);
-  const sigma2 = (chosen.sse / dof) * chosen.factor;
+  const q = walkRatio(raw, Y, seg, t);
+  const gls = localLevelGls(raw, Y, seg, t, q);
+  if (!gls || !(gls.dof > 0)) return none(`the log's ${n} yaw rows in ${nseg} stretches leave nothing to fit with`);
+  const beta = gls.beta;
+  const inv = gls.inv;
+  const sigma2 = gls.sigma2;
+  if (q > WALK_NOTE) notes.push(`the yaw reading wanders against the wheels (a random walk ${Math.sqrt(q).toFixed(2)} times its noise per row): a gyro's angle random walk, or wheel slip; the intervals allow for it`);
   const c = beta[0];
   const seC = Math.sqrt(sigma2 * inv[0][0]);
   let effectiveTrack: FitParam, gyroScale: FitParam;
@@ -919,6 +933,79 @@ function fitYaw(run: RecordedRun, cur: FitCurrent, options: FitOptions): YawFit 
       `from ${still.toFixed(1)} s with both wheels still (fitted with the turning)`)
     : notFound('drift', driftNote!, stillRows);
   return { params: { effectiveTrack, gyroScale, mismatch, gyroDelay, drift: driftParam }, rmsDeg, notes };
+}
+
+/**
+ * The random walk's variance per row over the white noise's: the q that maximises the likelihood of
+ * the local-level regression with the noise's variance concentrated out (a grid on log q from 1e-5 to
+ * 1e3, then Brent's search; below 1e-5 the walk is taken as none).
+ */
+function walkRatio(cols: Float64Array[], y: Float64Array, seg: Int32Array, t: Float64Array): number {
+  const cost = (lq: number) => {
+    const g = localLevelGls(cols, y, seg, t, Math.pow(10, lq));
+    return g && Number.isFinite(g.logLik) ? -g.logLik : Infinity;
+  };
+  const flat = localLevelGls(cols, y, seg, t, 0);
+  const grid = [-5, -4, -3, -2, -1, 0, 1, 2, 3];
+  const f = grid.map(cost);
+  let best = 0;
+  f.forEach((v, i) => { if (v < f[best]) best = i; });
+  if (!(f[best] < (flat ? -flat.logLik : Infinity))) return 0;
+  if (best === 0 || best === grid.length - 1) return Math.pow(10, grid[best]);
+  const m = brent(cost, grid[best - 1], grid[best], grid[best + 1], f[best], 0, 1e-3);
+  return Math.pow(10, m.f <= f[best] ? m.x : grid[best]);
+}
+
+/**
+ * Generalised least squares of y on the columns with errors white (variance s^2) plus a random walk
+ * (variance q s^2 per median row step, in proportion to each step's time), restarted (diffuse) at each
+ * stretch: the Kalman filter of the local-level model run over y and every column alike (its gain does
+ * not depend on the data), and the innovations regressed on each other weighted by their variances
+ * (Harvey, Forecasting, Structural Time Series Models and the Kalman Filter, 1989, on regression with
+ * a stochastic level). q = 0 is least squares with an offset per stretch.
+ */
+function localLevelGls(cols: Float64Array[], y: Float64Array, seg: Int32Array, t: Float64Array, q: number):
+  { beta: number[]; inv: number[][]; sigma2: number; dof: number; logLik: number } | undefined {
+  const n = y.length, p = cols.length;
+  const step = medianStep(t) || 1;
+  const mY = { v: 0 };
+  const mX = new Float64Array(p);
+  const vx = new Float64Array(p);
+  const A = Array.from({ length: p }, () => new Array<number>(p).fill(0));
+  const b = new Array<number>(p).fill(0);
+  let yy = 0, used = 0, P = 0, logS = 0;
+  for (let i = 0; i < n; i++) {
+    if (i === 0 || seg[i] !== seg[i - 1]) {
+      // A new stretch: its level is the first reading (a diffuse start), left out of the sums.
+      mY.v = y[i];
+      for (let c = 0; c < p; c++) mX[c] = cols[c][i];
+      P = 1;
+      continue;
+    }
+    const Pp = P + q * Math.max(0, t[i] - t[i - 1]) / step;
+    const S = Pp + 1;
+    const K = Pp / S;
+    const vy = y[i] - mY.v;
+    mY.v += K * vy;
+    for (let c = 0; c < p; c++) { vx[c] = cols[c][i] - mX[c]; mX[c] += K * vx[c]; }
+    P = Pp / S;
+    for (let a = 0; a < p; a++) {
+      b[a] += (vx[a] * vy) / S;
+      for (let c = a; c < p; c++) A[a][c] += (vx[a] * vx[c]) / S;
+    }
+    yy += (vy * vy) / S;
+    logS += Math.log(S);
+    used++;
+  }
+  for (let a = 0; a < p; a++) for (let c = 0; c < a; c++) A[a][c] = A[c][a];
+  const inv = invertSym(A);
+  if (!inv) return undefined;
+  const beta = inv.map((row) => row.reduce((s, v, j) => s + v * b[j], 0));
+  const sse = Math.max(0, yy - beta.reduce((s, v, j) => s + v * b[j], 0));
+  const dof = used - p;
+  // The log-likelihood with the noise's variance at its estimate sse / used (constants left out).
+  const logLik = -0.5 * (used * Math.log(Math.max(sse, 1e-300) / Math.max(1, used)) + logS);
+  return { beta, inv, sigma2: dof > 0 ? sse / dof : NaN, dof, logLik };
 }
 
 /** Each wheel's travel (and rate) at times t less `delay`, by linear interpolation between the rows (At, Al, Ar). */
