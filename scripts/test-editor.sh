@@ -27,7 +27,7 @@ rm -f "$VSIX"
 npm run --silent package -- --out "$VSIX" >"$OUT/package.log" 2>&1 || { cat "$OUT/package.log"; exit 1; }
 ui_status=0
 # REAL_EDITOR_DIR tells the UI scripts where the tool's page helpers are.
-for script in preview-ui.js typing-ui.js sampling-ui.js; do
+for script in preview-ui.js typing-ui.js sampling-ui.js recorded-ui.js; do
   REAL_EDITOR_DIR="$(dirname "$TOOL")" EXTENSIONS="$VSIX" \
     bash "$TOOL" ui "$ROOT/test/editor/workspace" "$ROOT/test/editor/ui/$script" "$OUT" || ui_status=$?
 done
