@@ -1,6 +1,6 @@
 // Hover text for a plan: a `let` name's value, an expression's value in the
 // file's units, or everything computed for a motion line.
-import { propagateRun, spreadCenter } from '../spread/run';
+import { propagateRun, spreadCentre } from '../spread/run';
 import { markProbability } from '../spread/gaussian';
 import type { CheckResult, LengthUnitName, MotionStmt, Pos, Range, Segment, Statement } from '../types';
 import { formatAngle, formatHeading, formatLength, formatNumber, formatTime, formatWheels } from './format';
@@ -86,7 +86,7 @@ function resetEffect(result: CheckResult, seg: Segment): string {
   // Each later mark's chance, both ways.
   const from = run.segments.indexOf(seg);
   for (const mark of run.segments.slice(from).filter((s) => s.kind === 'mark').slice(0, 3)) {
-    const chance = (sp: Segment['spread']) => (sp && mark.markTarget ? markProbability(mark.markTarget, spreadCenter(mark), { xx: sp.cov[0][0], xy: sp.cov[0][1], yy: sp.cov[1][1] }) : undefined);
+    const chance = (sp: Segment['spread']) => (sp && mark.markTarget ? markProbability(mark.markTarget, spreadCentre(mark), { xx: sp.cov[0][0], xy: sp.cov[0][1], yy: sp.cov[1][1] }) : undefined);
     const a = chance(withIt.bySegment.get(mark));
     const b = chance(without.bySegment.get(mark));
     if (a !== undefined && b !== undefined) lines.push(`"${mark.label}" met in ${Math.round(a * 100)} % of runs with it, ${Math.round(b * 100)} % without it`);

@@ -9,8 +9,9 @@
 //   heading-band  the heading's 95 % band: a wedge from the oval's centre
 //   spread-layer  the layer of a run's motion-end ovals and wedges
 //   cloud         the sampled end points of one place of a run (dots)
-import type { Point, Pose, RunResult, Segment, SegmentSpread, TurnDirection } from '../types';
+import type { Point, RunResult, Segment, SegmentSpread, TurnDirection } from '../types';
 import { forwardVector } from '../solve/frame';
+import { spreadCentre } from '../spread/run';
 import type { SpreadCloud, SpreadShown } from './cloud';
 import { escapeXml, num } from './markup';
 import type { View } from './view';
@@ -30,15 +31,6 @@ const DOT_PX = 2.6;
 /** Straight pieces of a wedge's arc. */
 const WEDGE_PIECES = 12;
 
-/**
- * Where the spread is centred: the pose the controller simulation predicts at
- * the segment's end, where there is one (the spread is the real robot's, and
- * a mark's chance is worked out about that pose too), else the planned end.
- */
-export function spreadCentre(seg: Segment): Pose {
-  const p = seg.predicted?.end;
-  return p && Number.isFinite(p.x) && Number.isFinite(p.y) && Number.isFinite(p.heading) ? p : seg.end;
-}
 
 /** Whether a segment's spread can be drawn as an oval. */
 export function drawableSpread(seg: Segment): SegmentSpread | undefined {

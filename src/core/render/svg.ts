@@ -43,7 +43,8 @@ import { escapeXml, num } from './markup';
 import { boundRecorded, drawRecorded, RECORDED_STYLE } from './recorded';
 import type { RecordedOverlay } from '../record/compare';
 import type { SpreadCloud, SpreadShown } from './cloud';
-import { drawableSpread, drawCloud, drawSpreadLayer, sampledShares, spreadCentre, spreadOval } from './spreadLayer';
+import { drawableSpread, drawCloud, drawSpreadLayer, sampledShares, spreadOval } from './spreadLayer';
+import { spreadCentre } from '../spread/run';
 import { Bounds, formatLength, makeView, scaleBarLength, type View } from './view';
 
 export interface RenderOptions {

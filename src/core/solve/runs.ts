@@ -10,7 +10,7 @@ import { shortWay, YawReadings } from './readings';
 import { encoderTurnTime, gyroTurnTime, profileTime } from './timing';
 import { MOTION_CAP_S, restState, simRobot, simulateMotion } from '../sim/motion';
 import { PoseBuffer, rigidPiece, simplify } from '../sim/path';
-import { propagateRun, shares, spreadCenter, zeroes, type SpreadSource } from '../spread/run';
+import { propagateRun, shares, spreadCentre, zeroes, type SpreadSource } from '../spread/run';
 import { markProbability } from '../spread/gaussian';
 import { squareUp, wallsOf } from './square';
 import { sweepPiece, overlapsAt, type SweepHit } from './sweep';
@@ -334,7 +334,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         const mm = m as Extract<EvaluatedMotion, { stmt: MarkStmt }>;
         // About where the robot is predicted to end (the controller simulation), where there is a prediction: the
         // spread is of the real robot, and the sampled runs (which simulate it) scatter about that pose.
-        const center = spreadCenter(seg);
+        const center = spreadCentre(seg);
         seg.hitProbability = markProbability(target, center, { xx: seg.spread.cov[0][0], xy: seg.spread.cov[0][1], yy: seg.spread.cov[1][1] });
         const level = mm.level !== undefined && mm.level >= 0.5 && mm.level < 1 ? mm.level : MARK_LEVEL;
         if (seg.hitProbability >= level) continue;

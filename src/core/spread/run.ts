@@ -6,7 +6,7 @@
 // the reading was zeroed, plus the drift since), and three per-run constants.
 // Headings here are in the compass convention (clockwise from +y, radians);
 // a counterclockwise file's heading covariances change sign on the way out.
-import type { NoiseModel, PathPiece, Segment, SegmentSpread, TurnDirection } from '../types';
+import type { NoiseModel, PathPiece, Pose, Segment, SegmentSpread, TurnDirection } from '../types';
 import { ellipse95, type Cov2 } from './gaussian';
 
 const N = 7;
@@ -202,9 +202,9 @@ function travel(P: Cov, piece: PathPiece, compass: (deg: number) => number, trac
  * (the controller simulation; the sampled runs scatter about it), or the
  * planned pose where nothing is predicted.
  */
-export function spreadCenter(seg: Segment): { x: number; y: number } {
-  const p = seg.predicted;
-  return p && Number.isFinite(p.end.x) && Number.isFinite(p.end.y) ? p.end : seg.end;
+export function spreadCentre(seg: Segment): Pose {
+  const p = seg.predicted?.end;
+  return p && Number.isFinite(p.x) && Number.isFinite(p.y) && Number.isFinite(p.heading) ? p : seg.end;
 }
 
 /** Whether the yaw reads zero at this segment: a `reset yaw`, or a turn written with `reset`. */
