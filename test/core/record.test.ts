@@ -256,7 +256,11 @@ describe('recorded runs: comparison with the plan', () => {
     // Wheel degrees read as millimetres: 0.506 mm a degree on 58 mm wheels, so the log drives about twice the plan (1/0.506 = 1.98).
     throwsAt(() => replayLog(result, demo.csv, 'demo.csv', { wheelUnits: { kind: 'mm' } }), /header says deg, the settings say mm/);
     const asMm = demo.csv.replace('left_deg,right_deg', 'left_mm,right_mm');
-    throwsAt(() => replayLog(result, asMm, 'demo.csv'), /column 2 \(left\) and column 3 \(right\): the log drives \d+ mm where the plan drives \d+ mm \(\d\.\d\d times\).*wheel units/);
+    throwsAt(() => replayLog(result, asMm, 'demo.csv'), /column 2 \(left\) and column 3 \(right\): over the motions it completes, the log drives \d+ mm where the plan drives \d+ mm \(\d\.\d\d times\).*wheel units/);
+    // A log cut short in the middle of the long drive is a run stopped early, not a unit mix-up: it is read.
+    const cut = demo.csv.split('\n').slice(0, 700).join('\n');
+    const early = replayLog(result, cut, 'cut.csv').comparison;
+    assert.deepEqual(early.motions.filter((m) => m.recorded).map((m) => m.line), [16, 17, 18]);
   });
 });
 
@@ -283,5 +287,45 @@ describe('recorded runs: reading numbers', () => {
       const got = parseNumber(cell);
       assert.ok(Object.is(got, want), `${JSON.stringify(cell)}: ${got} vs ${want}`);
     }
+  });
+});
+
+describe('recorded runs: careless and hostile logs', () => {
+  const planText = readFileSync(join(root, 'examples', 'parcel-table.veer'), 'utf8');
+  const result = checkPlan(planText, { fileName: 'parcel-table.veer' });
+  const demo = readFileSync(join(root, 'examples', 'parcel-table.log.csv'), 'utf8');
+
+  it('3,000 mangled logs: each is read or refused with a LogError, never another exception (seeded)', () => {
+    let a = 7;
+    const next = () => { a = (Math.imul(a, 1103515245) + 12345) >>> 0; return a / 4294967296; };
+    const pick = <T>(xs: readonly T[]) => xs[Math.floor(next() * xs.length)];
+    const lines = demo.split('\n');
+    const junk = ['', ',', ',,,,,,,,', '"', '"a,b"', 'NaN', '1e308', '-1e308', 'Infinity', '\u0000', '\u202e', '#', '# veer: columns=', '# veer: wheel-units=counts:0',
+      'time_s;left_deg;right_deg', '\t', '0x10', '1'.repeat(400), '😀', '-0', '99999999999999999999'];
+    let refused = 0;
+    let read = 0;
+    for (let k = 0; k < 3000; k++) {
+      const copy = lines.slice(0, 40 + Math.floor(next() * 200));
+      for (let m = 0; m < 1 + Math.floor(next() * 4); m++) {
+        const at = Math.floor(next() * copy.length);
+        const what = next();
+        if (what < 0.3) copy[at] = pick(junk);
+        else if (what < 0.55) copy.splice(at, 1);
+        else if (what < 0.8) {
+          const cells = copy[at].split(',');
+          cells[Math.floor(next() * cells.length)] = pick(junk);
+          copy[at] = cells.join(',');
+        } else copy.splice(at, 0, copy[Math.floor(next() * copy.length)]);
+      }
+      try {
+        replayLog(result, copy.join('\n'), 'mangled.csv');
+        read++;
+      } catch (e) {
+        if (!(e instanceof LogError)) throw new Error(`case ${k}: ${(e as Error).stack}\n${copy.slice(0, 12).join('\n')}`);
+        refused++;
+      }
+    }
+    // Both outcomes occur: the mangling reaches the reader's checks and also leaves logs it can use.
+    assert.ok(refused > 0 && read > 0, `${read} read, ${refused} refused`);
   });
 });

@@ -248,6 +248,11 @@ export function compareRun(plan: RunResult, runIndex: number, run: RecordedRun, 
   const out: MotionComparison[] = [];
   let recordedDistance = 0;
   let plannedDistance = 0;
+  // The distances are checked on the motions the log completes: the one it ends in may have been cut short
+  // (a robot stopped early), unless it is the run's last moving motion.
+  const finalMotion = [...motions].reverse().find((m) => m.distance > 0 || m.turned !== 0);
+  let checkedRecorded = 0;
+  let checkedPlanned = 0;
   for (const seg of motions) {
     const span = spans.get(seg);
     const m: MotionComparison = {
@@ -273,15 +278,20 @@ export function compareRun(plan: RunResult, runIndex: number, run: RecordedRun, 
         m.vsPredicted = poseError(end, m.predicted!.end);
         m.timeVsPredicted = m.recorded.duration - seg.predicted.duration;
       }
-      recordedDistance += travelled(run, span.from, span.to);
+      const travel = travelled(run, span.from, span.to);
+      recordedDistance += travel;
       plannedDistance += seg.distance;
+      if (span !== lastSpan || seg === finalMotion) {
+        checkedRecorded += travel;
+        checkedPlanned += seg.distance;
+      }
     }
     out.push(m);
   }
   if (spans.size === 0) throw new LogError(`the log reaches none of the motions of run "${plan.name}"`);
-  const ratio = recordedDistance / plannedDistance;
-  if (plannedDistance > 100 && !(ratio >= DISTANCE_RATIO_BAND[0] && ratio <= DISTANCE_RATIO_BAND[1])) {
-    throw new LogError(`column ${run.columns?.left ?? '?'} (left) and column ${run.columns?.right ?? '?'} (right): the log drives ${Math.round(recordedDistance)} mm where the plan drives ${Math.round(plannedDistance)} mm (${ratio.toFixed(2)} times): check the wheel units (deg, rot, counts:N, mm) and the plan's wheel diameter, or is this a log of another plan?`, undefined, run.columns?.left);
+  const ratio = checkedRecorded / checkedPlanned;
+  if (checkedPlanned > 100 && !(ratio >= DISTANCE_RATIO_BAND[0] && ratio <= DISTANCE_RATIO_BAND[1])) {
+    throw new LogError(`column ${run.columns?.left ?? '?'} (left) and column ${run.columns?.right ?? '?'} (right): over the motions it completes, the log drives ${Math.round(checkedRecorded)} mm where the plan drives ${Math.round(checkedPlanned)} mm (${ratio.toFixed(2)} times): check the wheel units (deg, rot, counts:N, mm) and the plan's wheel diameter, or is this a log of another plan?`, undefined, run.columns?.left);
   }
   return {
     runIndex, name: plan.name, alignedBy, ...(timeOffset !== undefined ? { timeOffset, timeScale } : {}),
