@@ -32,6 +32,8 @@ interface Loaded {
   name: string;
   /** The log as last read, and the plan's values it was read with. */
   read?: { key: string; log: ReadLog };
+  /** A warning that the log no longer fits the edited plan was shown. */
+  warned?: boolean;
   /** The last replay and the check result it was made for. */
   made?: { result: CheckResult; replay?: Replay; error?: string };
 }
@@ -182,11 +184,11 @@ export function recordedOverlayFor(document: vscode.TextDocument, result: CheckR
     }
     return undefined;
   }
-  const before = entry.made;
   const made = replayFor(entry, result);
-  if (!made.replay && made.error && before?.error !== made.error) {
-    // The plan changed so that the log no longer fits it: say so once, and draw without it.
-    void vscode.window.showWarningMessage(`The recorded run ${entry.name} no longer fits the plan: ${made.error}`);
+  if (!made.replay && made.error && !entry.warned) {
+    // The plan changed so that the log no longer fits it: draw without it, and say so once (not on every keystroke).
+    entry.warned = true;
+    void vscode.window.showWarningMessage(`The recorded run ${entry.name} does not fit the plan as it is now, so the preview leaves it out until it does: ${made.error}`);
   }
   return made.replay?.overlay;
 }
