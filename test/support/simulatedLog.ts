@@ -47,6 +47,8 @@ export interface LogNoise {
   planMismatch?: number;
   /** sd of the yaw reading's random walk per sample, degrees (a gyro's angle random walk; default 0). */
   yawWalk?: number;
+  /** sd of a random push on each wheel's speed per sample, mm/s (bumps, a changing floor; default 0). */
+  speedKick?: number;
   /** How late the yaw reading is, s: the heading that long ago, interpolated between samples (default 0). */
   delay?: number;
   /** Sample times (s) at which the reading is zeroed again (a `reset yaw`). */
@@ -131,6 +133,7 @@ export function simulatedLog(truth: TruthRobot, schedule: PowerStep[], noise: Lo
     for (let k = 0; k < n; k++) {
       row(step.uL, step.uR);
       const out = advancePlant(s, robot, step.uL, step.uR, truth.sample);
+      if (noise.speedKick) { s.vL += noise.speedKick * gauss(); s.vR += noise.speedKick * gauss(); }
       left += out.sL;
       // The right encoder counts nominal-wheel mm (its real travel over the mismatch); the log reader
       // turns its degrees into mm with the plan's mismatch.

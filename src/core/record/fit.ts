@@ -50,10 +50,13 @@
 //   (An equation-error fit of the recursion, linear in a and (1-a)K, would
 //   take the speeds from differences of noisy travel readings, which biases
 //   it: errors in the variables. The output-error fit has no such bias.)
-//   Covariance: residual variance x (J^T J)^-1 with the full Jacobian (the
-//   lag's column by central differences), widened by (1+r)/(1-r) when the
-//   residuals' lag-one correlation r is positive; the motor speed in deg/s
-//   by the delta method.
+//   The travel's error is white noise plus a random walk (bumps, slip, a
+//   tiring battery build up in the travel): least squares first, then the
+//   walk's share by maximum likelihood and, where there is one, the stall and
+//   lag again by generalised least squares through the local-level Kalman
+//   filter (levelSums). Covariance: residual variance x (J' W J)^-1 with the
+//   full Jacobian (the lag's column by central differences) through the same
+//   filter; the motor speed in deg/s by the delta method.
 // - Stall: the fit's residual as a function of the stall power changes only
 //   where the stall passes a power the log commands. Every such step is tried
 //   (coarse then fine when there are many); the stall is bracketed between
@@ -275,24 +278,21 @@ interface WheelData {
   t: Float64Array;
   y: Float64Array;
   u: Float64Array;
+  /** The median time between rows, s. */
+  step: number;
   /** Basis columns for the current lag and stall: response to the powers with K = 1, and to a starting speed of 1 mm/s. */
   h: Float64Array;
   f: Float64Array;
 }
 
-/**
- * The wheel's travel for K = 1 from rest (h) and for a starting speed of 1
- * without power (f), exact zero-order hold; with the sums of the least squares
- * on [h, 1, f] in `sums` (hh, h, hf, n, f, ff, hy, y, fy).
- */
-function basis(w: WheelData, tau: number, stall: number, h = w.h, f = w.f, sums?: Float64Array): void {
-  const { t, u, y } = w;
+/** The wheel's travel for K = 1 from rest (h) and for a starting speed of 1 without power (f), exact zero-order hold. */
+function basis(w: WheelData, tau: number, stall: number, h = w.h, f = w.f): void {
+  const { t, u } = w;
   const n = t.length;
   let hp = 0, hv = 0, fp = 0, fv = 1;
   let lastDt = NaN, a = 0;
   h[0] = 0;
   f[0] = 0;
-  let shh = 0, shf = 0, sh = 0, sf = 0, sff = 0, shy = 0, sfy = 0, sy = y[0];
   for (let k = 0; k < n - 1; k++) {
     const dt = t[k + 1] - t[k];
     // Rows of a regular log are one period apart up to rounding: one exponential serves them all.
@@ -307,61 +307,51 @@ function basis(w: WheelData, tau: number, stall: number, h = w.h, f = w.f, sums?
     fv = fv > 1e-200 ? fv * a : 0;
     h[k + 1] = hp;
     f[k + 1] = fp;
-    const yk = y[k + 1];
-    shh += hp * hp; shf += hp * fp; sh += hp; sf += fp; sff += fp * fp; shy += hp * yk; sfy += fp * yk; sy += yk;
   }
-  if (sums) {
-    sums[0] = shh; sums[1] = sh; sums[2] = shf; sums[3] = n; sums[4] = sf; sums[5] = sff; sums[6] = shy; sums[7] = sy; sums[8] = sfy;
-  }
-}
-
-/** Sum of squared residuals of one wheel for K, p0, v0 (with the basis now in it). */
-function wheelSse(w: WheelData, K: number, p0: number, v0: number): number {
-  const { h, f, y } = w;
-  let sse = 0;
-  for (let k = 0; k < y.length; k++) {
-    const r = y[k] - K * h[k] - p0 - v0 * f[k];
-    sse += r * r;
-  }
-  return sse;
 }
 
 interface WheelSolution {
-  /** K, then (p0, v0) per wheel. */
+  /** K, then v0 per wheel (each wheel's starting travel is the level's diffuse start). */
   beta: number[];
+  /** The weighted residual sum of squares (for q = 0 the plain one), its log-likelihood, rows used. */
   sse: number;
+  logLik: number;
+  used: number;
 }
 
-const SUMS = [new Float64Array(9), new Float64Array(9)];
-
-/** Least squares of the travel on [h, 1, f] per wheel with a shared K, from the sums the basis left. */
-function solveWheels(ws: WheelData[]): WheelSolution | undefined {
-  const m = 1 + 2 * ws.length;
+/**
+ * Least squares of the travel on [h, f] per wheel with a shared K, the travel's error white noise plus a
+ * random walk of q times its variance per median row (q = 0: plain least squares with a starting travel
+ * per wheel), for the basis now in the wheels.
+ */
+function solveWheels(ws: WheelData[], q: number): WheelSolution | undefined {
+  const m = 1 + ws.length;
   const A = Array.from({ length: m }, () => new Array<number>(m).fill(0));
   const b = new Array<number>(m).fill(0);
+  let yy = 0, logS = 0, used = 0;
   for (let i = 0; i < ws.length; i++) {
-    const S = SUMS[i];
-    const p = 1 + 2 * i, v = 2 + 2 * i;
-    A[0][0] += S[0]; A[0][p] = A[p][0] = S[1]; A[0][v] = A[v][0] = S[2];
-    A[p][p] = S[3]; A[p][v] = A[v][p] = S[4]; A[v][v] = S[5];
-    b[0] += S[6]; b[p] = S[7]; b[v] = S[8];
+    const w = ws[i];
+    const S = levelSums([w.h, w.f], w.y, w.t, q, w.step);
+    const v = 1 + i;
+    A[0][0] += S.A[0][0]; A[0][v] = A[v][0] = S.A[0][1]; A[v][v] = S.A[1][1];
+    b[0] += S.b[0]; b[v] = S.b[1];
+    yy += S.yy; logS += S.logS; used += S.used;
   }
   // A column of nothing (no power above the stall) leaves K free: no solution.
   if (!(A[0][0] > 0)) return undefined;
   const beta = solveSym(A, b);
   if (!beta) return undefined;
-  let sse = 0;
-  for (let i = 0; i < ws.length; i++) sse += wheelSse(ws[i], beta[0], beta[1 + 2 * i], beta[2 + 2 * i]);
-  return { beta, sse };
+  const sse = Math.max(0, yy - beta.reduce((s, v, j) => s + v * b[j], 0));
+  return { beta, sse, used, logLik: -0.5 * (used * Math.log(Math.max(sse, 1e-300) / Math.max(1, used)) + logS) };
 }
 
-function sseAt(ws: WheelData[], tau: number, stall: number): WheelSolution | undefined {
-  ws.forEach((w, i) => basis(w, tau, stall, w.h, w.f, SUMS[i]));
-  return solveWheels(ws);
+function sseAt(ws: WheelData[], tau: number, stall: number, q: number): WheelSolution | undefined {
+  for (const w of ws) basis(w, tau, stall);
+  return solveWheels(ws, q);
 }
 
 /** The lag minimising the residual: a coarse grid on log lag, then Brent's parabolic search inside the best bracket. */
-function searchLag(ws: WheelData[], stall: number, start: number, near = false): { tau: number; sol: WheelSolution; atBound: boolean } | undefined {
+function searchLag(ws: WheelData[], stall: number, start: number, q: number, near = false): { tau: number; sol: WheelSolution; atBound: boolean } | undefined {
   const lo = Math.log(LAG_LO), hi = Math.log(LAG_HI);
   const N = 12;
   const grid: number[] = [];
@@ -370,7 +360,7 @@ function searchLag(ws: WheelData[], stall: number, start: number, near = false):
   else for (let i = 0; i <= N; i++) grid.push(lo + ((hi - lo) * i) / N);
   if (start > LAG_LO && start < LAG_HI) grid.push(Math.log(start));
   grid.sort((x, y) => x - y);
-  const cost = (x: number) => sseAt(ws, Math.exp(x), stall)?.sse ?? Infinity;
+  const cost = (x: number) => sseAt(ws, Math.exp(x), stall, q)?.sse ?? Infinity;
   const sses = grid.map(cost);
   let best = -1, bestSse = Infinity;
   sses.forEach((s, i) => { if (s < bestSse) { bestSse = s; best = i; } });
@@ -378,10 +368,10 @@ function searchLag(ws: WheelData[], stall: number, start: number, near = false):
   const x = brent(cost, grid[Math.max(0, best - 1)], grid[best], grid[Math.min(grid.length - 1, best + 1)], sses[best], 1e-6);
   let xBest = x.x;
   // A narrow bracket whose edge is best: search the whole range after all.
-  if (near && (best === 0 || best === grid.length - 1)) return searchLag(ws, stall, start);
+  if (near && (best === 0 || best === grid.length - 1)) return searchLag(ws, stall, start, q);
   // The grid's best when the search found nothing better (a flat or noisy residual).
   if (!(x.f <= bestSse)) xBest = grid[best];
-  const sol = sseAt(ws, Math.exp(xBest), stall);
+  const sol = sseAt(ws, Math.exp(xBest), stall, q);
   if (!sol) return undefined;
   const atBound = xBest <= lo + (hi - lo) / N || xBest >= hi - (hi - lo) / N;
   return { tau: Math.exp(xBest), sol, atBound };
@@ -467,74 +457,79 @@ function fitMotor(run: RecordedRun, cur: FitCurrent): MotorFit {
   if (held > 0) notes.push(`${held} row${held === 1 ? '' : 's'} of ${run.source} had no power; the fit took the power of the row before (held until the next row, as the robot's code does)`);
   const n = t.length;
   if (n < MIN_ROWS) return none(`the log has only ${n} row${n === 1 ? '' : 's'} with powers: the motor fit needs at least ${MIN_ROWS}`);
+  const step = medianStep(t);
   const mk = (y: number[], u: number[]): WheelData => ({
-    t: Float64Array.from(t), y: Float64Array.from(y), u: Float64Array.from(u), h: new Float64Array(n), f: new Float64Array(n),
+    t: Float64Array.from(t), y: Float64Array.from(y), u: Float64Array.from(u), h: new Float64Array(n), f: new Float64Array(n), step,
   });
   const ws = [mk(yL, uL), mk(yR, uR)];
   const anyPower = uL.some((v) => v !== 0) || uR.some((v) => v !== 0);
   if (!anyPower) return none('every power in the log is zero: nothing shows how fast the wheels go at a power');
-  // 1. The lag at the plan's stall, 2. the stall at that lag, 3. the lag again at the stall found.
+  // 1. The lag at the plan's stall by least squares, 2. the stall at that lag, 3. the lag again; then
+  // 4. how much the travel wanders (the random walk's share, by maximum likelihood) and, where it does,
+  // 5. the stall and 6. the lag again with it.
   let stall = cur.stall;
-  let search = searchLag(ws, stall, cur.motorLag);
+  let search = searchLag(ws, stall, cur.motorLag, 0);
   if (!search) {
     stall = 0;
-    search = searchLag(ws, stall, cur.motorLag);
+    search = searchLag(ws, stall, cur.motorLag, 0);
     if (!search) return none('no power in the log moves the model\'s wheels: the motor cannot be fitted');
   }
-  const stallFit = profileStall(ws, search.tau, n);
+  let stallFit = profileStall(ws, search.tau, n, 0);
   if (stallFit.best !== undefined && stallFit.best !== stall) {
-    const again = searchLag(ws, stallFit.best, search.tau, true);
+    const again = searchLag(ws, stallFit.best, search.tau, 0, true);
     if (again) { stall = stallFit.best; search = again; }
+  }
+  for (const w of ws) basis(w, search.tau, stall);
+  const q = wheelWalk(ws);
+  if (q > 0) {
+    stallFit = profileStall(ws, search.tau, n, q);
+    if (stallFit.best !== undefined) stall = stallFit.best;
+    const again = searchLag(ws, stall, search.tau, q, true);
+    if (again) search = again;
   }
   const { tau } = search;
   const sol = search.sol;
   const K = sol.beta[0];
-  // Jacobian at the solution: [h, d/dtau, 1, f] per wheel.
-  ws.forEach((w, i) => basis(w, tau, stall, w.h, w.f, SUMS[i]));
-  // Each wheel on its own (the same lag): two wheels far apart mean a column the wrong way round or a
-  // wheel that slips, and one motor speed fits neither.
-  const own = ws.map((_, i) => {
-    const S = SUMS[i];
-    const b = solveSym([[S[0], S[1], S[2]], [S[1], S[3], S[4]], [S[2], S[4], S[5]]], [S[6], S[7], S[8]]);
+  for (const w of ws) basis(w, tau, stall);
+  // The plain least squares at the solution: the rms misfit shown, and each wheel on its own (the same
+  // lag): two wheels far apart mean a column the wrong way round or a wheel that slips, and one motor
+  // speed fits neither.
+  let sse0 = 0;
+  const own = ws.map((w) => {
+    const S = levelSums([w.h, w.f], w.y, w.t, 0, w.step);
+    const b = solveSym(S.A, S.b);
+    if (b) sse0 += Math.max(0, S.yy - b[0] * S.b[0] - b[1] * S.b[1]);
     return b ? b[0] : NaN;
   });
+  const rmsMm = Math.sqrt(sse0 / (ws.length * n));
   if (Number.isFinite(own[0]) && Number.isFinite(own[1]) && (own[0] * own[1] <= 0 || Math.abs(own[0] - own[1]) > 0.1 * Math.max(Math.abs(own[0]), Math.abs(own[1])))) {
     notes.push(`the wheels disagree: at full power the left goes ${own[0].toFixed(0)} mm/s and the right ${own[1].toFixed(0)} mm/s by this log (more than 10 % apart), so one motor speed fits neither; check that the power and travel columns belong together and have the same sign, and look for a slipping wheel`);
   }
+  if (q > WALK_NOTE) notes.push(`the wheels' travel wanders from what the powers explain (a random walk ${Math.sqrt(q).toFixed(2)} times the travel's noise per row): bumps, slip, a tiring battery; the motor's intervals allow for it`);
+  // The covariance: the Jacobian's columns [K, lag, v0 per wheel] through the same filter.
   const eps = 1e-4 * tau;
-  const hp = ws.map(() => new Float64Array(n)), fp = ws.map(() => new Float64Array(n));
-  const hm = ws.map(() => new Float64Array(n)), fm = ws.map(() => new Float64Array(n));
-  ws.forEach((w, i) => { basis(w, tau + eps, stall, hp[i], fp[i]); basis(w, tau - eps, stall, hm[i], fm[i]); });
-  const m = 2 + 2 * ws.length;
+  const hp = new Float64Array(n), fp = new Float64Array(n), hm = new Float64Array(n), fm = new Float64Array(n);
+  const m = 2 + ws.length;
   const JtJ = Array.from({ length: m }, () => new Array<number>(m).fill(0));
-  let sse = 0, lag1 = 0;
+  let wsse = 0, used = 0;
   for (let i = 0; i < ws.length; i++) {
     const w = ws[i];
-    const p0 = sol.beta[1 + 2 * i], v0 = sol.beta[2 + 2 * i];
-    const P = 2 + 2 * i, V = 3 + 2 * i;
-    const H = w.h, F = w.f, Y = w.y, HP = hp[i], HM = hm[i], FP = fp[i], FM = fm[i];
-    // Columns K, tau, p0, v0 of this wheel: their ten products.
-    let hh = 0, ht = 0, h1 = 0, hf = 0, tt = 0, t1 = 0, tf = 0, c11 = 0, c1f = 0, ff = 0;
-    let prev = 0;
-    for (let k = 0; k < n; k++) {
-      const hk = H[k], fk = F[k];
-      const dk = (K * (HP[k] - HM[k]) + v0 * (FP[k] - FM[k])) / (2 * eps);
-      hh += hk * hk; ht += hk * dk; h1 += hk; hf += hk * fk; tt += dk * dk; t1 += dk; tf += dk * fk; c11 += 1; c1f += fk; ff += fk * fk;
-      const r = Y[k] - K * hk - p0 - v0 * fk;
-      sse += r * r;
-      if (k > 0) lag1 += r * prev;
-      prev = r;
-    }
-    const add = (a: number, b: number, v: number) => { JtJ[a][b] += v; if (a !== b) JtJ[b][a] += v; };
-    add(0, 0, hh); add(0, 1, ht); add(0, P, h1); add(0, V, hf);
-    add(1, 1, tt); add(1, P, t1); add(1, V, tf);
-    add(P, P, c11); add(P, V, c1f); add(V, V, ff);
+    const v0 = sol.beta[1 + i];
+    basis(w, tau + eps, stall, hp, fp);
+    basis(w, tau - eps, stall, hm, fm);
+    const dTau = new Float64Array(n);
+    for (let k = 0; k < n; k++) dTau[k] = (K * (hp[k] - hm[k]) + v0 * (fp[k] - fm[k])) / (2 * eps);
+    const S = levelSums([w.h, dTau, w.f], w.y, w.t, q, w.step);
+    const V = 2 + i;
+    const idx = [0, 1, V];
+    for (let a = 0; a < 3; a++) for (let c = 0; c < 3; c++) JtJ[idx[a]][idx[c]] += S.A[a][c];
+    // The weighted residual at the solution (the lag's column has no coefficient there).
+    wsse += S.yy - 2 * (K * S.b[0] + v0 * S.b[2]) + K * K * S.A[0][0] + 2 * K * v0 * S.A[0][2] + v0 * v0 * S.A[2][2];
+    used += S.used;
   }
-  const N = ws.length * n;
-  const dof = N - m;
-  const sigma2 = (sse / dof) * correlationFactor(lag1, sse);
+  const dof = used - m;
+  const sigma2 = Math.max(0, wsse) / dof;
   const inv = invertSym(JtJ);
-  const rmsMm = Math.sqrt(sse / N);
   const params: MotorFit['params'] = {
     motorSpeed: notFound('motorSpeed', 'the motor fit did not converge on this log', n, cur.motorSpeed),
     motorLag: notFound('motorLag', 'the motor fit did not converge on this log', n, cur.motorLag),
@@ -579,7 +574,7 @@ function medianStep(t: ArrayLike<number>): number {
  * The stall power: the residual of the motor fit (at the lag found) for each
  * step of the stall across a commanded power.
  */
-function profileStall(ws: WheelData[], tau: number, n: number): { best?: number; param(current: number): FitParam } {
+function profileStall(ws: WheelData[], tau: number, n: number, q: number): { best?: number; param(current: number): FitParam } {
   const set = new Set<number>();
   for (const w of ws) for (const u of w.u) { const a = Math.abs(u); if (a > 0 && a < 1.0000001) set.add(a); }
   const levels = [...set].sort((a, b) => a - b);
@@ -591,7 +586,7 @@ function profileStall(ws: WheelData[], tau: number, n: number): { best?: number;
   }
   const sse = new Map<number, number>();
   const evalAt = (i: number) => {
-    if (!sse.has(i)) sse.set(i, sseAt(ws, tau, cands[i])?.sse ?? Infinity);
+    if (!sse.has(i)) sse.set(i, sseAt(ws, tau, cands[i], q)?.sse ?? Infinity);
     return sse.get(i)!;
   };
   const COARSE = 48;
@@ -873,8 +868,8 @@ function fitYaw(run: RecordedRun, cur: FitCurrent, options: FitOptions): YawFit 
     raw.push(g);
     delayIndex = p;
   }
-  const q = walkRatio(raw, Y, seg, t);
-  const gls = localLevelGls(raw, Y, seg, t, q);
+  const q = walkRatio(raw, Y, seg, t, rowStep);
+  const gls = localLevelGls(raw, Y, seg, t, q, rowStep);
   if (!gls || !(gls.dof > 0)) return none(`the log's ${n} yaw rows in ${nseg} stretches leave nothing to fit with`);
   const beta = gls.beta;
   const inv = gls.inv;
@@ -936,75 +931,118 @@ function fitYaw(run: RecordedRun, cur: FitCurrent, options: FitOptions): YawFit 
 }
 
 /**
- * The random walk's variance per row over the white noise's: the q that maximises the likelihood of
- * the local-level regression with the noise's variance concentrated out (a grid on log q from 1e-5 to
- * 1e3, then Brent's search; below 1e-5 the walk is taken as none).
+ * The random walk's variance per row over the white noise's: the q that maximises the likelihood with
+ * the noise's variance concentrated out (a grid on log q from 1e-5 to 1e3, then Brent's search; no
+ * walk where q = 0 is as likely).
  */
-function walkRatio(cols: Float64Array[], y: Float64Array, seg: Int32Array, t: Float64Array): number {
+function maxLikelihoodWalk(logLik: (q: number) => number): number {
   const cost = (lq: number) => {
-    const g = localLevelGls(cols, y, seg, t, Math.pow(10, lq));
-    return g && Number.isFinite(g.logLik) ? -g.logLik : Infinity;
+    const l = logLik(Math.pow(10, lq));
+    return Number.isFinite(l) ? -l : Infinity;
   };
-  const flat = localLevelGls(cols, y, seg, t, 0);
+  const flat = -logLik(0);
   const grid = [-5, -4, -3, -2, -1, 0, 1, 2, 3];
   const f = grid.map(cost);
   let best = 0;
   f.forEach((v, i) => { if (v < f[best]) best = i; });
-  if (!(f[best] < (flat ? -flat.logLik : Infinity))) return 0;
+  if (!(f[best] < (Number.isFinite(flat) ? flat : Infinity))) return 0;
   if (best === 0 || best === grid.length - 1) return Math.pow(10, grid[best]);
   const m = brent(cost, grid[best - 1], grid[best], grid[best + 1], f[best], 0, 1e-3);
   return Math.pow(10, m.f <= f[best] ? m.x : grid[best]);
 }
 
+/** The yaw's walk (see maxLikelihoodWalk). */
+function walkRatio(cols: Float64Array[], y: Float64Array, seg: Int32Array, t: Float64Array, step: number): number {
+  return maxLikelihoodWalk((q) => localLevelGls(cols, y, seg, t, q, step)?.logLik ?? -Infinity);
+}
+
+/** The wheels' walk, for the basis now in them (see maxLikelihoodWalk). */
+function wheelWalk(ws: WheelData[]): number {
+  return maxLikelihoodWalk((q) => solveWheels(ws, q)?.logLik ?? -Infinity);
+}
+
 /**
- * Generalised least squares of y on the columns with errors white (variance s^2) plus a random walk
- * (variance q s^2 per median row step, in proportion to each step's time), restarted (diffuse) at each
- * stretch: the Kalman filter of the local-level model run over y and every column alike (its gain does
- * not depend on the data), and the innovations regressed on each other weighted by their variances
- * (Harvey, Forecasting, Structural Time Series Models and the Kalman Filter, 1989, on regression with
- * a stochastic level). q = 0 is least squares with an offset per stretch.
+ * The sums of generalised least squares of y on the columns with errors white (variance s^2) plus a
+ * random walk (variance q s^2 per median row step, in proportion to each step's time), restarted
+ * (diffuse) at each stretch `seg` (none: one stretch): the Kalman filter of the local-level model run
+ * over y and every column alike (its gain does not depend on the data), and the innovations' products
+ * weighted by their variances (Harvey, Forecasting, Structural Time Series Models and the Kalman
+ * Filter, 1989, on regression with a stochastic level). q = 0 is least squares with an offset per stretch.
  */
-function localLevelGls(cols: Float64Array[], y: Float64Array, seg: Int32Array, t: Float64Array, q: number):
-  { beta: number[]; inv: number[][]; sigma2: number; dof: number; logLik: number } | undefined {
+function levelSums(cols: Float64Array[], y: Float64Array, t: Float64Array, q: number, step: number, seg?: Int32Array):
+  { A: number[][]; b: number[]; yy: number; logS: number; used: number } {
   const n = y.length, p = cols.length;
-  const step = medianStep(t) || 1;
-  const mY = { v: 0 };
-  const mX = new Float64Array(p);
-  const vx = new Float64Array(p);
-  const A = Array.from({ length: p }, () => new Array<number>(p).fill(0));
-  const b = new Array<number>(p).fill(0);
-  let yy = 0, used = 0, P = 0, logS = 0;
+  if (p === 2 && seg === undefined) return levelSums2(cols[0], cols[1], y, t, q, step);
+  const qs = q / (step || 1);
+  const mX = new Float64Array(p), vx = new Float64Array(p);
+  const AA = new Float64Array(p * p), bb = new Float64Array(p);
+  let mY = 0, yy = 0, used = 0, P = 0, logS = 0;
   for (let i = 0; i < n; i++) {
-    if (i === 0 || seg[i] !== seg[i - 1]) {
+    if (i === 0 || (seg !== undefined && seg[i] !== seg[i - 1])) {
       // A new stretch: its level is the first reading (a diffuse start), left out of the sums.
-      mY.v = y[i];
+      mY = y[i];
       for (let c = 0; c < p; c++) mX[c] = cols[c][i];
       P = 1;
       continue;
     }
-    const Pp = P + q * Math.max(0, t[i] - t[i - 1]) / step;
+    const dt = t[i] - t[i - 1];
+    const Pp = P + (dt > 0 ? qs * dt : 0);
     const S = Pp + 1;
     const K = Pp / S;
-    const vy = y[i] - mY.v;
-    mY.v += K * vy;
-    for (let c = 0; c < p; c++) { vx[c] = cols[c][i] - mX[c]; mX[c] += K * vx[c]; }
-    P = Pp / S;
+    const w = 1 / S;
+    const vy = y[i] - mY;
+    mY += K * vy;
+    for (let c = 0; c < p; c++) { const v = cols[c][i] - mX[c]; vx[c] = v; mX[c] += K * v; }
+    P = Pp * w;
     for (let a = 0; a < p; a++) {
-      b[a] += (vx[a] * vy) / S;
-      for (let c = a; c < p; c++) A[a][c] += (vx[a] * vx[c]) / S;
+      const va = vx[a] * w;
+      bb[a] += va * vy;
+      for (let c = a; c < p; c++) AA[a * p + c] += va * vx[c];
     }
-    yy += (vy * vy) / S;
+    yy += vy * vy * w;
     logS += Math.log(S);
     used++;
   }
-  for (let a = 0; a < p; a++) for (let c = 0; c < a; c++) A[a][c] = A[c][a];
-  const inv = invertSym(A);
+  const A = Array.from({ length: p }, (_, a) => Array.from({ length: p }, (_, c) => (a <= c ? AA[a * p + c] : AA[c * p + a])));
+  return { A, b: Array.from(bb), yy, logS, used };
+}
+
+/** levelSums for two columns and one stretch (the motor fit's inner loop), with scalar sums. */
+function levelSums2(h: Float64Array, f: Float64Array, y: Float64Array, t: Float64Array, q: number, step: number):
+  { A: number[][]; b: number[]; yy: number; logS: number; used: number } {
+  const n = y.length;
+  const qs = q / (step || 1);
+  let mY = y[0], mH = h[0], mF = f[0], P = 1;
+  let hh = 0, hf = 0, ff = 0, hy = 0, fy = 0, yy = 0, logS = 0;
+  for (let i = 1; i < n; i++) {
+    const dt = t[i] - t[i - 1];
+    const Pp = P + (dt > 0 ? qs * dt : 0);
+    const S = Pp + 1;
+    const w = 1 / S;
+    const K = Pp * w;
+    const vy = y[i] - mY, vh = h[i] - mH, vf = f[i] - mF;
+    mY += K * vy; mH += K * vh; mF += K * vf;
+    P = Pp * w;
+    hh += vh * vh * w; hf += vh * vf * w; ff += vf * vf * w; hy += vh * vy * w; fy += vf * vy * w; yy += vy * vy * w;
+    if (q > 0) logS += Math.log(S);
+  }
+  // With no walk S = 1 + 1/k after k rows, and the log-sum telescopes to log n.
+  if (q === 0) logS = Math.log(n);
+  return { A: [[hh, hf], [hf, ff]], b: [hy, fy], yy, logS, used: n - 1 };
+}
+
+/** Generalised least squares with the local-level error (see levelSums): coefficients, (X'WX)^-1, the noise's variance, the log-likelihood. */
+function localLevelGls(cols: Float64Array[], y: Float64Array, seg: Int32Array, t: Float64Array, q: number, step: number):
+  { beta: number[]; inv: number[][]; sigma2: number; dof: number; logLik: number } | undefined {
+  const p = cols.length;
+  const S = levelSums(cols, y, t, q, step, seg);
+  const inv = invertSym(S.A);
   if (!inv) return undefined;
-  const beta = inv.map((row) => row.reduce((s, v, j) => s + v * b[j], 0));
-  const sse = Math.max(0, yy - beta.reduce((s, v, j) => s + v * b[j], 0));
-  const dof = used - p;
+  const beta = inv.map((row) => row.reduce((s, v, j) => s + v * S.b[j], 0));
+  const sse = Math.max(0, S.yy - beta.reduce((s, v, j) => s + v * S.b[j], 0));
+  const dof = S.used - p;
   // The log-likelihood with the noise's variance at its estimate sse / used (constants left out).
-  const logLik = -0.5 * (used * Math.log(Math.max(sse, 1e-300) / Math.max(1, used)) + logS);
+  const logLik = -0.5 * (S.used * Math.log(Math.max(sse, 1e-300) / Math.max(1, S.used)) + S.logS);
   return { beta, inv, sigma2: dof > 0 ? sse / dof : NaN, dof, logLik };
 }
 
