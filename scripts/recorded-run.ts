@@ -1,4 +1,5 @@
-// Writes examples/parcel-table.log.csv: a recorded run of the demo plan made by
+// Writes examples/parcel-table.log.csv (and the real-editor test's copies of the
+// plan and the log in test/editor/workspace/recorded-check.*): a recorded run of the demo plan made by
 // Veer's own controller simulation, run on a "true" robot that differs from
 // the plan's (smaller wheels, a wider track, unequal wheels, a slower and lazier
 // motor, a gyro that reads a little high and drifts), with sensor noise. Not a
@@ -173,5 +174,8 @@ if (require.main === module) {
   const plan = readFileSync(join(root, 'examples', 'parcel-table.veer'), 'utf8');
   const { csv, rows, trueEnd } = simulateLog(plan, 'parcel-table.veer');
   writeFileSync(join(root, 'examples', 'parcel-table.log.csv'), csv);
-  console.log(`wrote examples/parcel-table.log.csv (${rows} rows; the true robot ends at ${trueEnd.x.toFixed(1)}, ${trueEnd.y.toFixed(1)}, ${trueEnd.heading.toFixed(2)}°)`);
+  // The real-editor test's copies of the plan and its log.
+  writeFileSync(join(root, 'test', 'editor', 'workspace', 'recorded-check.veer'), plan);
+  writeFileSync(join(root, 'test', 'editor', 'workspace', 'recorded-check.log.csv'), csv);
+  console.log(`wrote examples/parcel-table.log.csv and the editor test's copies (${rows} rows; the true robot ends at ${trueEnd.x.toFixed(1)}, ${trueEnd.y.toFixed(1)}, ${trueEnd.heading.toFixed(2)}°)`);
 }
