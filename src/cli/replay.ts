@@ -193,6 +193,7 @@ export function replayJson(planFile: string, logFile: string, r: Replay, fit: Fi
       ...(m.vsPredicted ? { vs_predicted: errJson(m.vsPredicted) } : {}),
       ...(m.timeVsPlanned !== undefined ? { time_vs_planned_s: r3(m.timeVsPlanned) } : {}),
       ...(m.timeVsPredicted !== undefined ? { time_vs_predicted_s: r3(m.timeVsPredicted) } : {}),
+      ...(m.markMet !== undefined ? { mark_met: m.markMet } : {}),
     })),
     fit: {
       params: Object.values(fit.params).map((p) => ({
@@ -247,12 +248,18 @@ export function replayText(planFile: string, logFile: string, r: Replay, fit: Fi
   if (r.reconstruction.zeroings.length) lines.push(`  note: the yaw was zeroed ${r.reconstruction.zeroings.length} time${r.reconstruction.zeroings.length === 1 ? '' : 's'} (a jump of the reading while the wheels did not turn)`);
   lines.push('');
   lines.push(`${lpad('line', 4)}  ${pad('motion', 22)} ${lpad('time s: plan', 12)} ${lpad('pred.', 6)} ${lpad('log', 10)}   ${pad('end off the plan', 17)}   ${pad('off the prediction', 17)}`);
+  const marks: string[] = [];
   for (const m of c.motions) {
+    if (m.markMet !== undefined) marks.push(`${m.label} (line ${m.line}): the recorded run ${m.markMet ? 'meets it' : 'MISSES it'}`);
     if ((m.kind === 'mark' || m.kind === 'reset') && !m.recorded) continue;
     lines.push(`${lpad(String(m.line), 4)}  ${pad(m.label, 22)} ${lpad('', 6)}${timeText(m)}   ${errText(m.vsPlanned)}   ${errText(m.vsPredicted)}`);
   }
   const last = [...c.motions].reverse().find((m) => m.recorded);
   if (last?.predicted?.atRest) lines.push(`  (line ${last.line}, the log's last motion: its time and end run until the wheels come to rest, and its prediction is where the predicted robot comes to rest)`);
+  if (marks.length) {
+    lines.push('');
+    lines.push(...marks);
+  }
   if (last?.recorded) {
     lines.push('');
     const e = last.vsPlanned!;

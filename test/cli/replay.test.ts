@@ -58,6 +58,8 @@ describe('veer replay', () => {
     assert.match(out, /run "to the dock" against .*1257 rows/);
     assert.match(out, /^\s+18 {2}drive 1565 mm \(hold\)/m);
     assert.match(out, /Run end \(line 19\)/);
+    // The log ends at (1847.5, 1030.9), inside the dock (1700..1950 × 900..1150).
+    assert.match(out, /mark "parked" \(line 20\): the recorded run meets it/);
     assert.match(out, /motor speed\s+855 deg\/s/);
     assert.match(out, /Setup edits the fit suggests.*\n {2}\* Set the/);
     assert.match(out, /low speed/);

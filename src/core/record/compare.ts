@@ -9,6 +9,7 @@ import { reconstruct, type Reconstruction, type ReconstructedPath } from './odom
 import type { RecordedRun } from './types';
 import { copyState, simulateMotion } from '../sim/motion';
 import { simRecordOf } from '../sim/run';
+import { meetsMark } from '../spread/gaussian';
 
 /** One pose's difference: distance between the axle midpoints, mm, and the heading's, degrees (recorded minus the other). */
 export interface PoseError {
@@ -39,6 +40,8 @@ export interface MotionComparison {
   };
   vsPlanned?: PoseError;
   vsPredicted?: PoseError;
+  /** A `mark` with a zone or a point: whether the recorded robot met it (where it was after the motion before the mark). */
+  markMet?: boolean;
   /** Recorded minus planned, and minus predicted, seconds. */
   timeVsPlanned?: number;
   timeVsPredicted?: number;
@@ -286,6 +289,10 @@ export function compareRun(plan: RunResult, runIndex: number, run: RecordedRun, 
         checkedPlanned += seg.distance;
       }
     }
+    if (seg.markTarget && !m.recorded) {
+      const before = [...out].reverse().find((x) => x.recorded);
+      if (before?.recorded) m.markMet = meetsMark(seg.markTarget, before.recorded.end.x, before.recorded.end.y);
+    } else if (seg.markTarget && m.recorded) m.markMet = meetsMark(seg.markTarget, m.recorded.end.x, m.recorded.end.y);
     out.push(m);
   }
   if (spans.size === 0) throw new LogError(`the log reaches none of the motions of run "${plan.name}"`);
