@@ -110,8 +110,9 @@ async function overlayCommand(arg: unknown): Promise<OverlayOutcome> {
   const summary = last?.vsPlanned
     ? `ends ${last.vsPlanned.position.toFixed(1)} mm and ${last.vsPlanned.heading.toFixed(1)}° off the plan${last.vsPredicted ? `, ${last.vsPredicted.position.toFixed(1)} mm off the prediction` : ''}`
     : 'reaches no motion';
+  const marks = c.motions.filter((m) => m.markMet !== undefined).map((m) => `${m.markMet ? 'meets' : 'misses'} ${m.label}`);
   const actions = ['Show the Comparison', ...(fixes.length ? ['Apply Fitted Values…'] : [])];
-  void vscode.window.showInformationMessage(`Recorded run of "${c.name}" (${entry.name}) ${summary}. Try changes at low speed first.`, ...actions).then(async (choice) => {
+  void vscode.window.showInformationMessage(`Recorded run of "${c.name}" (${entry.name}) ${summary}${marks.length ? `; ${marks.join(', ')}` : ''}. Try changes at low speed first.`, ...actions).then(async (choice) => {
     if (choice === 'Show the Comparison') {
       const doc = await vscode.workspace.openTextDocument({ content: replayText(basename(document.uri), entry.name, r, fit, fixes), language: 'plaintext' });
       await vscode.window.showTextDocument(doc, { preview: true, viewColumn: vscode.ViewColumn.Beside });
