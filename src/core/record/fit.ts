@@ -50,13 +50,15 @@
 //   (An equation-error fit of the recursion, linear in a and (1-a)K, would
 //   take the speeds from differences of noisy travel readings, which biases
 //   it: errors in the variables. The output-error fit has no such bias.)
-//   The travel's error is white noise plus a random walk (bumps, slip, a
-//   tiring battery build up in the travel): least squares first, then the
-//   walk's share by maximum likelihood and, where there is one, the stall and
-//   lag again by generalised least squares through the local-level Kalman
-//   filter (levelSums). Covariance: residual variance x (J' W J)^-1 with the
-//   full Jacobian (the lag's column by central differences) through the same
-//   filter; the motor speed in deg/s by the delta method.
+//   The travel's error is white noise, and the wheels' speed may take random
+//   pushes (bumps, a tiring battery) that die away through the lag: least
+//   squares first, then the pushes' strength by maximum likelihood (kept only
+//   where the likelihood-ratio test finds them) and, where there are some, the
+//   stall and lag again by generalised least squares through the Kalman
+//   filter of that error (plantSums). Covariance: residual variance x
+//   (J' W J)^-1 with the full Jacobian (the lag's column by central
+//   differences) through the same filter; the motor speed in deg/s by the
+//   delta method.
 // - Stall: the fit's residual as a function of the stall power changes only
 //   where the stall passes a power the log commands. Every such step is tried
 //   (coarse then fine when there are many); the stall is bracketed between
@@ -278,8 +280,9 @@ interface WheelData {
   t: Float64Array;
   y: Float64Array;
   u: Float64Array;
-  /** The median time between rows, s. */
+  /** The median time between rows, s, and a column of ones. */
   step: number;
+  one: Float64Array;
   /** Basis columns for the current lag and stall: response to the powers with K = 1, and to a starting speed of 1 mm/s. */
   h: Float64Array;
   f: Float64Array;
@@ -311,30 +314,107 @@ function basis(w: WheelData, tau: number, stall: number, h = w.h, f = w.f): void
 }
 
 interface WheelSolution {
-  /** K, then v0 per wheel (each wheel's starting travel is the level's diffuse start). */
+  /** K, then (p0, v0) per wheel. */
   beta: number[];
-  /** The weighted residual sum of squares (for q = 0 the plain one), its log-likelihood, rows used. */
+  /** The weighted residual sum of squares (for r = 0 the plain one), its log-likelihood, rows used. */
   sse: number;
   logLik: number;
   used: number;
 }
 
 /**
- * Least squares of the travel on [h, f] per wheel with a shared K, the travel's error white noise plus a
- * random walk of q times its variance per median row (q = 0: plain least squares with a starting travel
- * per wheel), for the basis now in the wheels.
+ * The sums of generalised least squares of a wheel's travel y on the columns when the wheel's speed takes
+ * random pushes (variance r s^2 per median row step, in proportion to each step's time) that die away
+ * through the lag, and each travel reading has white noise (variance s^2): the Kalman filter of that
+ * error (travel and speed, stepped like the plant with exp(-dt/tau), the readings the travel) run over y
+ * and every column alike, and the innovations' products weighted by their variances. r = 0 is plain least
+ * squares.
  */
-function solveWheels(ws: WheelData[], q: number): WheelSolution | undefined {
-  const m = 1 + ws.length;
+function plantSums(cols: Float64Array[], y: Float64Array, t: Float64Array, tau: number, r: number, step: number):
+  { A: number[][]; b: number[]; yy: number; logS: number; used: number } {
+  const n = y.length, p = cols.length;
+  const AA = new Float64Array(p * p), bb = new Float64Array(p);
+  let yy = 0, logS = 0;
+  if (r === 0 && p === 3) {
+    // Plain least squares on three columns (the lag and stall searches): scalar sums in one pass.
+    const c0 = cols[0], c1 = cols[1], c2 = cols[2];
+    let s00 = 0, s01 = 0, s02 = 0, s11 = 0, s12 = 0, s22 = 0, b0 = 0, b1 = 0, b2 = 0;
+    for (let i = 0; i < n; i++) {
+      const x0 = c0[i], x1 = c1[i], x2 = c2[i], yi = y[i];
+      s00 += x0 * x0; s01 += x0 * x1; s02 += x0 * x2; s11 += x1 * x1; s12 += x1 * x2; s22 += x2 * x2;
+      b0 += x0 * yi; b1 += x1 * yi; b2 += x2 * yi; yy += yi * yi;
+    }
+    return { A: [[s00, s01, s02], [s01, s11, s12], [s02, s12, s22]], b: [b0, b1, b2], yy, logS: 0, used: n };
+  } else if (r === 0) {
+    for (let i = 0; i < n; i++) {
+      const yi = y[i];
+      for (let a = 0; a < p; a++) {
+        const va = cols[a][i];
+        bb[a] += va * yi;
+        for (let c = a; c < p; c++) AA[a * p + c] += va * cols[c][i];
+      }
+      yy += yi * yi;
+    }
+  } else {
+    const rs = r / (step || 1);
+    // Filtered error means (travel, speed) of y and of each column, and the error's covariance.
+    const mp = new Float64Array(p + 1), mv = new Float64Array(p + 1), inn = new Float64Array(p + 1);
+    let Ppp = 0, Ppv = 0, Pvv = 0;
+    let lastDt = NaN, a = 0, g = 0;
+    for (let i = 0; i < n; i++) {
+      // Update with row i.
+      const S = Ppp + 1;
+      const w = 1 / S;
+      const kp = Ppp * w, kv = Ppv * w;
+      for (let c = 0; c <= p; c++) {
+        const v = (c < p ? cols[c][i] : y[i]) - mp[c];
+        inn[c] = v;
+        mp[c] += kp * v;
+        mv[c] += kv * v;
+      }
+      const vy = inn[p];
+      for (let c = 0; c < p; c++) {
+        const vc = inn[c] * w;
+        bb[c] += vc * vy;
+        for (let d = c; d < p; d++) AA[c * p + d] += vc * inn[d];
+      }
+      yy += vy * vy * w;
+      logS += Math.log(S);
+      const npp = Ppp - Ppp * kp, npv = Ppv - Ppp * kv, nvv = Pvv - Ppv * kv;
+      Ppp = npp; Ppv = npv; Pvv = nvv;
+      if (i === n - 1) break;
+      // Predict to row i + 1: travel += g v, speed *= a; a push on the speed.
+      const dt = t[i + 1] - t[i];
+      if (!(Math.abs(dt - lastDt) <= 1e-9 * dt)) { a = Math.exp(-Math.max(0, dt) / tau); g = tau * (1 - a); lastDt = dt; }
+      for (let c = 0; c <= p; c++) { mp[c] += g * mv[c]; mv[c] *= a; }
+      const q = rs * Math.max(0, dt);
+      const pp = Ppp + 2 * g * Ppv + g * g * Pvv;
+      const pv = a * (Ppv + g * Pvv);
+      const vv = a * a * Pvv + q;
+      Ppp = pp; Ppv = pv; Pvv = vv;
+    }
+  }
+  const A = Array.from({ length: p }, (_, x) => Array.from({ length: p }, (_, c) => (x <= c ? AA[x * p + c] : AA[c * p + x])));
+  return { A, b: Array.from(bb), yy, logS, used: n };
+}
+
+/**
+ * Least squares of the travel on [h, 1, f] per wheel with a shared K, the wheels' speed taking random
+ * pushes of r times the travel noise's variance (r = 0: plain least squares), for the basis now in the wheels.
+ */
+function solveWheels(ws: WheelData[], tau: number, r: number): WheelSolution | undefined {
+  const m = 1 + 2 * ws.length;
   const A = Array.from({ length: m }, () => new Array<number>(m).fill(0));
   const b = new Array<number>(m).fill(0);
   let yy = 0, logS = 0, used = 0;
   for (let i = 0; i < ws.length; i++) {
     const w = ws[i];
-    const S = levelSums([w.h, w.f], w.y, w.t, q, w.step);
-    const v = 1 + i;
-    A[0][0] += S.A[0][0]; A[0][v] = A[v][0] = S.A[0][1]; A[v][v] = S.A[1][1];
-    b[0] += S.b[0]; b[v] = S.b[1];
+    const S = plantSums([w.h, w.one, w.f], w.y, w.t, tau, r, w.step);
+    const idx = [0, 1 + 2 * i, 2 + 2 * i];
+    for (let x = 0; x < 3; x++) {
+      b[idx[x]] += S.b[x];
+      for (let c = 0; c < 3; c++) A[idx[x]][idx[c]] += S.A[x][c];
+    }
     yy += S.yy; logS += S.logS; used += S.used;
   }
   // A column of nothing (no power above the stall) leaves K free: no solution.
@@ -345,9 +425,9 @@ function solveWheels(ws: WheelData[], q: number): WheelSolution | undefined {
   return { beta, sse, used, logLik: -0.5 * (used * Math.log(Math.max(sse, 1e-300) / Math.max(1, used)) + logS) };
 }
 
-function sseAt(ws: WheelData[], tau: number, stall: number, q: number): WheelSolution | undefined {
+function sseAt(ws: WheelData[], tau: number, stall: number, r: number): WheelSolution | undefined {
   for (const w of ws) basis(w, tau, stall);
-  return solveWheels(ws, q);
+  return solveWheels(ws, tau, r);
 }
 
 /** The lag minimising the residual: a coarse grid on log lag, then Brent's parabolic search inside the best bracket. */
@@ -360,7 +440,8 @@ function searchLag(ws: WheelData[], stall: number, start: number, q: number, nea
   else for (let i = 0; i <= N; i++) grid.push(lo + ((hi - lo) * i) / N);
   if (start > LAG_LO && start < LAG_HI) grid.push(Math.log(start));
   grid.sort((x, y) => x - y);
-  const cost = (x: number) => sseAt(ws, Math.exp(x), stall, q)?.sse ?? Infinity;
+  // The likelihood, not the residual alone: with pushes on the speed the filter's variances change with the lag.
+  const cost = (x: number) => { const sol = sseAt(ws, Math.exp(x), stall, q); return sol ? -sol.logLik : Infinity; };
   const sses = grid.map(cost);
   let best = -1, bestSse = Infinity;
   sses.forEach((s, i) => { if (s < bestSse) { bestSse = s; best = i; } });
@@ -460,6 +541,7 @@ function fitMotor(run: RecordedRun, cur: FitCurrent): MotorFit {
   const step = medianStep(t);
   const mk = (y: number[], u: number[]): WheelData => ({
     t: Float64Array.from(t), y: Float64Array.from(y), u: Float64Array.from(u), h: new Float64Array(n), f: new Float64Array(n), step,
+    one: new Float64Array(n).fill(1),
   });
   const ws = [mk(yL, uL), mk(yR, uR)];
   const anyPower = uL.some((v) => v !== 0) || uR.some((v) => v !== 0);
@@ -480,7 +562,7 @@ function fitMotor(run: RecordedRun, cur: FitCurrent): MotorFit {
     if (again) { stall = stallFit.best; search = again; }
   }
   for (const w of ws) basis(w, search.tau, stall);
-  const q = wheelWalk(ws);
+  const q = wheelWalk(ws, search.tau);
   if (q > 0) {
     stallFit = profileStall(ws, search.tau, n, q);
     if (stallFit.best !== undefined) stall = stallFit.best;
@@ -505,26 +587,28 @@ function fitMotor(run: RecordedRun, cur: FitCurrent): MotorFit {
   if (Number.isFinite(own[0]) && Number.isFinite(own[1]) && (own[0] * own[1] <= 0 || Math.abs(own[0] - own[1]) > 0.1 * Math.max(Math.abs(own[0]), Math.abs(own[1])))) {
     notes.push(`the wheels disagree: at full power the left goes ${own[0].toFixed(0)} mm/s and the right ${own[1].toFixed(0)} mm/s by this log (more than 10 % apart), so one motor speed fits neither; check that the power and travel columns belong together and have the same sign, and look for a slipping wheel`);
   }
-  if (q > WALK_NOTE) notes.push(`the wheels' travel wanders from what the powers explain (a random walk ${Math.sqrt(q).toFixed(2)} times the travel's noise per row): bumps, slip, a tiring battery; the motor's intervals allow for it`);
-  // The covariance: the Jacobian's columns [K, lag, v0 per wheel] through the same filter.
+  if (q > WALK_NOTE) notes.push(`the wheels' speed is pushed about beyond what the powers explain (by ${Math.sqrt(q).toFixed(2)} times the travel's noise per row): bumps, a changing floor, a tiring battery; the motor's intervals allow for it`);
+  // The covariance: the Jacobian's columns [K, lag, p0 and v0 per wheel] through the same filter.
   const eps = 1e-4 * tau;
   const hp = new Float64Array(n), fp = new Float64Array(n), hm = new Float64Array(n), fm = new Float64Array(n);
-  const m = 2 + ws.length;
+  const m = 2 + 2 * ws.length;
   const JtJ = Array.from({ length: m }, () => new Array<number>(m).fill(0));
   let wsse = 0, used = 0;
   for (let i = 0; i < ws.length; i++) {
     const w = ws[i];
-    const v0 = sol.beta[1 + i];
+    const p0 = sol.beta[1 + 2 * i], v0 = sol.beta[2 + 2 * i];
     basis(w, tau + eps, stall, hp, fp);
     basis(w, tau - eps, stall, hm, fm);
     const dTau = new Float64Array(n);
     for (let k = 0; k < n; k++) dTau[k] = (K * (hp[k] - hm[k]) + v0 * (fp[k] - fm[k])) / (2 * eps);
-    const S = levelSums([w.h, dTau, w.f], w.y, w.t, q, w.step);
-    const V = 2 + i;
-    const idx = [0, 1, V];
-    for (let a = 0; a < 3; a++) for (let c = 0; c < 3; c++) JtJ[idx[a]][idx[c]] += S.A[a][c];
+    const S = plantSums([w.h, dTau, w.one, w.f], w.y, w.t, tau, q, w.step);
+    const idx = [0, 1, 2 + 2 * i, 3 + 2 * i];
+    for (let a = 0; a < 4; a++) for (let c = 0; c < 4; c++) JtJ[idx[a]][idx[c]] += S.A[a][c];
     // The weighted residual at the solution (the lag's column has no coefficient there).
-    wsse += S.yy - 2 * (K * S.b[0] + v0 * S.b[2]) + K * K * S.A[0][0] + 2 * K * v0 * S.A[0][2] + v0 * v0 * S.A[2][2];
+    const coef = [K, 0, p0, v0];
+    let quad = 0, lin = 0;
+    for (let a = 0; a < 4; a++) { lin += coef[a] * S.b[a]; for (let c = 0; c < 4; c++) quad += coef[a] * coef[c] * S.A[a][c]; }
+    wsse += S.yy - 2 * lin + quad;
     used += S.used;
   }
   const dof = used - m;
@@ -932,20 +1016,23 @@ function fitYaw(run: RecordedRun, cur: FitCurrent, options: FitOptions): YawFit 
 
 /**
  * The random walk's variance per row over the white noise's: the q that maximises the likelihood with
- * the noise's variance concentrated out (a grid on log q from 1e-5 to 1e3, then Brent's search; no
- * walk where q = 0 is as likely).
+ * the noise's variance concentrated out (a grid on log q from 1e-5 up, then Brent's search; none
+ * unless the likelihood-ratio test finds it).
  */
-function maxLikelihoodWalk(logLik: (q: number) => number): number {
+function maxLikelihoodWalk(logLik: (q: number) => number, top = 3): number {
   const cost = (lq: number) => {
     const l = logLik(Math.pow(10, lq));
     return Number.isFinite(l) ? -l : Infinity;
   };
   const flat = -logLik(0);
-  const grid = [-5, -4, -3, -2, -1, 0, 1, 2, 3];
+  const grid: number[] = [];
+  for (let lq = -5; lq <= top; lq += 2) grid.push(lq);
   const f = grid.map(cost);
   let best = 0;
   f.forEach((v, i) => { if (v < f[best]) best = i; });
-  if (!(f[best] < (Number.isFinite(flat) ? flat : Infinity))) return 0;
+  // No walk unless it is clearly more likely: the likelihood-ratio test at 5 % (the walk's variance sits
+  // on the boundary at zero, so the bound is chi-square's 90 % point, 2.71: Self & Liang, JASA 1987).
+  if (!(2 * (flat - f[best]) > 2.705543454095404)) return 0;
   if (best === 0 || best === grid.length - 1) return Math.pow(10, grid[best]);
   const m = brent(cost, grid[best - 1], grid[best], grid[best + 1], f[best], 0, 1e-3);
   return Math.pow(10, m.f <= f[best] ? m.x : grid[best]);
@@ -956,9 +1043,9 @@ function walkRatio(cols: Float64Array[], y: Float64Array, seg: Int32Array, t: Fl
   return maxLikelihoodWalk((q) => localLevelGls(cols, y, seg, t, q, step)?.logLik ?? -Infinity);
 }
 
-/** The wheels' walk, for the basis now in them (see maxLikelihoodWalk). */
-function wheelWalk(ws: WheelData[]): number {
-  return maxLikelihoodWalk((q) => solveWheels(ws, q)?.logLik ?? -Infinity);
+/** How hard the wheels' speed is pushed about, for the basis now in them (see maxLikelihoodWalk). */
+function wheelWalk(ws: WheelData[], tau: number): number {
+  return maxLikelihoodWalk((r) => solveWheels(ws, tau, r)?.logLik ?? -Infinity, 5);
 }
 
 /**
