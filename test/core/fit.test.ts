@@ -7,7 +7,7 @@
 import { strict as assert } from 'node:assert';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { fitFixes, fitRobot, currentFromSetup, roundForPlan, type FitCurrent, type FitName, type FitResult } from '../../src/core/record/fit';
+import { fitFixes, fitRobot, currentFromSetup, roundForPlan, MAX_FIT_ROWS, type FitCurrent, type FitName, type FitResult } from '../../src/core/record/fit';
 import { checkPlan } from '../../src/core/check';
 import { applyEdits } from '../../src/core/fix/text';
 import { readLog } from '../../src/core/record/log';
@@ -336,6 +336,18 @@ describe('fitting the robot model to a recorded run', () => {
         }
         for (const f of fitFixes('plan "x"\nwheel 56 mm\ntrack 121 mm\n', fit)) assert.ok(f.edits.length > 0 && f.title.length > 0);
       }
+    });
+
+    it('a log longer than 100,000 rows: the fit reads the first 100,000 and says so', function () {
+      this.timeout(60_000);
+      const long = calibrationSchedule();
+      const steps = Array.from({ length: 74 }, () => long).flat(); // 74 x 13.7 s at 10 ms: about 101,400 rows
+      const run = simulatedLog(TRUTH, steps, { seed: 4, ...NOISE });
+      assert.ok(run.samples.length > MAX_FIT_ROWS);
+      const fit = fitRobot(run, PLAN);
+      assert.equal(fit.rows, MAX_FIT_ROWS);
+      assert.ok(fit.notes.some((n) => /uses the first 100,000 of the log's 10\d,\d{3} rows/.test(n)), fit.notes.join(' | '));
+      within(fit, 'motorSpeed', 900);
     });
 
     it('a plan without a track: the yaw fit says to add one', () => {

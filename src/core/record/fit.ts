@@ -115,6 +115,8 @@ const DELAY_HI = 0.5;
 const DELAY_STEP = 0.05;
 /** A random walk of the yaw reading above this share of its noise (variance per row) gets a note. */
 const WALK_NOTE = 0.01;
+/** The fit reads at most this many rows of a log (the first ones): about a second of work. */
+export const MAX_FIT_ROWS = 100_000;
 /** Fewest rows a fit works on. */
 export const MIN_ROWS = 20;
 
@@ -708,6 +710,10 @@ function profileStall(ws: WheelData[], tau: number, n: number, q: number): { bes
   };
 }
 
+function fmtSeconds(s: number): string {
+  return Number.isFinite(s) ? (s >= 120 ? `${(s / 60).toFixed(1)} min` : `${s.toFixed(1)} s`) : 'an unknown time';
+}
+
 function pct(v: number): string {
   return `${+(v * 100).toPrecision(4)} %`;
 }
@@ -1172,8 +1178,12 @@ function mismatchVariance(beta: number[], inv: number[][], sigma2: number, m: nu
 
 /** Fits the robot model to a recorded run. */
 export function fitRobot(run: RecordedRun, current: FitCurrent, options: FitOptions = {}): FitResult {
-  const rows = run.samples.length;
   const notes: string[] = [];
+  if (run.samples.length > MAX_FIT_ROWS) {
+    notes.push(`the fit uses the first ${MAX_FIT_ROWS.toLocaleString('en-US')} of the log's ${run.samples.length.toLocaleString('en-US')} rows (${fmtSeconds(run.samples[MAX_FIT_ROWS - 1].t)} of it): plenty to fit the model, and quick enough to offer while you edit`);
+    run = { ...run, samples: run.samples.slice(0, MAX_FIT_ROWS) };
+  }
+  const rows = run.samples.length;
   if (rows < MIN_ROWS) {
     const why = `the log has only ${rows} row${rows === 1 ? '' : 's'}: a fit needs at least ${MIN_ROWS} (record the whole run, every control-loop sample)`;
     const params = {} as Record<FitName, FitParam>;
@@ -1182,7 +1192,7 @@ export function fitRobot(run: RecordedRun, current: FitCurrent, options: FitOpti
       effectiveTrack: current.effectiveTrack, gyroScale: current.gyroScale, mismatch: current.mismatch, gyroDelay: current.gyroDelay, drift: undefined,
     };
     for (const name of Object.keys(LABELS) as FitName[]) params[name] = notFound(name, why, 0, cur[name]);
-    return { params, residual: {}, notes: [why], rows, source: run.source, noiseDrift: current.noiseDrift };
+    return { params, residual: {}, notes: [...notes, why], rows, source: run.source, noiseDrift: current.noiseDrift };
   }
   let unread = 0, back = 0, last = -Infinity;
   for (const s of run.samples) {
