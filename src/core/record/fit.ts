@@ -43,7 +43,8 @@
 //   to the next), and the simulated travel is fitted to the recorded travel by
 //   least squares. Given the lag the travel is linear in the wheel speed per
 //   unit power K and in each wheel's starting travel and speed, so those are
-//   solved exactly and only the lag is searched (golden section on its log).
+//   solved exactly and only the lag is searched (a grid on its log, then
+//   Brent's search).
 //   Both wheels share K and the lag (the plan has one `motor` line; the
 //   encoders count nominal-wheel mm, so `mismatch` does not enter); each
 //   wheel's own K is worked out too, and a note says when they disagree.
@@ -76,8 +77,9 @@
 //   random walk (a gyro's angle random walk, slip that builds up): linear
 //   least squares (offsets eliminated per stretch) for the searches, then
 //   generalised least squares through the local-level Kalman filter, the
-//   walk's share of the noise by maximum likelihood; with no walk that is
-//   least squares again. The drift is fitted only when the log holds at least STILL_MIN_S
+//   walk's share of the noise by maximum likelihood (kept only where the
+//   likelihood-ratio test finds it); with no walk that is least squares
+//   again. The drift is fitted only when the log holds at least STILL_MIN_S
 //   seconds with both wheels still; otherwise it is taken as zero. The delay:
 //   the residual's minimum over a grid and Brent's search, its se from its
 //   Gauss–Newton column; the rest is fitted at it only where it differs from
@@ -113,7 +115,7 @@ const MISMATCH_SE_MAX = 0.01;
 const DELAY_LO = -0.05;
 const DELAY_HI = 0.5;
 const DELAY_STEP = 0.05;
-/** A random walk of the yaw reading above this share of its noise (variance per row) gets a note. */
+/** A random walk of the yaw reading, or pushes on the wheels, above this share of the noise (variance per row) get a note. */
 const WALK_NOTE = 0.01;
 /** The fit reads at most this many rows of a log (the first ones): about a second of work. */
 export const MAX_FIT_ROWS = 100_000;
@@ -151,7 +153,7 @@ export interface FitParam {
   name: FitName;
   /** Plain words: "motor speed". */
   label: string;
-  /** Canonical unit of value, se, low, high, current: 'deg/s', 's', 'fraction', 'mm', '', 'deg/s'. */
+  /** Canonical unit of value, se, low, high, current: 'deg/s' (motor, drift), 's' (lag, delay), 'fraction' (stall), 'mm' (track), '' (scale, mismatch). */
   unit: string;
   found: boolean;
   value?: number;
