@@ -419,6 +419,18 @@ describe('fitting the robot model to a recorded run', () => {
       assert.match(out, /^track 121 mm effective \S+ mm$/m);
     });
 
+    it('keeps the plan\'s line ends and writes a motor speed given in rpm in deg/s', () => {
+      // 140 rpm is 840 deg/s, the truth 900 deg/s (150 rpm).
+      const crlf = 'plan "x"\r\nwheel 56 mm\r\ntrack 121 mm\r\nmotor 140 rpm\r\nrun "a"\r\nstart (0, 0) heading 0\r\n';
+      const plan = currentFromSetup(checkPlan(crlf).setup);
+      const fit = fitRobot(simulatedLog(TRUTH, calibrationSchedule(), { seed: 8, ...NOISE }), plan);
+      const out = applyEdits(crlf, fitFixes(crlf, fit)[0].edits);
+      assert.equal(out.split('\r\n').length, out.split('\n').length, 'every line ends in CRLF');
+      assert.match(out, /^motor \S+ deg\/s lag \S+ ms stall 5\.5%\r$/m);
+      // The speed written is the fitted one rounded to 0.1 deg/s, within 3 se of the truth.
+      assert.ok(Math.abs(checkPlan(out).setup.robot.motorSpeed! - 900) < 0.05 + 3 * fit.params.motorSpeed.se!);
+    });
+
     it('offers nothing where the plan already agrees with the log (unless asked for all)', () => {
       const truthPlan: FitCurrent = { ...PLAN, motorSpeed: 900, motorLag: TRUTH.lag, stall: 0.055, effectiveTrack: TRUTH.track, mismatch: TRUTH.mismatch, noiseDrift: 1 };
       // Each 95 % interval misses the truth on 1 seed in 20 (seed 1's track does): on seed 2 every interval holds it.
