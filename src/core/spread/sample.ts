@@ -8,6 +8,7 @@ import { SPREAD_DEFAULTS, zeroes } from './run';
 import { propagateTravel, ZERO_COV } from './propagate';
 import { simRecordOf, type SimRecord } from '../sim/run';
 import { restState, simulateMotion, type SimMotion, type SimRobot, type SimState } from '../sim/motion';
+import { runSampledMotion, sampledPathFits } from '../sim/sampled';
 
 const RAD = Math.PI / 180;
 /** Pieces of wheel travel (mm) each sampled with its own random error. */
@@ -46,6 +47,11 @@ export interface RunSamples {
   heading: Float64Array[];
 }
 
+/** For tests: `scalar` simulates every sampled motion through simulateMotion of sim/motion.ts instead of sim/sampled.ts. */
+export interface SampleOptions {
+  scalar?: boolean;
+}
+
 /**
  * Samples `count` runs; `onProgress` is called now and then with the share
  * done. Where the check simulated the run (a robot with its motor), every
@@ -53,8 +59,8 @@ export interface RunSamples {
  * motion really ended); otherwise the planned path is driven with its errors.
  */
 export function sampleRun(segments: readonly Segment[], noise: NoiseModel, track: number, turns: TurnDirection, count: number, seed: number,
-  onProgress?: (done: number) => void): RunSamples {
-  if (simulated(segments)) return sampleSimulated(segments, noise, track, turns, count, seed, onProgress);
+  onProgress?: (done: number) => void, options: SampleOptions = {}): RunSamples {
+  if (simulated(segments)) return sampleSimulated(segments, noise, track, turns, count, seed, onProgress, options.scalar === true);
   return samplePlanned(segments, noise, track, turns, count, seed, onProgress);
 }
 
@@ -249,7 +255,7 @@ function cholesky3(m: number[]): Float64Array {
 
 /** The error model applied to a simulated robot: its motions as the check simulated them, with the run's errors. */
 function sampleSimulated(segments: readonly Segment[], noise: NoiseModel, track: number, turns: TurnDirection, count: number, seed: number,
-  onProgress?: (done: number) => void): RunSamples {
+  onProgress: ((done: number) => void) | undefined, scalar: boolean): RunSamples {
   const flip = turns === 'clockwise' ? 1 : -1;
   const n = segments.length;
   const out: RunSamples = {
@@ -264,6 +270,8 @@ function sampleSimulated(segments: readonly Segment[], noise: NoiseModel, track:
   const base = records.find((r) => r)?.robot;
   if (!base) return out;
   const robot: SimRobot = { ...base };
+  // The same steps without a trace, pose sink or outcome object (sim/sampled.ts), where the reading has no delay.
+  const quick = !scalar && sampledPathFits(robot);
   for (let s = 0; s < count; s++) {
     if (onProgress && s % 50 === 0) onProgress(s / count);
     // Per-run constants: a wheel (1 + dist) times as large (its encoder's millimetres go further, at the same motor
@@ -310,9 +318,13 @@ function sampleSimulated(segments: readonly Segment[], noise: NoiseModel, track:
           }
           // A gyro turn aims at the reading the prediction worked out (the targets table's yaw target): the
           // sampled runs differ in where the reference and the sensor put the robot, as the error model says.
-          if (motion.kind === 'encoders' && dist !== 0) motion = { ...motion, left: motion.left * (1 + dist), right: motion.right * (1 + dist) };
-          else if (motion.kind === 'hold' && dist !== 0) motion = { ...motion, distance: motion.distance * (1 + dist) };
-          const outcome = simulateMotion(state, robot, motion);
+          let finished: boolean;
+          if (quick) finished = runSampledMotion(state, robot, motion, 1 + dist); // the travel scaled as below
+          else {
+            if (motion.kind === 'encoders' && dist !== 0) motion = { ...motion, left: motion.left * (1 + dist), right: motion.right * (1 + dist) };
+            else if (motion.kind === 'hold' && dist !== 0) motion = { ...motion, distance: motion.distance * (1 + dist) };
+            finished = simulateMotion(state, robot, motion).finished;
+          }
           // The wheels' random error over the motion.
           const L = factors[i];
           let dx = 0;
@@ -325,8 +337,8 @@ function sampleSimulated(segments: readonly Segment[], noise: NoiseModel, track:
             dy = L[3] * z0 + L[4] * z1;
             state.h += L[6] * z0 + L[7] * z1 + L[8] * z2;
           }
-          if (!outcome.finished) stopped = true; // it waits (or spins) for ever: the rest of the run never happens
-          if (squaredEnd && outcome.finished) {
+          if (!finished) stopped = true; // it waits (or spins) for ever: the rest of the run never happens
+          if (squaredEnd && finished) {
             // Flush against the wall and square to it: the square's own small errors replace the heading's and the
             // position's across the wall; along the wall the robot keeps where it came (and its wheels' error).
             state.h = squaredEnd.heading + squareSd * gauss();
