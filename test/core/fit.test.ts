@@ -66,6 +66,9 @@ describe('fitting the robot model to a recorded run', () => {
     assert.ok(Math.abs(fit.residual.wheelMm! - 0.1) < 0.01, `${fit.residual.wheelMm}`);
     assert.ok(Math.abs(fit.residual.yawDeg! - 0.15) < 0.015, `${fit.residual.yawDeg}`);
     assert.equal(fit.params.motorSpeed.samples, fit.rows);
+    // Each wheel alone: TRUTH.fullSpeed = 900 x pi x 56 / 360 = 439.823 mm/s (the right wheel's encoder
+    // counts nominal millimetres, so it shows the same), to 0.1 % (common practice, no published source).
+    assert.ok(Math.abs(fit.eachWheel!.left / TRUTH.fullSpeed - 1) < 0.001 && Math.abs(fit.eachWheel!.right / TRUTH.fullSpeed - 1) < 0.001);
   });
 
   it('95 % intervals contain the truth in about 95 % of 200 seeded runs', function () {
@@ -303,6 +306,7 @@ describe('fitting the robot model to a recorded run', () => {
       const fit = fitRobot(run, PLAN);
       assertFinite(fit);
       assert.ok(fit.notes.some((n) => /the wheels disagree/.test(n)), fit.notes.join(' | '));
+      assert.ok(fit.eachWheel!.left > 0 && fit.eachWheel!.right < 0);
       // The agreeing log has no such note.
       assert.ok(!fitRobot(log(2), PLAN).notes.some((n) => /disagree/.test(n)));
     });

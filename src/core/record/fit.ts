@@ -23,6 +23,8 @@
 //       diameter, the right wheel's with the plan's mismatch in it.
 //       result.notes: what the fit assumed or skipped, for the whole log.
 //       result.residual: rms misfit of the wheel travel (mm) and of the yaw (deg).
+//       result.wheelSpeed / eachWheel: the motor fit's own mm/s at full power
+//       (both wheels together, and each on its own).
 //       effectiveTrack and gyroScale are two readings of ONE number (the yaw per
 //       mm of wheel-travel difference): effectiveTrack assumes the plan's gyro
 //       scale, gyroScale assumes the plan's effective track. Apply one of them.
@@ -176,6 +178,8 @@ export interface FitResult {
   params: Record<FitName, FitParam>;
   /** Wheel speed per unit power, mm/s of nominal-wheel travel at full power (the motor fit's own number). */
   wheelSpeed?: { value: number; se: number };
+  /** Each wheel's own speed at full power (least squares, the same lag), mm/s: far apart means a reversed column or a slipping wheel. */
+  eachWheel?: { left: number; right: number };
   residual: { wheelMm?: number; yawDeg?: number };
   notes: string[];
   rows: number;
@@ -507,6 +511,7 @@ function brent(f: (x: number) => number, a: number, b: number, c: number, fb: nu
 interface MotorFit {
   params: Pick<Record<FitName, FitParam>, 'motorSpeed' | 'motorLag' | 'stall'>;
   wheelSpeed?: { value: number; se: number };
+  eachWheel?: { left: number; right: number };
   rmsMm?: number;
   notes: string[];
 }
@@ -647,7 +652,8 @@ function fitMotor(run: RecordedRun, cur: FitCurrent): MotorFit {
   } else {
     params.motorLag = found('motorLag', tau, seTau, n, cur.motorLag);
   }
-  return { params, wheelSpeed, rmsMm, notes };
+  const eachWheel = Number.isFinite(own[0]) && Number.isFinite(own[1]) ? { left: own[0], right: own[1] } : undefined;
+  return { params, wheelSpeed, ...(eachWheel ? { eachWheel } : {}), rmsMm, notes };
 }
 
 function medianStep(t: ArrayLike<number>): number {
@@ -1216,6 +1222,7 @@ export function fitRobot(run: RecordedRun, current: FitCurrent, options: FitOpti
   return {
     params: { ...motor.params, ...yaw.params },
     ...(motor.wheelSpeed ? { wheelSpeed: motor.wheelSpeed } : {}),
+    ...(motor.eachWheel ? { eachWheel: motor.eachWheel } : {}),
     residual,
     notes,
     rows,
