@@ -72,12 +72,12 @@ describe('sampling worker', function () {
       last = now;
     }, 5);
     const began = performance.now();
-    const reply = await runWorker(SCRIPT, { text: PLAN, fileName: 'parcel-table.veer', count: 10000, seed: 2 }, cancellation(), () => {});
+    const reply = await runWorker(SCRIPT, { text: PLAN, fileName: 'parcel-table.veer', count: 40000, seed: 2 }, cancellation(), () => {});
     const took = performance.now() - began;
     clearInterval(timer);
     assert.notEqual(reply, 'cancelled');
     // 100 ms is the delay a person notices (Nielsen, Usability Engineering, 1993, ch. 5: 0.1 s feels instantaneous).
-    // Sampling 10,000 runs takes a second or more; in the calling thread it would stop the timer for all of it.
+    // Sampling 40,000 runs takes a second or more; in the calling thread it would stop the timer for all of it.
     assert.ok(took > 1000, `sampling took ${took.toFixed(0)} ms: too short to show anything`);
     assert.ok(worst < 100, `the timer stopped for ${worst.toFixed(0)} ms while sampling took ${took.toFixed(0)} ms`);
   });
