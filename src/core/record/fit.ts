@@ -596,7 +596,7 @@ function fitMotor(run: RecordedRun, cur: FitCurrent): MotorFit {
   if (Number.isFinite(own[0]) && Number.isFinite(own[1]) && (own[0] * own[1] <= 0 || Math.abs(own[0] - own[1]) > 0.1 * Math.max(Math.abs(own[0]), Math.abs(own[1])))) {
     notes.push(`the wheels disagree: at full power the left goes ${own[0].toFixed(0)} mm/s and the right ${own[1].toFixed(0)} mm/s by this log (more than 10 % apart), so one motor speed fits neither; check that the power and travel columns belong together and have the same sign, and look for a slipping wheel`);
   }
-  if (q > WALK_NOTE) notes.push(`the wheels' speed is pushed about beyond what the powers explain (by ${Math.sqrt(q).toFixed(2)} times the travel's noise per row): bumps, a changing floor, a tiring battery; the motor's intervals allow for it`);
+  if (q > WALK_NOTE) notes.push(`the wheels' speed is pushed about beyond what the powers explain (by ${Math.sqrt(q).toFixed(2)} times the travel's noise per row): bumps, a changing floor, a tiring battery, or encoders that count in coarse steps; the motor's intervals allow for it`);
   // The covariance: the Jacobian's columns [K, lag, p0 and v0 per wheel] through the same filter.
   const eps = 1e-4 * tau;
   const hp = new Float64Array(n), fp = new Float64Array(n), hm = new Float64Array(n), fm = new Float64Array(n);
