@@ -285,7 +285,12 @@ export function replayText(planFile: string, logFile: string, r: Replay, fit: Fi
 }
 
 function fitLine(p: FitParam): string {
-  const show = (v: number) => (p.unit === 'fraction' ? `${f(v * 100, 1)} %` : p.unit === 's' ? `${f(v * 1000, 0)} ms` : p.unit === 'deg/s' && p.name === 'drift' ? `${f(v * 60, 2)} deg/min` : p.unit === 'deg/s' ? `${f(v, 0)} deg/s` : p.unit === 'mm' ? `${f(v, 1)} mm` : f(v, 4));
+  // Enough digits that the interval's two ends differ: two significant digits of its half-width, in the unit shown.
+  const scale = p.unit === 'fraction' ? 100 : p.unit === 's' ? 1000 : p.unit === 'deg/s' && p.name === 'drift' ? 60 : 1;
+  const half = p.low !== undefined && p.high !== undefined ? ((p.high - p.low) / 2) * scale : 0;
+  const least = p.unit === 'fraction' ? 1 : p.unit === 's' ? 0 : p.unit === 'deg/s' && p.name === 'drift' ? 2 : p.unit === 'deg/s' ? 0 : p.unit === 'mm' ? 1 : 4;
+  const digits = half > 0 && Number.isFinite(half) ? Math.min(6, Math.max(least, 1 - Math.floor(Math.log10(half)))) : least;
+  const show = (v: number) => (p.unit === 'fraction' ? `${f(v * 100, digits)} %` : p.unit === 's' ? `${f(v * 1000, digits)} ms` : p.unit === 'deg/s' && p.name === 'drift' ? `${f(v * 60, digits)} deg/min` : p.unit === 'deg/s' ? `${f(v, digits)} deg/s` : p.unit === 'mm' ? `${f(v, digits)} mm` : f(v, digits));
   if (!p.found || p.value === undefined) return `${pad(p.label, 16)} not found: ${p.note ?? 'this log cannot give it'}`;
   const range = p.low !== undefined && p.high !== undefined ? ` (${show(p.low)} to ${show(p.high)})` : '';
   const plan = p.current !== undefined ? `; the plan says ${show(p.current)}${p.differs ? ', outside the interval' : ''}` : '';
