@@ -14,7 +14,7 @@
 //
 // Keep it in step with motion.ts: a change to a controller or to the plant
 // step there is made here too (the equality test catches a miss).
-import { MOTION_CAP_S, RAMP_FLOOR, STEADY_BULGE, type EncoderMotion, type GyroTurnMotion, type HoldDriveMotion, type SimMotion, type SimRobot, type SimState } from './motion';
+import { MOTION_CAP_S, RAMP_FLOOR, STEADY_BULGE, type SimMotion, type SimRobot, type SimState } from './motion';
 
 const RAD = Math.PI / 180;
 const DEG = 180 / Math.PI;
@@ -42,25 +42,36 @@ export function sampledPathFits(r: SimRobot): boolean {
  * Only for a robot that `sampledPathFits`.
  */
 export function runSampledMotion(s: SimState, r: SimRobot, m: SimMotion, travelScale: number): boolean {
+  return runPrepared(s, r, prepareSampled(m), travelScale);
+}
+
+/**
+ * A motion's settings in one flat array, its kind first: the loops read them the same way whatever the shape of
+ * the motion's object (the sampler prepares each motion once and runs it in every sampled run).
+ */
+export type SampledMotion = Float64Array;
+const WAIT = 0;
+const ENCODERS = 1;
+const GYRO_TURN = 2;
+const HOLD = 3;
+
+export function prepareSampled(m: SimMotion): SampledMotion {
   switch (m.kind) {
-    case 'wait': return waitOn(s, r, m.time);
-    case 'encoders': return encoders(s, r, m, travelScale);
-    case 'gyro-turn': return gyroTurn(s, r, m);
-    case 'hold': return hold(s, r, m, travelScale);
+    case 'wait': return Float64Array.of(WAIT, m.time);
+    case 'encoders': return Float64Array.of(ENCODERS, m.left, m.right, m.power, m.accel !== undefined && m.accel > 0 ? m.accel : 0, m.rampMin ?? -1);
+    case 'gyro-turn': return Float64Array.of(GYRO_TURN, m.target, m.gain, m.min, m.power, m.stop, m.ramp ? 1 : 0, m.shareL, m.shareR);
+    case 'hold': return Float64Array.of(HOLD, m.target, m.gain, m.distance, m.power, m.accel !== undefined && m.accel > 0 ? m.accel : 0);
   }
 }
 
-function store(s: SimState, x: number, y: number, h: number, vL: number, vR: number, t: number, cachedH: number, sinH: number, cosH: number, tse: number): void {
-  s.x = x;
-  s.y = y;
-  s.h = h;
-  s.vL = vL;
-  s.vR = vR;
-  s.t = t;
-  s.cachedH = cachedH;
-  s.sinH = sinH;
-  s.cosH = cosH;
-  s.turnsSinceExact = tse;
+/** runSampledMotion of a prepared motion. */
+export function runPrepared(s: SimState, r: SimRobot, m: SampledMotion, travelScale: number): boolean {
+  switch (m[0]) {
+    case ENCODERS: return encoders(s, r, m, travelScale);
+    case GYRO_TURN: return gyroTurn(s, r, m);
+    case HOLD: return hold(s, r, m, travelScale);
+    default: return waitOn(s, r, m[1]);
+  }
 }
 
 /** wrapReading of solve/frame.ts; within the range the value itself (the floor is 0), with no division. */
@@ -81,21 +92,26 @@ function decayOf(r: SimRobot, dt: number): number {
   return r.lag > 0 ? Math.exp(-dt / r.lag) : 0;
 }
 
-/** Travel of one wheel over `dt` from speed v under command c (mm/s), exact (motion.ts's wheelTravel). */
-function wheelTravel(v: number, c: number, lag: number, dt: number, decay: number | undefined): number {
-  const g = lag > 0 ? lag * (1 - (decay ?? Math.exp(-dt / lag))) : 0;
-  return g * v + c * (dt - g);
-}
-
-/** The decay exp(−t/lag) at the time crossingTime returned. */
-const crossingDecay = new Float64Array(1);
+/**
+ * The numbers in and out of `crossingTime` (a call passes and returns its numbers boxed, an allocation each):
+ * in v, c, lag, dt, need and the decay over dt; out the time and the decay at that time.
+ */
+const cross = new Float64Array(8);
+const V = 0, C = 1, LAG = 2, DT = 3, NEED = 4, DECAY_DT = 5, T_OUT = 6, DECAY_OUT = 7;
 
 /**
  * motion.ts's crossingTime, given the decay over `dt` (exp(−dt/lag), as decayOf gives it) instead of working it out
- * twice, and leaving the decay at the time it returns in `crossingDecay` (the same exp(−t/lag) decayOf would give).
+ * twice, and giving the decay at the time it returns too (the same exp(−t/lag) that decayOf would give).
  */
-function crossingTime(v: number, c: number, lag: number, dt: number, need: number, decayAtDt: number): number {
-  const whole = wheelTravel(v, c, lag, dt, decayAtDt);
+function crossingTime(): void {
+  const v = cross[V];
+  const c = cross[C];
+  const lag = cross[LAG];
+  const dt = cross[DT];
+  const need = cross[NEED];
+  const decayAtDt = cross[DECAY_DT];
+  const g0 = lag > 0 ? lag * (1 - decayAtDt) : 0;
+  const whole = g0 * v + c * (dt - g0);
   const dir = Math.sign(whole) || 1;
   let lo = 0;
   let hi = dt;
@@ -103,17 +119,22 @@ function crossingTime(v: number, c: number, lag: number, dt: number, need: numbe
   let t = dt * Math.min(1, Math.max(0, need / (whole || need)));
   for (let k = 0; k < 30; k++) {
     const e = lag > 0 ? Math.exp(-t / lag) : 0;
-    const f = dir * (wheelTravel(v, c, lag, t, e) - need);
+    const g = lag > 0 ? lag * (1 - e) : 0;
+    const f = dir * ((g * v + c * (t - g)) - need);
     if (f >= 0) { hi = t; hiDecay = e; } else lo = t;
-    if (Math.abs(f) < 1e-9) { crossingDecay[0] = e; return t; }
+    if (Math.abs(f) < 1e-9) {
+      cross[T_OUT] = t;
+      cross[DECAY_OUT] = e;
+      return;
+    }
     if (hi - lo < 1e-12) break;
     const speed = dir * (c + (v - c) * e);
     let next = speed > 0 ? t - f / speed : (lo + hi) / 2;
     if (!(next > lo && next < hi)) next = (lo + hi) / 2;
     t = next;
   }
-  crossingDecay[0] = hiDecay;
-  return hi;
+  cross[T_OUT] = hi;
+  cross[DECAY_OUT] = hiDecay;
 }
 
 function clamp1(u: number): number {
@@ -197,13 +218,23 @@ function waitOn(s: SimState, r: SimRobot, time: number): boolean {
     }
   }
   t = end;
-  store(s, x, y, h, vL, vR, t, cachedH, sinH, cosH, tse);
+  // Back into the state (written out: a call would pass the numbers boxed).
+  s.x = x;
+  s.y = y;
+  s.h = h;
+  s.vL = vL;
+  s.vR = vR;
+  s.t = t;
+  s.cachedH = cachedH;
+  s.sinH = sinH;
+  s.cosH = cosH;
+  s.turnsSinceExact = tse;
   return true;
 }
 
-function encoders(s: SimState, r: SimRobot, m: EncoderMotion, travelScale: number): boolean {
-  const left = m.left * travelScale;
-  const right = m.right * travelScale;
+function encoders(s: SimState, r: SimRobot, m: SampledMotion, travelScale: number): boolean {
+  const left = m[1] * travelScale;
+  const right = m[2] * travelScale;
   const outer = Math.max(Math.abs(left), Math.abs(right));
   if (outer === 0) return true;
   let x = s.x;
@@ -227,21 +258,27 @@ function encoders(s: SimState, r: SimRobot, m: EncoderMotion, travelScale: numbe
   let encR = 0;
   let doneL = left === 0;
   let doneR = right === 0;
-  const power = m.power;
+  const power = m[3];
   const floor = Math.min(RAMP_FLOOR, power);
-  const accel = m.accel !== undefined && m.accel > 0 ? m.accel : 0;
-  const rampMin = m.rampMin ?? -1;
+  const accel = m[4];
+  const rampMin = m[5];
   const held = accel === 0 && rampMin < 0;
   const full = r.fullSpeed;
   const mismatch = r.mismatch;
   const lag = r.lag;
   const stall = r.stall;
   const track = r.track;
+  const sample = r.sample;
+  const longStep = r.longStep;
+  const decay = r.decay;
+  const decayLong = r.decayLong;
+  const unit = mismatch === 1; // x / 1 is x: no division
   let finished = true;
   // The last steady arc's commands and its step.
   let arcL = NaN;
   let arcR = NaN;
   let arcDt = 0;
+  let arcDecay = 0;
   while (!(doneL && doneR)) {
     if (!(t - start < MOTION_CAP_S)) { finished = false; break; }
     // The outer wheel's power now.
@@ -279,20 +316,36 @@ function encoders(s: SimState, r: SimRobot, m: EncoderMotion, travelScale: numbe
         arcL = cL;
         arcR = cR;
         arcDt = dt;
+        arcDecay = decayOf(r, dt);
       }
     }
     if (!(dt > 0 && dt <= MOTION_CAP_S)) dt = r.sample;
     let finishing = 0; // 1: the left wheel arrives in this step, 2: the right
-    let a = decayOf(r, dt);
+    // decayOf(dt), and wheelTravel below, written out: a call that is not inlined passes its numbers boxed.
+    let a = dt === arcDt ? arcDecay : dt === sample ? decay : dt === longStep ? decayLong : lag > 0 ? Math.exp(-dt / lag) : 0;
     if (!doneL) {
       const need = left - encL;
-      const d = wheelTravel(vL, cL, lag, dt, a);
-      if (Math.sign(need) * d >= Math.abs(need)) { dt = crossingTime(vL, cL, lag, dt, need, a); finishing = 1; a = crossingDecay[0]; }
+      const gd = lag > 0 ? lag * (1 - a) : 0;
+      const d = gd * vL + cL * (dt - gd);
+      if (Math.sign(need) * d >= Math.abs(need)) {
+        cross[V] = vL; cross[C] = cL; cross[LAG] = lag; cross[DT] = dt; cross[NEED] = need; cross[DECAY_DT] = a;
+        crossingTime();
+        dt = cross[T_OUT];
+        a = cross[DECAY_OUT];
+        finishing = 1;
+      }
     }
     if (!doneR) {
       const need = (right - encR) * mismatch;
-      const d = wheelTravel(vR, cR, lag, dt, a);
-      if (Math.sign(need) * d >= Math.abs(need)) { dt = crossingTime(vR, cR, lag, dt, need, a); finishing = 2; a = crossingDecay[0]; }
+      const gd = lag > 0 ? lag * (1 - a) : 0;
+      const d = gd * vR + cR * (dt - gd);
+      if (Math.sign(need) * d >= Math.abs(need)) {
+        cross[V] = vR; cross[C] = cR; cross[LAG] = lag; cross[DT] = dt; cross[NEED] = need; cross[DECAY_DT] = a;
+        crossingTime();
+        dt = cross[T_OUT];
+        a = cross[DECAY_OUT];
+        finishing = 2;
+      }
     }
     const g = lag * (1 - a);
     const b = 1 - a;
@@ -343,15 +396,25 @@ function encoders(s: SimState, r: SimRobot, m: EncoderMotion, travelScale: numbe
       t += dt;
     }
     encL += sL;
-    encR += sR / mismatch;
+    encR += unit ? sR : sR / mismatch;
     if (finishing === 1 || (!doneL && Math.sign(left) * (encL - left) >= -1e-9)) { doneL = true; encL = left; }
     if (finishing === 2 || (!doneR && Math.sign(right) * (encR - right) >= -1e-9)) { doneR = true; encR = right; }
   }
-  store(s, x, y, h, vL, vR, t, cachedH, sinH, cosH, tse);
+  // Back into the state (written out: a call would pass the numbers boxed).
+  s.x = x;
+  s.y = y;
+  s.h = h;
+  s.vL = vL;
+  s.vR = vR;
+  s.t = t;
+  s.cachedH = cachedH;
+  s.sinH = sinH;
+  s.cosH = cosH;
+  s.turnsSinceExact = tse;
   return finished;
 }
 
-function gyroTurn(s: SimState, r: SimRobot, m: GyroTurnMotion): boolean {
+function gyroTurn(s: SimState, r: SimRobot, m: SampledMotion): boolean {
   let x = s.x;
   let y = s.y;
   let h = s.h;
@@ -366,14 +429,14 @@ function gyroTurn(s: SimState, r: SimRobot, m: GyroTurnMotion): boolean {
   let sR = 0;
   const sign = r.turns === 'clockwise' ? 1 : -1;
   const invTrack = 1 / r.track;
-  const target = m.target;
-  const gain = m.gain;
-  const min = m.min;
-  const power = m.power;
-  const stop = m.stop;
-  const ramp = m.ramp;
-  const shareL = m.shareL;
-  const shareR = m.shareR;
+  const target = m[1];
+  const gain = m[2];
+  const min = m[3];
+  const power = m[4];
+  const stop = m[5];
+  const ramp = m[6] !== 0;
+  const shareL = m[7];
+  const shareR = m[8];
   const full = r.fullSpeed;
   const mismatch = r.mismatch;
   const stall = r.stall;
@@ -500,11 +563,21 @@ function gyroTurn(s: SimState, r: SimRobot, m: GyroTurnMotion): boolean {
     }
     if (phase === 1) phase = 2;
   }
-  store(s, x, y, h, vL, vR, t, cachedH, sinH, cosH, tse);
+  // Back into the state (written out: a call would pass the numbers boxed).
+  s.x = x;
+  s.y = y;
+  s.h = h;
+  s.vL = vL;
+  s.vR = vR;
+  s.t = t;
+  s.cachedH = cachedH;
+  s.sinH = sinH;
+  s.cosH = cosH;
+  s.turnsSinceExact = tse;
   return finished;
 }
 
-function hold(s: SimState, r: SimRobot, m: HoldDriveMotion, travelScale: number): boolean {
+function hold(s: SimState, r: SimRobot, m: SampledMotion, travelScale: number): boolean {
   let x = s.x;
   let y = s.y;
   let h = s.h;
@@ -519,14 +592,14 @@ function hold(s: SimState, r: SimRobot, m: HoldDriveMotion, travelScale: number)
   let sR = 0;
   const sign = r.turns === 'clockwise' ? 1 : -1;
   const invTrack = 1 / r.track;
-  const distance = m.distance * travelScale;
+  const distance = m[3] * travelScale;
   const goal = Math.abs(distance);
   const back = distance < 0 ? -1 : 1;
-  const power = m.power;
+  const power = m[4];
   const floor = Math.min(RAMP_FLOOR, power);
-  const target = m.target;
-  const gain = m.gain;
-  const accel = m.accel !== undefined && m.accel > 0 ? m.accel : 0;
+  const target = m[1];
+  const gain = m[2];
+  const accel = m[5];
   const full = r.fullSpeed;
   const mismatch = r.mismatch;
   const stall = r.stall;
@@ -537,6 +610,11 @@ function hold(s: SimState, r: SimRobot, m: HoldDriveMotion, travelScale: number)
   const sample = r.sample;
   const decay = r.decay;
   const gSample = lag * (1 - decay);
+  const unit = mismatch === 1; // x / 1 is x: no division
+  const floorSpeed = floor * full;
+  const top = power * full;
+  const pTop = top / full;
+  let risen = false;
   const start = t;
   let counted = 0; // mean of the two encoders, along the drive's direction
   let finished = true;
@@ -547,13 +625,18 @@ function hold(s: SimState, r: SimRobot, m: HoldDriveMotion, travelScale: number)
     if (accel > 0) {
       // Math.min(power·full, accel·(t − start) + floor·full, √(2·accel·left) + floor·full), the root worked out only
       // where it can be the least (where it is surely larger, the least of the other two is the least of all three).
-      const floorSpeed = floor * full;
-      const least = Math.min(power * full, accel * (t - start) + floorSpeed);
+      // Once the rise has reached the top it stays there (t only grows): the top alone.
+      let least = top;
+      if (!risen) {
+        const rise = accel * (t - start) + floorSpeed;
+        least = Math.min(top, rise);
+        risen = rise >= top;
+      }
       const sq = 2 * accel * Math.max(0, goal - counted);
       const reach = least - floorSpeed;
       const bound = reach + least * 1e-9;
       const v = reach > 0 && !(sq > bound * bound) ? Math.min(least, Math.sqrt(sq) + floorSpeed) : least;
-      p = v / full;
+      p = v === top ? pTop : v / full;
     }
     const steer = sign * gain * e;
     const uL = clamp1(back * p + steer);
@@ -567,18 +650,29 @@ function hold(s: SimState, r: SimRobot, m: HoldDriveMotion, travelScale: number)
     let dt = sample;
     const need = goal - counted;
     // The encoders' mean over a sample (the step's own travels, as wheelTravel gives them: g is 0 without a lag).
-    const mean = (back * ((gSample * vL + cL * (sample - gSample)) + (gSample * vR + cR * (sample - gSample)) / mismatch)) / 2;
+    const travelR = gSample * vR + cR * (sample - gSample);
+    const mean = (back * ((gSample * vL + cL * (sample - gSample)) + (unit ? travelR : travelR / mismatch))) / 2;
+    // The decay over dt: that of a sample, or (the bisection's end) the one worked out at that time.
+    let a = decay;
     if (mean >= need) {
+      cross[DECAY_OUT] = decay; // the decay at hi, kept out of a boxed local
       let lo2 = 0;
       let hi = dt;
       for (let k = 0; k < 30; k++) {
         const mid = (lo2 + hi) / 2;
-        if ((back * (wheelTravel(vL, cL, lag, mid, undefined) + wheelTravel(vR, cR, lag, mid, undefined) / mismatch)) / 2 >= need) hi = mid;
-        else lo2 = mid;
+        // exp(−mid/lag) once for both wheels (wheelTravel would work out the same number for each).
+        // wheelTravel of each wheel written out (a call that is not inlined passes its numbers boxed).
+        const e = lag > 0 ? Math.exp(-mid / lag) : 0;
+        const gm = lag > 0 ? lag * (1 - e) : 0;
+        const midR = gm * vR + cR * (mid - gm);
+        if ((back * ((gm * vL + cL * (mid - gm)) + (unit ? midR : midR / mismatch))) / 2 >= need) {
+          hi = mid;
+          cross[DECAY_OUT] = e;
+        } else lo2 = mid;
       }
       dt = hi;
+      a = cross[DECAY_OUT];
     }
-    const a = dt === sample ? decay : decayOf(r, dt);
     const g = lag * (1 - a);
     const b = 1 - a;
     {
@@ -627,8 +721,18 @@ function hold(s: SimState, r: SimRobot, m: HoldDriveMotion, travelScale: number)
       cachedH = h;
       t += dt;
     }
-    counted += dt === sample ? mean : back * (sL + sR / mismatch) / 2;
+    counted += dt === sample ? mean : back * (sL + (unit ? sR : sR / mismatch)) / 2;
   }
-  store(s, x, y, h, vL, vR, t, cachedH, sinH, cosH, tse);
+  // Back into the state (written out: a call would pass the numbers boxed).
+  s.x = x;
+  s.y = y;
+  s.h = h;
+  s.vL = vL;
+  s.vR = vR;
+  s.t = t;
+  s.cachedH = cachedH;
+  s.sinH = sinH;
+  s.cosH = cosH;
+  s.turnsSinceExact = tse;
   return finished;
 }

@@ -8,7 +8,7 @@ import { SPREAD_DEFAULTS, zeroes } from './run';
 import { propagateTravel, ZERO_COV } from './propagate';
 import { simRecordOf, type SimRecord } from '../sim/run';
 import { restState, simulateMotion, type SimMotion, type SimRobot, type SimState } from '../sim/motion';
-import { runSampledMotion, sampledPathFits } from '../sim/sampled';
+import { prepareSampled, runPrepared, sampledPathFits, type SampledMotion } from '../sim/sampled';
 
 const RAD = Math.PI / 180;
 /** Pieces of wheel travel (mm) each sampled with its own random error. */
@@ -272,6 +272,7 @@ function sampleSimulated(segments: readonly Segment[], noise: NoiseModel, track:
   const robot: SimRobot = { ...base };
   // The same steps without a trace, pose sink or outcome object (sim/sampled.ts), where the reading has no delay.
   const quick = !scalar && sampledPathFits(robot);
+  const prepared: (SampledMotion | undefined)[] = records.map((rec) => (quick && rec ? prepareSampled(rec.motion) : undefined));
   for (let s = 0; s < count; s++) {
     if (onProgress && s % 50 === 0) onProgress(s / count);
     // Per-run constants: a wheel (1 + dist) times as large (its encoder's millimetres go further, at the same motor
@@ -301,6 +302,7 @@ function sampleSimulated(segments: readonly Segment[], noise: NoiseModel, track:
         if (!rec && seg.kind !== 'mark' && seg.kind !== 'reset') stopped = true;
         if (rec) {
           let motion: SimMotion = rec.motion;
+          let quickMotion = prepared[i];
           let squaredEnd: { x: number; y: number; heading: number } | undefined;
           const gyro = motion.kind === 'gyro-turn' || motion.kind === 'hold';
           // The reading: scaled from the zero, with the drift since it and (in a gyro motion) the sensor's own error.
@@ -315,11 +317,12 @@ function sampleSimulated(segments: readonly Segment[], noise: NoiseModel, track:
             }
             motion = again.motion;
             squaredEnd = again.end;
+            if (quick) quickMotion = prepareSampled(motion);
           }
           // A gyro turn aims at the reading the prediction worked out (the targets table's yaw target): the
           // sampled runs differ in where the reference and the sensor put the robot, as the error model says.
           let finished: boolean;
-          if (quick) finished = runSampledMotion(state, robot, motion, 1 + dist); // the travel scaled as below
+          if (quickMotion) finished = runPrepared(state, robot, quickMotion, 1 + dist); // the travel scaled as below
           else {
             if (motion.kind === 'encoders' && dist !== 0) motion = { ...motion, left: motion.left * (1 + dist), right: motion.right * (1 + dist) };
             else if (motion.kind === 'hold' && dist !== 0) motion = { ...motion, distance: motion.distance * (1 + dist) };
