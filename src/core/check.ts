@@ -10,7 +10,7 @@ import type {
 import { parsePlan } from './syntax/parser';
 import { RESERVED_WORDS, suggestWord } from './syntax/keywords';
 import {
-  ExpressionCache, displayValue, evaluateExpr, fmt, isMathName, type EvalContext, type Expected,
+  ExpressionCache, displayValue, evaluateExpr, fmt, isMathName, type EvalContext, type EvalOutcome, type Expected,
 } from './units/evaluate';
 import { solveRuns, type EvaluatedMotion, type RunInput } from './solve/runs';
 import { attachFixes } from './fix/candidates';
@@ -123,16 +123,22 @@ function checkPlanUnguarded(text: string, options: CheckOptions): CheckResult {
     zones: [],
   };
 
-  const ctx: EvalContext = { lengthUnit, scope: new Map(), memo: new Map() };
+  const ctx: EvalContext = { lengthUnit, scope: new Map(), memo: [] };
   const values: EvaluatedExpr[] = [];
   const names: Record<string, NameInfo> = {};
   let suggestionsLeft = MAX_NAME_SUGGESTIONS;
   let nameList: string[] | undefined;
+  /** Each evaluation's text for hovers, worked out once per outcome (the check's memo gives repeated expressions one outcome). */
+  const displays = new Map<EvalOutcome, string>();
   const evFull = (expr: ExprNode | undefined, expected: Expected): { value: number; dimension: Dimension } | undefined => {
     if (!expr) return undefined;
     const out = evaluateExpr(cache, expr.text, expected, ctx);
     if (out.ok) {
-      const display = displayValue(out.value, out.dimension, lengthUnit);
+      let display = displays.get(out);
+      if (display === undefined) {
+        display = displayValue(out.value, out.dimension, lengthUnit);
+        displays.set(out, display);
+      }
       const bound = MAGNITUDE_LIMITS[out.dimension];
       if (Math.abs(out.value) > bound.max) {
         report(expr.range, 'error', 'setup', `${display} is far beyond anything a small robot's plan can mean (the limit is ${displayValue(bound.max, out.dimension, lengthUnit)}${bound.why ? `, ${bound.why}` : ''}): check the value and its unit.`);
@@ -419,7 +425,7 @@ function checkPlanUnguarded(text: string, options: CheckOptions): CheckResult {
           current = { name: setup.title, line: s.line, range: s.range, motions: [], implicit: true };
           runs.push(current);
         }
-        current.motions.push(evaluateMotion(s, evFull, evPoint));
+        current.motions.push(evaluateMotion(s, ev, evFull, evPoint));
       }
     }
   }
@@ -483,10 +489,10 @@ function anyValue(
 
 function evaluateMotion(
   s: MotionStmt,
+  ev: (e: ExprNode | undefined, x: Expected) => number | undefined,
   evFull: (e: ExprNode | undefined, x: Expected) => { value: number; dimension: Dimension } | undefined,
   evPoint: (p: PointNode | undefined) => Point | undefined,
 ): EvaluatedMotion {
-  const ev = (e: ExprNode | undefined, x: Expected) => evFull(e, x)?.value;
   switch (s.kind) {
     case 'start':
       return { stmt: s, at: evPoint(s.at), heading: ev(s.heading, 'angle') };

@@ -188,6 +188,21 @@ function remember(s: SimState, r: SimRobot): void {
   }
 }
 
+/** The scratch of `advance`: a step's powers, length and decay, and the two travels it gives. */
+interface Step {
+  sL: number;
+  sR: number;
+  uL: number;
+  uR: number;
+  dt: number;
+  decay: number;
+  regulated: boolean;
+}
+
+function newStep(): Step {
+  return { sL: 0, sR: 0, uL: 0, uR: 0, dt: 0, decay: 0, regulated: false };
+}
+
 function effective(u: number, stall: number): number {
   return Math.abs(u) < stall ? 0 : u;
 }
@@ -197,7 +212,26 @@ function effective(u: number, stall: number): number {
  * exact first-order response, then the exact arc of the two travels.
  * Returns the two travels in `out`.
  */
-function advance(s: SimState, r: SimRobot, uL: number, uR: number, dt: number, out: { sL: number; sR: number }, regulated = false, decay = -1): void {
+function advance(s: SimState, r: SimRobot, uL: number, uR: number, dt: number, out: Step, regulated = false, decay = -1): void {
+  out.uL = uL;
+  out.uR = uR;
+  out.dt = dt;
+  out.regulated = regulated;
+  out.decay = decay;
+  step(s, r, out);
+}
+
+/**
+ * One plant step, its powers, length and decay taken from `out` (not passed
+ * as numbers: the step is too long to be inlined, and numbers passed to a call
+ * are boxed, which in the hot loops would cost an allocation each).
+ */
+function step(s: SimState, r: SimRobot, out: Step): void {
+  const uL = out.uL;
+  const uR = out.uR;
+  const dt = out.dt;
+  const regulated = out.regulated;
+  const decay = out.decay;
   const cL = (regulated ? uL : effective(uL, r.stall)) * r.fullSpeed;
   const cR = (regulated ? uR : effective(uR, r.stall)) * r.fullSpeed * r.mismatch;
   const a = decay >= 0 ? decay : decayOf(r, dt);
@@ -247,9 +281,9 @@ function advance(s: SimState, r: SimRobot, uL: number, uR: number, dt: number, o
 
 /** One plant step of `dt` with wheel powers uL, uR held (for tests and tools; the motion loops call `advance`). */
 export function advancePlant(s: SimState, r: SimRobot, uL: number, uR: number, dt: number): { sL: number; sR: number } {
-  const out = { sL: 0, sR: 0 };
+  const out = newStep();
   advance(s, r, uL, uR, dt, out);
-  return out;
+  return { sL: out.sL, sR: out.sR };
 }
 
 /** Travel of one wheel over `dt` from speed v under command c (mm/s), exact. */
@@ -313,7 +347,7 @@ export function simulateMotion(s: SimState, r: SimRobot, m: SimMotion, trace?: T
 
 function runWait(s: SimState, r: SimRobot, m: WaitMotion, trace?: TraceSink, poses?: PoseSink): MotionOutcome {
   const end = s.t + m.time;
-  const out = { sL: 0, sR: 0 };
+  const out = newStep();
   let peak = 0;
   while (s.t < end - 1e-12) {
     trace?.row(s, readingOf(s, r), null, 0, 0);
@@ -343,7 +377,7 @@ function runEncoders(s: SimState, r: SimRobot, m: EncoderMotion, trace?: TraceSi
   let encR = 0;
   let doneL = m.left === 0;
   let doneR = m.right === 0;
-  const out = { sL: 0, sR: 0 };
+  const out = newStep();
   let peak = 0;
   const floor = Math.min(RAMP_FLOOR, m.power);
   // Locals, so that the loop reads no optional field of the motion.
@@ -425,7 +459,7 @@ function runEncoders(s: SimState, r: SimRobot, m: EncoderMotion, trace?: TraceSi
 
 function runGyroTurn(s: SimState, r: SimRobot, m: GyroTurnMotion, trace?: TraceSink, poses?: PoseSink): MotionOutcome {
   const start = s.t;
-  const out = { sL: 0, sR: 0 };
+  const out = newStep();
   let peak = 0;
   const first = readingOf(s, r);
   const span = m.target - first;
@@ -493,7 +527,7 @@ function steady(s: SimState, cL: number, cR: number): boolean {
 
 function runHold(s: SimState, r: SimRobot, m: HoldDriveMotion, trace?: TraceSink, poses?: PoseSink): MotionOutcome {
   const start = s.t;
-  const out = { sL: 0, sR: 0 };
+  const out = newStep();
   let peak = 0;
   const sign = r.turns === 'clockwise' ? 1 : -1;
   const goal = Math.abs(m.distance);

@@ -26,7 +26,12 @@ export interface SimRecord {
   again?: (s: SimState) => { motion: SimMotion; end: Pose } | undefined;
 }
 
-const records = new WeakMap<Segment, SimRecord>();
+/** A check's record of one motion, with what its predicted pieces are worked out from (one entry per segment). */
+interface RunRecord extends SimRecord {
+  lazy?: LazyPath;
+}
+
+const records = new WeakMap<Segment, RunRecord>();
 
 /** How a motion was simulated, for its trace and for fixes. */
 export function simRecordOf(seg: Segment): SimRecord | undefined {
@@ -122,16 +127,18 @@ export function predictRun(
     const before: Pose = { x: state.x, y: state.y, heading: state.h };
     const startT = state.t;
     bounds.reset(state.x, state.y);
-    let outcome: MotionOutcome = { finished: true, stalled: false, capped: false, peakRate: 0 };
+    let outcome: MotionOutcome = STILL;
     let motion: SimMotion | undefined;
     let pathEnd: Pose | undefined;
+    let rec: RunRecord | undefined;
     if (seg.kind === 'reset') state.zero = state.h;
     else if (seg.kind === 'mark') { /* no time, no motion */ } else if (seg.kind === 'square') {
       const squared = squareFrom(state, seg, m.stmt as SquareStmt, setup, footprint, walls);
       if (!squared) return { events };
       motion = squared.motion;
       const stmt = m.stmt as SquareStmt;
-      records.set(seg, { state: copyState(state), motion, robot, again: (st) => squareFrom(st, seg, stmt, setup, footprint, walls) });
+      rec = { state: copyState(state), motion, robot, again: (st) => squareFrom(st, seg, stmt, setup, footprint, walls) };
+      records.set(seg, rec);
       outcome = simulateMotion(state, robot, motion, undefined, bounds);
       if (outcome.finished) {
         // Pressed against the wall, the robot turns square to it and stops.
@@ -146,7 +153,8 @@ export function predictRun(
       if (seg.kind === 'turn' && (m.stmt as TurnStmt).reset) state.zero = state.h;
       motion = motionFor(seg, m, state, robot);
       if (!motion) return { events };
-      records.set(seg, { state: copyState(state), motion, robot });
+      rec = { state: copyState(state), motion, robot };
+      records.set(seg, rec);
       outcome = simulateMotion(state, robot, motion, undefined, bounds);
     }
     const end: Pose = { x: state.x, y: state.y, heading: state.h };
@@ -163,7 +171,7 @@ export function predictRun(
       const gm = motion;
       p.settle = outcome.finished ? p.duration : undefined;
       // Degrees past the target once the wheels have run down, on the reading's own scale.
-      p.overshoot = overshootOf(records.get(seg)!.state, state, robot, gm.target);
+      p.overshoot = overshootOf(rec!.state, state, robot, gm.target);
       if (outcome.finished && p.overshoot > gm.stop) events.push({ seg, kind: 'overshoot' });
     }
     if (outcome.stalled) events.push({ seg, kind: 'stall' });
@@ -173,7 +181,9 @@ export function predictRun(
     if (diffStart.mm > DIFFERS_MM || diffStart.deg > DIFFERS_DEG || diffEnd.mm > DIFFERS_MM || diffEnd.deg > DIFFERS_DEG) {
       // The pieces are worked out when first asked for (the drawing, or a check near an obstacle or the field's edge).
       p.bounds = { minX: bounds.minX, minY: bounds.minY, maxX: bounds.maxX, maxY: bounds.maxY };
-      lazyPaths.set(seg, { rec: records.get(seg), pathEnd, before, robot });
+      const lazy: LazyPath = { pathEnd, before, robot };
+      if (rec) rec.lazy = lazy;
+      else lazyPaths.set(seg, lazy);
     }
     seg.predicted = p;
     if (!outcome.finished) {
@@ -181,21 +191,35 @@ export function predictRun(
       return { events, duration: Infinity };
     }
   }
-  const last = [...segments].reverse().find((s) => s.predicted);
+  let last: Prediction | undefined;
+  for (let i = segments.length - 1; i >= 0 && !last; i--) last = segments[i].predicted;
   budget.seconds -= state?.t ?? 0;
-  return { events, duration: last?.predicted ? last.predicted.start + last.predicted.duration : undefined };
+  return { events, duration: last ? last.start + last.duration : undefined };
 }
 
-const lazyPaths = new WeakMap<Segment, { rec?: SimRecord; pathEnd?: Pose; before: Pose; robot: SimRobot; pieces?: PathPiece[] }>();
+/** Where a motion ended and what it was: its predicted pieces are simulated again from these when first asked for. */
+interface LazyPath {
+  pathEnd?: Pose;
+  before: Pose;
+  robot: SimRobot;
+  pieces?: PathPiece[];
+}
+
+/** The same for the segments with no record (a reset or a mark the prediction sees move). */
+const lazyPaths = new WeakMap<Segment, LazyPath>();
+
+/** The outcome of a motion that takes no time (a reset, a mark). */
+const STILL: MotionOutcome = Object.freeze({ finished: true, stalled: false, capped: false, peakRate: 0 });
 
 /**
  * The predicted pieces of a segment whose predicted path leaves the planned
  * one (by more than 2 mm or 0.5°); undefined where the two agree.
  */
 export function predictedPath(seg: Segment): PathPiece[] | undefined {
-  const lazy = lazyPaths.get(seg);
+  const rec = records.get(seg);
+  const lazy = rec ? rec.lazy : lazyPaths.get(seg);
   if (!lazy) return undefined;
-  return (lazy.pieces ??= predictedPieces(lazy.rec, lazy.pathEnd, lazy.before, lazy.robot));
+  return (lazy.pieces ??= predictedPieces(rec, lazy.pathEnd, lazy.before, lazy.robot));
 }
 
 /** Keeps the box the axle midpoint passes through during a motion. */

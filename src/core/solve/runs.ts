@@ -62,8 +62,9 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
   const walls = wallsOf(setup.field, setup.obstacles);
   const { lo, hi } = setup.yawRange;
   const turns = setup.turns;
-  const report = (range: Range, severity: Severity, code: DiagnosticCode, message: string, extra: Partial<Diagnostic> = {}) => {
-    const d: Diagnostic = { range, severity, code, message, ...extra };
+  const report = (range: Range, severity: Severity, code: DiagnosticCode, message: string, extra?: Partial<Diagnostic>) => {
+    const d: Diagnostic = { range, severity, code, message };
+    if (extra) Object.assign(d, extra);
     diagnostics.push(d);
     return d;
   };
@@ -293,15 +294,18 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         // Broad phase: only what lies near the box the robot passes through is swept against.
         // (Samples are at most a control-loop step apart: the arcs between them bulge far less than BOUNDS_SLACK.)
         const grow = reach + BOUNDS_SLACK;
-        const box = { minX: bounds.minX - grow, minY: bounds.minY - grow, maxX: bounds.maxX + grow, maxY: bounds.maxY + grow };
-        const obstacles = setup.obstacles.filter((o) => o !== wallNow && o !== wallBefore && nearBox(o, box));
-        const field = setup.field && !(box.minX > 0 && box.minY > 0 && box.maxX < setup.field.width && box.maxY < setup.field.height) ? setup.field : undefined;
-        if (obstacles.length === 0 && !field) continue;
+        const minX = bounds.minX - grow, minY = bounds.minY - grow, maxX = bounds.maxX + grow, maxY = bounds.maxY + grow;
+        let obstacles: Obstacle[] | undefined;
+        for (const o of setup.obstacles) {
+          if (o !== wallNow && o !== wallBefore && nearBox(o, minX, minY, maxX, maxY)) (obstacles ??= []).push(o);
+        }
+        const field = setup.field && !(minX > 0 && minY > 0 && maxX < setup.field.width && maxY < setup.field.height) ? setup.field : undefined;
+        if (!obstacles && !field) continue;
         const path = predictedPath(seg) ?? [];
         const already = hitOnLine.get(seg.line);
         const seen = new Set<string>();
         for (const piece of path) {
-          for (const hit of sweepPiece(piece, footprint, turns, obstacles, field)) {
+          for (const hit of sweepPiece(piece, footprint, turns, obstacles ?? [], field)) {
             const key = hit.kind === 'field' ? 'field' : `o:${hit.obstacle?.name}`;
             if (seen.has(key)) continue;
             seen.add(key);
@@ -449,7 +453,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       }
       segments.push(seg);
       // A drive whose length could not be read has no path to check.
-      if (dm.distance !== undefined) sweep(seg, s.range, everything('drive'));
+      if (dm.distance !== undefined) sweep(seg, s.range, 'drive');
       return finalPose;
     }
 
@@ -576,10 +580,9 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
       // Wheel travel: clockwise rotation φ about a centre at lateral offset c
       // moves a wheel at lateral position w forwards by φ (c − w).
       const phi = turned * (turns === 'clockwise' ? 1 : -1) * RAD;
-      const travel = (track: number, centre: number) => ({ left: phi * (centre + track / 2), right: phi * (centre - track / 2) });
       const vMax = fullSpeed();
       if (needWheel(s.keywordRange) && vMax !== undefined && (W !== undefined || shapeNode.kind === 'spin') && W !== undefined) {
-        const t = travel(W, offset);
+        const t = wheelTravel(phi, W, offset);
         seg.wheelDeg = { left: wheelDegrees(t.left)!, right: wheelDegrees(t.right)! };
         // Encoder targets use the calibrated track: the robot turns as if its
         // wheels were that far apart. A pivot keeps its still wheel still (its
@@ -587,7 +590,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         // user's own, and a wheel ratio's radius already comes from the
         // calibrated track, so the commanded degrees drive the drawn path.
         const effective = robot.effectiveTrack ?? W;
-        const te = gyro ? t : travel(effective, shapeNode.kind === 'pivot' ? (offset * effective) / W : offset);
+        const te = gyro ? t : wheelTravel(phi, effective, shapeNode.kind === 'pivot' ? (offset * effective) / W : offset);
         seg.motorDeg = { left: wheelDegrees(te.left)! * robot.gear!, right: wheelDegrees(te.right)! * robot.gear! };
         const outerRadius = Math.abs(offset) + half;
         seg.power = top;
@@ -610,7 +613,7 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
         seg.complete = false;
       }
       segments.push(seg);
-      if (s.to !== undefined ? tm.to !== undefined : tm.angle !== undefined) sweep(seg, s.range, everything(shape));
+      if (s.to !== undefined ? tm.to !== undefined : tm.angle !== undefined) sweep(seg, s.range, shape);
       return end;
     }
 
@@ -772,26 +775,29 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
      * wall just squared against only touches it at the start: lifted off by a
      * hair, does it still hit?
      */
-    function sweep(seg: Segment, range: Range, checkOf: (piece: number) => PieceCheck) {
-      const seen = new Set<string>();
+    function sweep(seg: Segment, range: Range, checkOf: string | ((piece: number) => PieceCheck)) {
+      let seen: Set<string> | undefined;
       const leaving = squaredAgainst;
       squaredAgainst = undefined;
-      seg.path.forEach((piece, i) => {
-        const check = checkOf(i);
+      const path = seg.path;
+      for (let i = 0; i < path.length; i++) {
+        const piece = path[i];
+        const check = typeof checkOf === 'string' ? everything(checkOf) : checkOf(i);
         for (const hit of sweepPiece(piece, footprint, turns, check.obstacles, check.field)) {
           if (leaving?.obstacle && hit.obstacle === leaving.obstacle &&
             sweepPiece(shiftPiece(piece, leaving.away, CONTACT_CLEARANCE), footprint, turns, [hit.obstacle], undefined).length === 0) continue;
           const key = hit.kind === 'field' ? 'field' : `o:${hit.obstacle?.name}`;
+          seen ??= new Set<string>();
           if (seen.has(key)) continue;
           seen.add(key);
           reportHit(hit, range, check.name, seg, piece);
         }
-      });
+      }
     }
 
-    /** Every obstacle and the field edge, for a drive or a turn. */
-    function everything(name: string): () => PieceCheck {
-      return () => ({ name, obstacles: setup.obstacles, field: setup.field });
+    /** Every obstacle and the field edge, for a drive or a turn (each piece of a motion named `name`). */
+    function everything(name: string): PieceCheck {
+      return { name, obstacles: setup.obstacles, field: setup.field };
     }
 
     function reportHit(hit: SweepHit, range: Range, shapeName: string, seg: Segment, piece?: PathPiece) {
@@ -843,13 +849,12 @@ const HOLD_SNAP_DEG = 0.1;
 /** Margin (mm) around the sampled positions of a predicted motion for the quick test. */
 const BOUNDS_SLACK = 5;
 
-interface Box { minX: number; minY: number; maxX: number; maxY: number }
-
-function nearBox(o: Obstacle, b: Box): boolean {
+/** Whether an obstacle reaches into the box from (minX, minY) to (maxX, maxY). */
+function nearBox(o: Obstacle, minX: number, minY: number, maxX: number, maxY: number): boolean {
   if (o.kind === 'circle' && o.center && o.radius !== undefined) {
-    return o.center.x + o.radius >= b.minX && o.center.x - o.radius <= b.maxX && o.center.y + o.radius >= b.minY && o.center.y - o.radius <= b.maxY;
+    return o.center.x + o.radius >= minX && o.center.x - o.radius <= maxX && o.center.y + o.radius >= minY && o.center.y - o.radius <= maxY;
   }
-  if (o.min && o.max) return o.max.x >= b.minX && o.min.x <= b.maxX && o.max.y >= b.minY && o.min.y <= b.maxY;
+  if (o.min && o.max) return o.max.x >= minX && o.min.x <= maxX && o.max.y >= minY && o.min.y <= maxY;
   return true;
 }
 
@@ -892,6 +897,11 @@ function describeTarget(stmt: TurnStmt | DriveStmt, target: number): string {
 
 function normal(h: number): number {
   return ((h % 360) + 360) % 360;
+}
+
+/** Each wheel's travel when the robot turns clockwise by `phi` (radians) about a centre `centre` to its right, the wheels `track` apart. */
+function wheelTravel(phi: number, track: number, centre: number): { left: number; right: number } {
+  return { left: phi * (centre + track / 2), right: phi * (centre - track / 2) };
 }
 
 function baseSegment(line: number, kind: Segment['kind'], start: Pose, end: Pose, yawStart: number, yawEnd: number): Segment {

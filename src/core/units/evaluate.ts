@@ -274,7 +274,7 @@ export interface EvalContext {
    * text gives the same value for the rest of the check: plans repeat the
    * same few expressions (`lane * 2`, `90`) many times.
    */
-  memo?: Map<string, EvalOutcome>;
+  memo?: Map<string, EvalOutcome>[];
   /** `let` names bound to a percentage (`let top = 60%`): an expression of them is a percentage too. */
   percentNames?: Set<string>;
 }
@@ -292,6 +292,11 @@ const DIMENSION_LABEL: Record<Dimension, string> = {
   angularSpeed: 'an angular speed (angle per time)',
   acceleration: 'an acceleration (length per time squared)',
   fraction: 'a fraction or percentage',
+};
+
+/** Each expected kind's place in a check's memo (one map of texts per kind). */
+const EXPECTED_INDEX: Record<Expected, number> = {
+  length: 0, angle: 1, time: 2, acceleration: 3, angularSpeed: 4, number: 5, fraction: 6, gain: 7, 'power|speed': 8,
 };
 
 const EXPECTED_LABEL: Record<Expected, string> = {
@@ -332,11 +337,11 @@ function unitNumber(v: Unit, unit: string): number {
  * canonical units (mm, deg, s, mm/s, deg/s, mm/s^2, fraction 0..1).
  */
 export function evaluateExpr(cache: ExpressionCache, text: string, expected: Expected, ctx: EvalContext): EvalOutcome {
-  const key = ctx.memo ? `${expected}\u0000${text}` : '';
-  const known = ctx.memo?.get(key);
+  const memo = ctx.memo ? (ctx.memo[EXPECTED_INDEX[expected]] ??= new Map()) : undefined;
+  const known = memo?.get(text);
   if (known) return known;
   const outcome = evaluateUncached(cache, text, expected, ctx);
-  if (outcome.ok) ctx.memo?.set(key, outcome);
+  if (outcome.ok) memo?.set(text, outcome);
   return outcome;
 }
 
