@@ -92,6 +92,10 @@ describe('veer replay', () => {
     assert.match(svg, /<g class="recorded" data-line="13">/);
     assert.match(svg, /class="recorded-fused" d="M[\d.]+ [\d.]+L/);
     assert.match(svg, /class="recorded-wheels"[^>]*stroke-dasharray/);
+    // The legend tells the two recorded paths (and the dotted predicted one) from the plan's.
+    assert.match(svg, /<g class="legend-entry legend-key recorded-key"><path [^>]*\/><text [^>]*>recorded: wheels and yaw<\/text>/);
+    assert.match(svg, /<g class="legend-entry legend-key recorded-key"><path [^>]*stroke-dasharray="[^"]+"\/><text [^>]*>wheels alone<\/text>/);
+    assert.match(svg, /<g class="legend-entry legend-key predicted-key"><path [^>]*stroke-dasharray="[^"]+"\/><text [^>]*>predicted<\/text>/);
     const bad = run(['render', plan, '-o', out, '--log', log, '--yaw-units', 'rad']);
     assert.equal(bad.status, 2);
     assert.match(bad.err, /parcel-table\.log\.csv: line 9, column 4 \(yaw_deg\): the header says deg, the settings say rad/);

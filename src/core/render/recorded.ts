@@ -10,7 +10,7 @@ import { escapeXml, num } from './markup';
 import type { Bounds, View } from './view';
 
 /** The standalone drawing's colours of the layer. */
-export const RECORDED_STYLE = '.recorded{color:#c026d3}.recorded-label{fill:#86198f}';
+export const RECORDED_STYLE = '.recorded,.recorded-key{color:#c026d3}.recorded-label{fill:#86198f}';
 
 /** Adds the recorded paths' points to the drawing's bounds. */
 export function boundRecorded(b: Bounds, overlay: RecordedOverlay | undefined): Bounds {

@@ -104,7 +104,16 @@ export function renderSvg(result: CheckResult, options: RenderOptions = {}): str
   const turns = result.setup.turns;
   const footprint = footprintOf(result.setup.robot);
 
-  const header = headerLayout(result, runs);
+  // Keys for the predicted path and a recorded run's paths (a coach must tell them from the plan's).
+  const recordedKeys: LegendKey[] = [];
+  if (runs.some(({ run }) => run.segments.some((seg) => (predictedPath(seg)?.length ?? 0) > 0))) {
+    recordedKeys.push({ cls: 'predicted-key', dash: [2, 3], text: 'predicted' });
+  }
+  if (options.recorded && runs.some((r) => r.index === options.recorded!.runIndex)) {
+    if (options.recorded.fused) recordedKeys.push({ cls: 'recorded-key', text: 'recorded: wheels and yaw' });
+    recordedKeys.push({ cls: 'recorded-key', dash: options.recorded.fused ? [5, 3] : undefined, text: options.recorded.fused ? 'wheels alone' : 'recorded: wheels alone' });
+  }
+  const header = headerLayout(result, runs, recordedKeys);
   const view = makeView(
     boundRecorded(contentBounds(result, runs, diagnostics, footprint), options.recorded),
     targetWidth,
@@ -383,14 +392,26 @@ interface HeaderLayout {
   draw(out: string[], d: Drawing): void;
 }
 
-function headerLayout(result: CheckResult, runs: IndexedRun[]): HeaderLayout {
+/** The legend wraps short of the heading compass in the top right corner (px). */
+const COMPASS_ROOM = 80;
+
+/** A key of the legend that is not a run: how a kind of line is drawn (a recorded run's two paths). */
+interface LegendKey {
+  /** Classes of the key's group (its colour comes from them). */
+  cls: string;
+  dash?: number[];
+  text: string;
+}
+
+function headerLayout(result: CheckResult, runs: IndexedRun[], keys: LegendKey[] = []): HeaderLayout {
   const title = result.setup.title;
   const planStmt = result.ast.statements.find((s) => s.kind === 'plan');
-  const entries = runs.map(({ run, index }) => ({
+  const entries: { run?: RunResult; index: number; key?: LegendKey; text: string }[] = runs.map(({ run, index }) => ({
     run,
     index,
     text: `${run.name}${Number.isFinite(run.duration) ? ` · ${formatRunTime(run.duration)}` : ''}${run.predictedDuration === undefined ? '' : Number.isFinite(run.predictedDuration) ? `, predicted ${formatRunTime(run.predictedDuration)}` : ', never ends'}`,
   }));
+  for (const key of keys) entries.push({ index: -1, key, text: key.text });
   const swatch = 18;
   const gap = 16;
   // Text width is not measurable without a font engine; 0.6 em per character is
@@ -417,7 +438,7 @@ function headerLayout(result: CheckResult, runs: IndexedRun[]): HeaderLayout {
   };
   const legendRows = (px: number, width: number): number => {
     if (entries.length === 0) return 0;
-    const rows = rowsFor(width / px - 16);
+    const rows = rowsFor(width / px - 16 - COMPASS_ROOM);
     return rows[rows.length - 1] + 1;
   };
 
@@ -434,7 +455,7 @@ function headerLayout(result: CheckResult, runs: IndexedRun[]): HeaderLayout {
         );
       }
       if (entries.length === 0) return;
-      const rows = rowsFor(view.width / px - 16);
+      const rows = rowsFor(view.width / px - 16 - COMPASS_ROOM);
       out.push('<g class="legend">\n');
       let x = left;
       let lastRow = 0;
@@ -445,9 +466,10 @@ function headerLayout(result: CheckResult, runs: IndexedRun[]): HeaderLayout {
         }
         const y = (titleHeight + rows[i] * rowHeight + SIZE.legendFont) * px;
         const mid = y - SIZE.legendFont * 0.35 * px;
+        const dash = e.key?.dash ? ` stroke-dasharray="${e.key.dash.map((v) => d.px(v)).join(' ')}"` : '';
         out.push(
-          `<g class="legend-entry ${runClass(e.index)}" data-line="${e.run.line}">`,
-          `<path d="M${num(x)} ${num(mid)}h${d.px(swatch)}" stroke-width="${d.px(SIZE.pathStroke + 0.5)}"/>`,
+          e.run ? `<g class="legend-entry ${runClass(e.index)}" data-line="${e.run.line}">` : `<g class="legend-entry legend-key ${e.key?.cls ?? ''}">`,
+          `<path d="M${num(x)} ${num(mid)}h${d.px(swatch)}" stroke-width="${d.px(SIZE.pathStroke + 0.5)}"${dash}/>`,
           `<text x="${num(x + (swatch + 6) * px)}" y="${num(y)}" font-size="${d.px(SIZE.legendFont)}" fill="currentColor" stroke="none">${escapeXml(e.text)}</text></g>\n`,
         );
         x += entryWidth(e.text) * px;
