@@ -16,25 +16,29 @@ const PIECE_MM = 50;
 
 /** A small, fast, seedable generator (mulberry32), and normal deviates from it (Box–Muller). */
 export function normalSource(seed: number): () => number {
-  let a = seed >>> 0;
+  // The state and the spare deviate live in typed arrays: a number kept in a closure is boxed (allocated) on each change.
+  const state = new Uint32Array(1);
+  state[0] = seed >>> 0;
   const uniform = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
+    const a = (state[0] + 0x6d2b79f5) >>> 0;
+    state[0] = a;
     let t = a;
     t = Math.imul(t ^ (t >>> 15), t | 1);
     t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
     return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
   };
-  let spare: number | undefined;
+  const spare = new Float64Array(1);
+  let hasSpare = false;
   return () => {
-    if (spare !== undefined) {
-      const s = spare;
-      spare = undefined;
-      return s;
+    if (hasSpare) {
+      hasSpare = false;
+      return spare[0];
     }
     const u = 1 - uniform();
     const v = uniform();
     const r = Math.sqrt(-2 * Math.log(u));
-    spare = r * Math.sin(2 * Math.PI * v);
+    spare[0] = r * Math.sin(2 * Math.PI * v);
+    hasSpare = true;
     return r * Math.cos(2 * Math.PI * v);
   };
 }
