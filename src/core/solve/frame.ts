@@ -51,7 +51,10 @@ export function normaliseHeading(h: number): number {
 
 /** A reading wrapped into the sensor's half-open range [lo, lo + 360). */
 export function wrapReading(value: number, lo: number): number {
-  const r = value - 360 * Math.floor((value - lo) / 360);
+  const d = value - lo;
+  // Inside the range already (the usual case, every control-loop sample), the formula below gives the value itself:
+  // 0 < d < 360 makes the quotient round below 1. (d = 0 is left to it: it turns a reading of -0 into 0.)
+  const r = d > 0 && d < 360 ? value : value - 360 * Math.floor(d / 360);
   // Floating error can land exactly on the open end.
   return r >= lo + 360 ? r - 360 : r;
 }
