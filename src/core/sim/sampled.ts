@@ -14,7 +14,12 @@
 //
 // Keep it in step with motion.ts: a change to a controller or to the plant
 // step there is made here too (the equality test catches a miss).
-import { MOTION_CAP_S, RAMP_FLOOR, STEADY_BULGE, type SimMotion, type SimRobot, type SimState } from './motion';
+import { MOTION_CAP_S as CAP_S, RAMP_FLOOR as FLOOR, STEADY_BULGE as BULGE, type SimMotion, type SimRobot, type SimState } from './motion';
+
+/** motion.ts's constants, bound once: the loops read them every step (an imported binding can cost a lookup per use). */
+const MOTION_CAP_S = CAP_S;
+const RAMP_FLOOR = FLOOR;
+const STEADY_BULGE = BULGE;
 
 const RAD = Math.PI / 180;
 const DEG = 180 / Math.PI;
