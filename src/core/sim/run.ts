@@ -9,7 +9,7 @@ import type { Footprint } from '../solve/frame';
 import { squareUp } from '../solve/square';
 import {
   coastedHeading, copyState, readingOf, restState, simRobot, simulateMotion, MOTION_CAP_S,
-  type MotionOutcome, type PoseSink, type SimMotion, type SimRobot, type SimState, type TraceSink,
+  type EncoderMotion, type MotionOutcome, type PoseSink, type SimMotion, type SimRobot, type SimState, type TraceSink,
 } from './motion';
 import { PoseBuffer, poseDifference, rigidPiece, simplify } from './path';
 
@@ -26,9 +26,16 @@ export interface SimRecord {
   again?: (s: SimState) => { motion: SimMotion; end: Pose } | undefined;
 }
 
-/** A check's record of one motion, with what its predicted pieces are worked out from (one entry per segment). */
+/**
+ * A check's record of one motion (one entry per segment). Where the predicted
+ * path leaves the planned one, its pieces are simulated again from `state`
+ * (the pose the motion really started from) when first asked for.
+ */
 interface RunRecord extends SimRecord {
-  lazy?: LazyPath;
+  differs?: boolean;
+  /** A square's end, pressed against the wall. */
+  pathEnd?: Pose;
+  pieces?: PathPiece[];
 }
 
 const records = new WeakMap<Segment, RunRecord>();
@@ -181,9 +188,10 @@ export function predictRun(
     if (diffStart.mm > DIFFERS_MM || diffStart.deg > DIFFERS_DEG || diffEnd.mm > DIFFERS_MM || diffEnd.deg > DIFFERS_DEG) {
       // The pieces are worked out when first asked for (the drawing, or a check near an obstacle or the field's edge).
       p.bounds = { minX: bounds.minX, minY: bounds.minY, maxX: bounds.maxX, maxY: bounds.maxY };
-      const lazy: LazyPath = { pathEnd, before, robot };
-      if (rec) rec.lazy = lazy;
-      else lazyPaths.set(seg, lazy);
+      if (rec) {
+        rec.differs = true;
+        rec.pathEnd = pathEnd;
+      } else lazyPaths.set(seg, { pathEnd, before, robot });
     }
     seg.predicted = p;
     if (!outcome.finished) {
@@ -197,7 +205,7 @@ export function predictRun(
   return { events, duration: last ? last.start + last.duration : undefined };
 }
 
-/** Where a motion ended and what it was: its predicted pieces are simulated again from these when first asked for. */
+/** Where a segment with no record (a reset or a mark the prediction sees move) started: its predicted pieces are worked out from it when first asked for. */
 interface LazyPath {
   pathEnd?: Pose;
   before: Pose;
@@ -205,7 +213,6 @@ interface LazyPath {
   pieces?: PathPiece[];
 }
 
-/** The same for the segments with no record (a reset or a mark the prediction sees move). */
 const lazyPaths = new WeakMap<Segment, LazyPath>();
 
 /** The outcome of a motion that takes no time (a reset, a mark). */
@@ -217,9 +224,10 @@ const STILL: MotionOutcome = Object.freeze({ finished: true, stalled: false, cap
  */
 export function predictedPath(seg: Segment): PathPiece[] | undefined {
   const rec = records.get(seg);
-  const lazy = rec ? rec.lazy : lazyPaths.get(seg);
+  if (rec) return rec.differs ? (rec.pieces ??= predictedPieces(rec, rec.pathEnd, rec.state.x, rec.state.y, rec.state.h, rec.robot)) : undefined;
+  const lazy = lazyPaths.get(seg);
   if (!lazy) return undefined;
-  return (lazy.pieces ??= predictedPieces(rec, lazy.pathEnd, lazy.before, lazy.robot));
+  return (lazy.pieces ??= predictedPieces(undefined, lazy.pathEnd, lazy.before.x, lazy.before.y, lazy.before.heading, lazy.robot));
 }
 
 /** Keeps the box the axle midpoint passes through during a motion. */
@@ -240,10 +248,10 @@ class BoundsSink implements PoseSink {
   }
 }
 
-/** The predicted pieces of a motion, simulated again from its recorded start. */
-function predictedPieces(rec: SimRecord | undefined, pathEnd: Pose | undefined, before: Pose, robot: SimRobot): PathPiece[] {
+/** The predicted pieces of a motion, simulated again from its recorded start (at x, y, heading). */
+function predictedPieces(rec: SimRecord | undefined, pathEnd: Pose | undefined, x: number, y: number, heading: number, robot: SimRobot): PathPiece[] {
   const poses = new PoseBuffer(true);
-  poses.pose(rec?.state.t ?? 0, before.x, before.y, before.heading);
+  poses.pose(rec?.state.t ?? 0, x, y, heading);
   if (rec) simulateMotion(copyState(rec.state), rec.robot, rec.motion, undefined, poses);
   poses.close();
   const pieces = poses.length > 1 ? simplify(poses, 0, poses.length - 1, robot.turns) : [];
@@ -288,7 +296,9 @@ export function motionFor(seg: Segment, m: EvaluatedMotion, state: SimState, rob
     // Encoder turn: each wheel to its commanded degrees (the calibrated track), as its encoder counts them.
     const left = (seg.motorDeg.left / robot.gear / 360) * robot.circumference;
     const right = (seg.motorDeg.right / robot.gear / 360) * robot.circumference;
-    return { kind: 'encoders', left, right, power: seg.power, ...(s.ramp ? { rampMin: seg.minPower ?? 0.1 } : {}) };
+    const turn: EncoderMotion = { kind: 'encoders', left, right, power: seg.power };
+    if (s.ramp) turn.rampMin = seg.minPower ?? 0.1;
+    return turn;
   }
   return undefined;
 }
