@@ -25,7 +25,9 @@ function medianTime(fn: () => void, warm: number, reps: number): number {
 
 /** Median milliseconds of one fit: the demo plan's run, and 100,000 rows. */
 export function fitFigures(): { fit_ms: number; fit_rows: number; fit_100k_ms: number } {
-  const text = readFileSync(join(__dirname, '../examples/parcel-table.veer'), 'utf8');
+  // From the source (bench/) or its bundle (bench/.bundle/).
+  const root = join(__dirname, __dirname.endsWith('.bundle') ? '../..' : '..');
+  const text = readFileSync(join(root, 'examples/parcel-table.veer'), 'utf8');
   const plan = currentFromSetup(checkPlan(text).setup);
   const still: PowerStep = { uL: 0, uR: 0, duration: 2 };
   const demo = simulatedLog(TRUTH, [still, ...plannedSchedule(text), still], { seed: 1, travel: 0.1, yaw: 0.1, planMismatch: plan.mismatch });

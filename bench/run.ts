@@ -11,7 +11,8 @@ import { sampleRun } from '../src/core/spread/sample';
 import { replayFigures, REPLAY_TARGET_MS } from './replay';
 import { fitFigures, FIT_TARGET_MS } from './fit';
 
-const RESULTS = join(__dirname, 'results.json');
+// Run from a bundle in bench/.bundle/ (as the product runs: one bundled file) or from the source.
+const RESULTS = join(__dirname, __dirname.endsWith('.bundle') ? '..' : '.', 'results.json');
 const TARGET_1K_MS = 16;
 
 /**
