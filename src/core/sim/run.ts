@@ -230,12 +230,18 @@ export function predictedPath(seg: Segment): PathPiece[] | undefined {
   return (lazy.pieces ??= predictedPieces(undefined, lazy.pathEnd, lazy.before.x, lazy.before.y, lazy.before.heading, lazy.robot));
 }
 
-/** Keeps the box the axle midpoint passes through during a motion. */
+/**
+ * Keeps the box the axle midpoint passes through during a motion (`reset`
+ * before each). Its fields hold doubles from the start (NaN, never read): a
+ * field that starts as a small integer and later holds a fraction makes V8
+ * replace the object's hidden class, and at each full garbage collection it
+ * then throws away the optimized motion loops that have seen the old one.
+ */
 class BoundsSink implements PoseSink {
-  minX = 0;
-  minY = 0;
-  maxX = 0;
-  maxY = 0;
+  minX = NaN;
+  minY = NaN;
+  maxX = NaN;
+  maxY = NaN;
 
   reset(x: number, y: number): void {
     this.minX = this.maxX = x;
