@@ -15,10 +15,13 @@ export class PoseBuffer {
   /** With `thin`, a pose is kept only a key pose's distance from the last one kept (the last pose given is kept by `close`). */
   constructor(private readonly thin = false) {}
   private held = false;
-  private ht = 0;
-  private hx = 0;
-  private hy = 0;
-  private hh = 0;
+  // The pose held back (read only while `held`). Doubles from the start (NaN): a field that starts as a small integer
+  // and later holds a fraction makes V8 replace the buffer's hidden class, and the code that has seen the old one is
+  // then thrown away at each full garbage collection.
+  private ht = NaN;
+  private hx = NaN;
+  private hy = NaN;
+  private hh = NaN;
   private lastDir = 0;
 
   pose(t: number, x: number, y: number, h: number): void {
