@@ -770,8 +770,9 @@ export function solveRuns(inputs: RunInput[], setup: PlanSetup, diagnostics: Dia
     }
 
     /**
-     * Sweeps each piece of a segment's path against what `checkOf(i)` names,
-     * reporting each obstacle (and the field) once. A move that leaves the
+     * Sweeps each piece of a segment's path against what `checkOf(i)` names
+     * (a plain name: every obstacle and the field edge, a hit described by that
+     * name), reporting each obstacle (and the field) once. A move that leaves the
      * wall just squared against only touches it at the start: lifted off by a
      * hair, does it still hit?
      */
