@@ -348,6 +348,8 @@ describe('run timeline, scrubber and trace chart (Chromium)', function () {
     await traced(trace(1, LINE_SPIN, 90), 0);
     await page.locator('.section-trace > summary').click();
     assert.ok(await page.locator('.trace-charts').isHidden());
+    // A <details> element's toggle event comes after the click, in a task of its own: wait for the state it saves.
+    await page.waitForFunction(() => ((window as unknown as Win).__state as { folded?: string[] } | undefined)?.folded?.includes('trace'));
     const state = await page.evaluate(() => (window as unknown as Win).__state as { folded?: string[] });
     assert.deepStrictEqual(state.folded, ['trace']);
     await page.getByRole('tab', { name: 'Targets' }).click();
