@@ -142,6 +142,14 @@ function hostileFigures(): Record<string, number> {
 }
 
 function main(): void {
+  // First, in a fresh heap, as the editor's sampling worker runs it (a thread of its own, this plan only).
+  // Monte Carlo: 1,000 sampled runs of the 100-segment plan (the error model with the full kinematics).
+  // With the controller simulation (every sampled run simulated), and without it (the planned path driven with its errors).
+  const solved100 = checkPlan(generatePlan(100));
+  const planned100 = checkPlan(generatePlan(100), { simulate: false });
+  let seed = 1;
+  const mc = time(() => sampleRun(solved100.runs[0].segments, solved100.setup.noise, 162.4, 'clockwise', 1000, seed++), 7);
+  const mcPlanned = time(() => sampleRun(planned100.runs[0].segments, planned100.setup.noise, 162.4, 'clockwise', 1000, seed++), 7);
   const solve100 = solveTime(100, 31);
   const solve1k = solveTime(1_000, 21);
   const solve10k = solveTime(10_000, 7);
@@ -150,13 +158,6 @@ function main(): void {
   // The spread's share: the propagation alone over the solved 1,000-segment run.
   const solved = checkPlan(generatePlan(1_000), { simulate: false });
   const spread1k = time(() => propagateRun(solved.runs[0].segments, solved.setup.noise, 162.4, 'clockwise'), 21);
-  // Monte Carlo: 1,000 sampled runs of the 100-segment plan (the error model with the full kinematics).
-  // With the controller simulation (every sampled run simulated), and without it (the planned path driven with its errors).
-  const solved100 = checkPlan(generatePlan(100));
-  const planned100 = checkPlan(generatePlan(100), { simulate: false });
-  let seed = 1;
-  const mc = time(() => sampleRun(solved100.runs[0].segments, solved100.setup.noise, 162.4, 'clockwise', 1000, seed++), 7);
-  const mcPlanned = time(() => sampleRun(planned100.runs[0].segments, planned100.setup.noise, 162.4, 'clockwise', 1000, seed++), 7);
   const figures: Record<string, number> = {
     solve_100_ms: round(solve100),
     solve_1k_ms: round(solve1k),
