@@ -66,6 +66,25 @@ function popcount(v: number): number {
   return c;
 }
 
+describe('proofs after an earlier crossing', () => {
+  it('a fix that changes the path may leave standing a crossing that was reported as following from an earlier one', () => {
+    // Found by the fix-engine property test (seed 11, plan 4023): the `turn to -90` on the last line is reported
+    // as part of the crossing on line 10 (its related information); turning onto 90° first makes it an error of its
+    // own. It was a problem before the fix too, so the fix adds none.
+    const text = ['turns clockwise', 'yaw range 0 to 360', 'wheel 56 mm', 'track 120 mm effective 123 mm', 'start (2976, 844) heading -7',
+      'reset yaw', 'turn to 200 by encoders', 'drive 597 hold 285 step', 'Turn 146 by gyro', 'turn 120 by gyro', 'turn 173 by gyro',
+      'drive 562', 'drive 55 hold 90', 'turn to -90 pivot left'].join('\n');
+    const before = checkPlan(text);
+    const root = before.diagnostics.find((d) => d.code === 'wrap-cross')!;
+    assert.ok(root.related?.some((r) => r.range.start.line === 13), 'the last line follows from the crossing on line 10');
+    const jump = before.diagnostics.find((d) => d.code === 'heading-jump')!;
+    const fix = jump.fixes!.find((f) => /^Turn onto 90° first/.test(f.title))!;
+    const proof = proveFix(text, before, fix, jump);
+    assert.ok(proof.ok, proof.reason);
+    assert.ok(proof.after.diagnostics.some((d) => d.code === 'wrap-cross' && d.range.start.line === 14), 'it stands on its own after the fix');
+  });
+});
+
 describe('bestReset', () => {
   it('inserts the reset that shrinks the run\'s final spread most (just after the square), keeping the path', () => {
     // A reset after a long encoder drive puts that drive's heading error into the sensor's reference; the square at

@@ -45,8 +45,12 @@ export function proveFix(text: string, before: CheckResult, fix: Fix, target?: D
   const errorsBefore = new Map<string, number>();
   for (const d of before.diagnostics) {
     if (d.severity !== 'error') continue;
-    const key = `${d.code}@${moved(d.range.start.line)}`;
-    errorsBefore.set(key, (errorsBefore.get(key) ?? 0) + 1);
+    // An error's related lines (a crossing that follows from an earlier one) were problems before the fix too: a
+    // fix that changes the path may make such a line's problem stand on its own.
+    for (const line of [d.range.start.line, ...(d.related ?? []).map((r) => r.range.start.line)]) {
+      const key = `${d.code}@${moved(line)}`;
+      errorsBefore.set(key, (errorsBefore.get(key) ?? 0) + 1);
+    }
   }
   // A fix of the planned path is judged on the planned path: what the
   // controller simulation predicts after it (a coasting robot, a stall) is
