@@ -83,9 +83,7 @@ function samplePlanned(segments: readonly Segment[], noise: NoiseModel, track: n
   onProgress?: (done: number) => void): RunSamples {
   const flip = turns === 'clockwise' ? 1 : -1;
   const n = segments.length;
-  const out: RunSamples = {
-    x: segments.map(() => new Float64Array(count)), y: segments.map(() => new Float64Array(count)), heading: segments.map(() => new Float64Array(count)),
-  };
+  const out = emptySamples(n, count);
   const gauss = normalSource(seed);
   const k = noise.wheel ?? SPREAD_DEFAULTS.wheel;
   const planned = (deg: number) => flip * deg * RAD;
@@ -120,7 +118,7 @@ function samplePlanned(segments: readonly Segment[], noise: NoiseModel, track: n
           pose.y = y;
           pose.h = h;
           for (const piece of seg.path) {
-            drive(pose, piece, planned, track, seg.kind === 'turn' && !gyro ? trackScale : 0, seg.kind !== 'turn' || !gyro ? dist : 0, gyro, k, gauss);
+            drive(pose, piece, flip, track, seg.kind === 'turn' && !gyro ? trackScale : 0, seg.kind !== 'turn' || !gyro ? dist : 0, gyro, k, gauss);
           }
           x = pose.x;
           y = pose.y;
@@ -151,22 +149,10 @@ function samplePlanned(segments: readonly Segment[], noise: NoiseModel, track: n
  * gyro-steered motion keeps its heading: its wheel errors move it along its
  * path only.
  */
-function drive(pose: { x: number; y: number; h: number }, piece: PathPiece, planned: (deg: number) => number, track: number,
+function drive(pose: { x: number; y: number; h: number }, piece: PathPiece, flip: number, track: number,
   trackScale: number, dist: number, steered: boolean, k: number, gauss: () => number): void {
   let { x, y, h } = pose;
-  const h0 = planned(piece.from.heading);
-  let ds: number;
-  let dTheta: number;
-  if (piece.type === 'line') {
-    const len = Math.hypot(piece.to.x - piece.from.x, piece.to.y - piece.from.y);
-    ds = (piece.to.x - piece.from.x) * Math.sin(h0) + (piece.to.y - piece.from.y) * Math.cos(h0) >= 0 ? len : -len;
-    dTheta = 0;
-  } else {
-    dTheta = planned(piece.turned);
-    const r = Math.hypot(piece.from.x - piece.center.x, piece.from.y - piece.center.y);
-    const mid = h0 + dTheta / 2;
-    ds = r * Math.abs(dTheta) * ((piece.to.x - piece.from.x) * Math.sin(mid) + (piece.to.y - piece.from.y) * Math.cos(mid) >= 0 ? 1 : -1);
-  }
+  const { ds, dTheta } = pieceTravel(piece, flip);
   const sL = (ds + (dTheta * track) / 2) * (1 + dist);
   const sR = (ds - (dTheta * track) / 2) * (1 + dist);
   const pieces = Math.max(1, Math.ceil(Math.max(Math.abs(sL), Math.abs(sR)) / PIECE_MM));
@@ -262,9 +248,7 @@ function sampleSimulated(segments: readonly Segment[], noise: NoiseModel, track:
   onProgress: ((done: number) => void) | undefined, scalar: boolean): RunSamples {
   const flip = turns === 'clockwise' ? 1 : -1;
   const n = segments.length;
-  const out: RunSamples = {
-    x: segments.map(() => new Float64Array(count)), y: segments.map(() => new Float64Array(count)), heading: segments.map(() => new Float64Array(count)),
-  };
+  const out = emptySamples(n, count);
   const gauss = normalSource(seed);
   const k = noise.wheel ?? SPREAD_DEFAULTS.wheel;
   const squareSd = noise.square ?? SPREAD_DEFAULTS.squareHeading;
@@ -364,6 +348,12 @@ function sampleSimulated(segments: readonly Segment[], noise: NoiseModel, track:
   }
   onProgress?.(1);
   return out;
+}
+
+/** Columns of `count` samples for each of `n` segments, all zero. */
+function emptySamples(n: number, count: number): RunSamples {
+  const columns = () => Array.from({ length: n }, () => new Float64Array(count));
+  return { x: columns(), y: columns(), heading: columns() };
 }
 
 function record(out: RunSamples, i: number, s: number, state: SimState): void {
