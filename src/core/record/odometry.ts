@@ -53,11 +53,16 @@ export function arcStep(pose: Pose, dl: number, dr: number, track: number, turns
   return chordStep(pose, (dl + dr) / 2, dTheta / RAD, turns);
 }
 
+/** The chord of an arc of length `ds` that turns by 2·`half` radians: ds·sin(half)/half (ds itself for a straight step). */
+function chordOf(ds: number, half: number): number {
+  return Math.abs(half) < 1e-9 ? ds : (ds * Math.sin(half)) / half;
+}
+
 /** Moves `ds` (mm) along an arc that turns the heading by `dHeading` degrees. */
 export function chordStep(pose: Pose, ds: number, dHeading: number, turns: TurnDirection = 'clockwise'): Pose {
   const sign = turns === 'clockwise' ? 1 : -1;
   const half = (dHeading * RAD) / 2;
-  const chord = Math.abs(half) < 1e-9 ? ds : (ds * Math.sin(half)) / half;
+  const chord = chordOf(ds, half);
   const mid = pose.heading * RAD + half;
   return { x: pose.x + sign * Math.sin(mid) * chord, y: pose.y + Math.cos(mid) * chord, heading: pose.heading + dHeading };
 }
@@ -107,9 +112,9 @@ export function reconstruct(run: RecordedRun, start: Pose, robot: OdometryRobot,
     const dr = s[i].right - s[i - 1].right;
     const ds = (dl + dr) / 2;
     const dTheta = (sign * (dl - dr)) / b; // radians
-    // The exact arc (inlined arcStep: this loop runs once per sample).
+    // The exact arc (arcStep's, with the pose in locals: this loop runs once per sample).
     const half = dTheta / 2;
-    const chord = Math.abs(half) < 1e-9 ? ds : (ds * Math.sin(half)) / half;
+    const chord = chordOf(ds, half);
     const mid = h + half;
     x += sign * Math.sin(mid) * chord;
     y += Math.cos(mid) * chord;
@@ -134,7 +139,7 @@ export function reconstruct(run: RecordedRun, start: Pose, robot: OdometryRobot,
         sumY2 += dYaw * dYaw;
       }
       const fHalf = (dYaw * RAD) / 2;
-      const fChord = Math.abs(fHalf) < 1e-9 ? ds : (ds * Math.sin(fHalf)) / fHalf;
+      const fChord = chordOf(ds, fHalf);
       const fMid = fh * RAD + fHalf;
       fx += sign * Math.sin(fMid) * fChord;
       fy += Math.cos(fMid) * fChord;
