@@ -4,10 +4,10 @@
 // a `square`, say) makes every later gyro motion end closer to the plan. The
 // insertion keeps the path: later `turn to` and `hold` targets are rewritten to
 // the readings the new zero gives.
-import type { CheckResult, Fix, TextEdit } from '../types';
+import type { CheckResult, Fix, Segment, TextEdit } from '../types';
 import { propagateRun } from '../spread/run';
-import { motionStatements, readingItems, replay, replayKeepsPath } from './replay';
-import { insertLinesBefore, lineEndOf, writeNumber } from './text';
+import { motionStatements, readingItems, replay, replayKeepsPath, retargetEdits } from './replay';
+import { insertLinesBefore, lineEndOf } from './text';
 import { fmt } from '../units/evaluate';
 
 /** An improvement smaller than this (mm of the 95 % oval's long half-axis, and share of it) is not offered. */
@@ -36,20 +36,21 @@ export function bestReset(result: CheckResult, runIndex: number, text?: string):
   const segs = run.segments;
   const last = segs[segs.length - 1];
   const { noise, turns, yawRange } = result.setup;
-  const finalSpread = (zeroBefore?: ReadonlySet<unknown>) =>
-    propagateRun(segs, noise, track, turns, zeroBefore ? { zeroBefore: zeroBefore as ReadonlySet<typeof last> } : {}).bySegment.get(last)?.ellipse95.a;
+  const finalSpread = (zeroBefore?: ReadonlySet<Segment>) => propagateRun(segs, noise, track, turns, { zeroBefore }).bySegment.get(last)?.ellipse95.a;
   const now = finalSpread();
-  if (now === undefined || !segs.some((s) => s.sensing === 'gyro')) return undefined;
+  // A reset changes only the gyro motions after it.
+  let lastGyro = -1;
+  segs.forEach((s, i) => { if (s.sensing === 'gyro') lastGyro = i; });
+  if (now === undefined || lastGyro < 0) return undefined;
   const stmtAt = motionStatements(result);
   const items = readingItems(run, stmtAt);
   const reported = new Set(result.diagnostics.filter((d) => d.code === 'wrap-cross').map((d) => d.range.start.line));
   let best: { index: number; spread: number } | undefined;
   const startIndex = segs.findIndex((s) => s.kind === 'start');
-  for (let i = startIndex + 1; i < segs.length; i++) {
+  for (let i = startIndex + 1; i <= lastGyro; i++) {
     const seg = segs[i];
-    // Before a motion that is not already a zero, and with a gyro motion after it (else the reset changes nothing).
+    // Before a motion that is not already a zero.
     if (seg.kind === 'start' || seg.kind === 'reset' || seg.zeroesYaw || seg.kind === 'mark') continue;
-    if (!segs.slice(i).some((s) => s.sensing === 'gyro')) break;
     const spread = finalSpread(new Set([seg]));
     if (spread === undefined || (best && spread >= best.spread - 1e-9)) continue;
     best = { index: i, spread };
@@ -61,12 +62,7 @@ export function bestReset(result: CheckResult, runIndex: number, text?: string):
   const stmt = stmtAt(at.line);
   if (!stmt) return undefined;
   const eol = text === undefined ? '\n' : lineEndOf(text);
-  const edits: TextEdit[] = [insertLinesBefore(stmt.line, [`${' '.repeat(stmt.range.start.character)}reset yaw`], eol)];
-  for (const it of replayed) {
-    if (!it.absolute || Math.abs(it.newTarget - it.target) < 1e-9) continue;
-    const node = it.stmt.kind === 'drive' ? it.stmt.hold : it.stmt.to;
-    if (node) edits.push({ range: node.range, newText: writeNumber(it.newTarget) });
-  }
+  const edits: TextEdit[] = [insertLinesBefore(stmt.line, [`${' '.repeat(stmt.range.start.character)}reset yaw`], eol), ...retargetEdits(replayed)];
   const runName = result.runs.length > 1 ? `the run "${run.name}"` : 'the run';
   return {
     line: at.line,

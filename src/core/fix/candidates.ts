@@ -6,7 +6,7 @@
 import type { CheckResult, Diagnostic, DriveStmt, Fix, MotionStmt, RunResult, TextEdit, TurnStmt } from '../types';
 import { MOTION_DEFAULTS } from '../solve/runs';
 import { shortWay, YawReadings } from '../solve/readings';
-import { motionStatements, readingItems, replay, replayKeepsPath, stretchAround, type ReadingItem, type ReplayChanges } from './replay';
+import { motionStatements, readingItems, replay, replayKeepsPath, retargetEdits, stretchAround, type ReadingItem, type ReplayChanges } from './replay';
 import { insertLinesBefore, lineEndOf, writeNumber } from './text';
 
 interface Located {
@@ -77,15 +77,9 @@ class FixContext {
   private rewrites(at: Located, changes: ReplayChanges, skip?: number): TextEdit[] | undefined {
     const { lo, hi } = this.result.setup.yawRange;
     const [from, to] = stretchAround(at.run, at.index, this.stmtAt);
-    const edits: TextEdit[] = [];
     const replayed = replay(at.run, this.items(at.run), this.stmtAt, lo, hi, changes, from, to);
     if (!replayKeepsPath(replayed, at.run, this.reported, at.index)) return undefined;
-    for (const it of replayed) {
-      if (!it.absolute || it.index < at.index || it.index === skip || Math.abs(it.newTarget - it.target) < 1e-9) continue;
-      const node = it.stmt.kind === 'drive' ? it.stmt.hold : it.stmt.to;
-      if (node) edits.push({ range: node.range, newText: writeNumber(it.newTarget) });
-    }
-    return edits;
+    return retargetEdits(replayed, at.index, skip);
   }
 
   private indent(stmt: MotionStmt): string {

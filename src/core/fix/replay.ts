@@ -1,8 +1,9 @@
 // Replays the yaw readings of a solved run with other zero points, keeping
 // every motion's change of heading: the readings a fixed plan will have, and
 // so the `turn to` and `hold` targets that make it drive the same path.
-import type { CheckResult, DriveStmt, MotionStmt, RunResult, TurnStmt } from '../types';
+import type { CheckResult, DriveStmt, MotionStmt, RunResult, TextEdit, TurnStmt } from '../types';
 import { YawReadings } from '../solve/readings';
+import { writeNumber } from './text';
 
 /** A motion whose target is a yaw reading (gyro turns and holds, and `turn to` by encoders). */
 export interface ReadingItem {
@@ -102,6 +103,20 @@ export function replay(
     yaw.settle(seg.end.heading);
   }
   return out;
+}
+
+/**
+ * The edits that write each absolute target (`turn to H`, `hold H`) the value
+ * its replay needs, for the items from segment `from` on except `skip`.
+ */
+export function retargetEdits(items: readonly ReplayedItem[], from = 0, skip?: number): TextEdit[] {
+  const edits: TextEdit[] = [];
+  for (const it of items) {
+    if (!it.absolute || it.index < from || it.index === skip || Math.abs(it.newTarget - it.target) < 1e-9) continue;
+    const node = it.stmt.kind === 'drive' ? it.stmt.hold : it.stmt.to;
+    if (node) edits.push({ range: node.range, newText: writeNumber(it.newTarget) });
+  }
+  return edits;
 }
 
 /** The stretch of zero points around segment i: [last zero at or before i, next zero after i). */

@@ -3,8 +3,8 @@
 // drives the path the plan means.
 import type { CheckResult, Fix, Segment, TextEdit } from '../types';
 import { wrapReading } from '../solve/frame';
-import { motionStatements, readingItems, replay, replayKeepsPath } from './replay';
-import { insertLinesBefore, lineEndOf, writeNumber } from './text';
+import { motionStatements, readingItems, replay, replayKeepsPath, retargetEdits } from './replay';
+import { insertLinesBefore, lineEndOf } from './text';
 import { propagateRun } from '../spread/run';
 
 /** Runs up to this long have their equally short placements compared by spread (the comparison is quadratic). */
@@ -170,11 +170,7 @@ export function fewestResets(result: CheckResult, text?: string): Fix | undefine
       const indent = ' '.repeat(stmt.range.start.character);
       edits.push(insertLinesBefore(stmt.line, [`${indent}reset yaw`], eol));
     }
-    for (const it of replayed) {
-      if (!it.absolute || Math.abs(it.newTarget - it.target) < 1e-9) continue;
-      const node = it.stmt.kind === 'drive' ? it.stmt.hold : it.stmt.to;
-      if (node) edits.push({ range: node.range, newText: writeNumber(it.newTarget) });
-    }
+    edits.push(...retargetEdits(replayed));
   }
   if (inserted === 0) return undefined;
   return { title: `${FEWEST_RESETS_TITLE} (${inserted} reset${inserted === 1 ? '' : 's'}; the path stays the same)`, edits };

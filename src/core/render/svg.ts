@@ -105,15 +105,15 @@ export function renderSvg(result: CheckResult, options: RenderOptions = {}): str
   const footprint = footprintOf(result.setup.robot);
 
   // Keys for the predicted path and a recorded run's paths (a coach must tell them from the plan's).
-  const recordedKeys: LegendKey[] = [];
+  const legendKeys: LegendKey[] = [];
   if (runs.some(({ run }) => run.segments.some((seg) => (predictedPath(seg)?.length ?? 0) > 0))) {
-    recordedKeys.push({ cls: 'predicted-key', dash: [2, 3], text: 'predicted' });
+    legendKeys.push({ cls: 'predicted-key', dash: [2, 3], text: 'predicted' });
   }
   if (options.recorded && runs.some((r) => r.index === options.recorded!.runIndex)) {
-    if (options.recorded.fused) recordedKeys.push({ cls: 'recorded-key', text: 'recorded: wheels and yaw' });
-    recordedKeys.push({ cls: 'recorded-key', dash: options.recorded.fused ? [5, 3] : undefined, text: options.recorded.fused ? 'wheels alone' : 'recorded: wheels alone' });
+    if (options.recorded.fused) legendKeys.push({ cls: 'recorded-key', text: 'recorded: wheels and yaw' });
+    legendKeys.push({ cls: 'recorded-key', dash: options.recorded.fused ? [5, 3] : undefined, text: options.recorded.fused ? 'wheels alone' : 'recorded: wheels alone' });
   }
-  const header = headerLayout(result, runs, recordedKeys);
+  const header = headerLayout(result, runs, legendKeys);
   const view = makeView(
     boundRecorded(contentBounds(result, runs, diagnostics, footprint), options.recorded),
     targetWidth,
