@@ -4,7 +4,7 @@
 // runs that meet it. Pure: the editor runs it in a worker, the command line
 // in-process.
 import type { CheckResult } from '../types';
-import { meetsMark } from '../spread/gaussian';
+import { shareMeeting } from '../spread/gaussian';
 import { sampleRun } from '../spread/sample';
 
 /** Where the drawing shows the 95 % ovals: at marks only (the default), after every motion too, or nowhere. */
@@ -70,13 +70,7 @@ export function sampleCloud(result: CheckResult, count: number, seed = 1, onProg
       };
       segs.forEach((seg, i) => {
         if (seg.kind !== 'mark' || !seg.complete) return;
-        const target = seg.markTarget;
-        let share: number | undefined;
-        if (target) {
-          let met = 0;
-          for (let j = 0; j < count; j++) if (meetsMark(target, samples.x[i][j], samples.y[i][j])) met++;
-          share = met / count;
-        }
+        const share = seg.markTarget ? shareMeeting(seg.markTarget, samples.x[i], samples.y[i]) : undefined;
         spots.push({ run: r, segment: i, line: seg.line, kind: 'mark', ...keep(i), ...(share !== undefined ? { share } : {}) });
       });
       // The run's end, unless a mark there already holds these very samples.

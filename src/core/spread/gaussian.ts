@@ -168,6 +168,13 @@ export function meetsMark(t: MarkTarget, x: number, y: number): boolean {
   return t.kind === 'zone' ? x >= t.min.x && x <= t.max.x && y >= t.min.y && y <= t.max.y : Math.hypot(x - t.at.x, y - t.at.y) <= t.within;
 }
 
+/** The share of sampled positions (xs[j], ys[j]) that meet the mark. */
+export function shareMeeting(t: MarkTarget, xs: ArrayLike<number>, ys: ArrayLike<number>): number {
+  let met = 0;
+  for (let j = 0; j < xs.length; j++) if (meetsMark(t, xs[j], ys[j])) met++;
+  return xs.length ? met / xs.length : 0;
+}
+
 /** The chance that N(mean, c) meets the mark. */
 export function markProbability(t: MarkTarget, mean: { x: number; y: number }, c: Cov2): number {
   return t.kind === 'zone' ? rectangleProbability(mean, c, t.min.x, t.max.x, t.min.y, t.max.y) : discProbability(mean, c, t.at, t.within);
