@@ -1,12 +1,12 @@
 // `veer calibrate PLAN`: the runs that measure the plan's robot (--runs), and
 // the setup values computed from the measurements recorded next to the plan
 // (PLAN.calib, or --record FILE), as text or JSON (docs/calibration.md).
-import { readFileSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
+import { readFileSync, statSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
 import { parseArgs } from 'node:util';
 import { checkPlan, ExpressionCache } from '../core';
 import { calibratePlan, calibrationJson, calibrationText, MAX_RECORD_CHARS, writeCalibrationRuns } from '../core/calibrate';
-import type { CliIo } from './main';
+import { FileError, writeAtomically, type CliIo } from './main';
 
 export const CALIBRATE_HELP = `  veer calibrate PLAN --runs OUT.veer      write the calibration runs for the plan's robot (a straight drive,
                                            spins by encoders, spins for the gyro, the square test), sized to
@@ -75,7 +75,13 @@ function calibrate(argv: string[], io: CliIo, readPlan: (file: string) => string
     }
     if (out === '-') io.out(runs.text);
     else {
-      writeAtomically(out, runs.text);
+      try {
+        writeAtomically(out, runs.text);
+      } catch (e) {
+        // Worded as this command's own errors (`veer calibrate: ...`).
+        if (e instanceof FileError) throw new ReadError(e.message);
+        throw e;
+      }
       io.err(`wrote ${out}: a ${runs.drive} mm straight drive, spins, and laps of a ${runs.side} mm square; measure them as its comments say and write the results into ${join(dirname(planFile), record)}\n`);
     }
     return 0;
@@ -111,20 +117,5 @@ function readRecord(file: string, byDefault: boolean, planFile: string): string 
   } catch (e) {
     if (e instanceof TypeError) throw new ReadError(`${file}: is not UTF-8 text; save the record as UTF-8`);
     throw new ReadError(`${file}: cannot read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
-  }
-}
-
-/** Through a temporary file and a rename, so a failed write never leaves half a file. */
-function writeAtomically(path: string, content: string): void {
-  let existing;
-  try { existing = statSync(path); } catch { existing = undefined; }
-  if (existing?.isDirectory()) throw new ReadError(`${path}: is a directory; give a file name`);
-  const temporary = join(dirname(path), `.${basename(path)}.${process.pid}.tmp`);
-  try {
-    writeFileSync(temporary, content);
-    renameSync(temporary, path);
-  } catch (e) {
-    try { unlinkSync(temporary); } catch { /* already gone */ }
-    throw new ReadError(`${path}: cannot write (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
   }
 }

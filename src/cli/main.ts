@@ -6,7 +6,7 @@ import { checkPlan, fixPlan, proveFix, renderSvg, targetsCsv, targetsDocument, t
 import { pathToFileURL } from 'node:url';
 import { diagnosticLine, runSummaryLine, toJsonDocument } from '../core/report';
 import { sampleRun, sampleStats } from '../core/spread/sample';
-import { meetsMark } from '../core/spread/gaussian';
+import { shareMeeting } from '../core/spread/gaussian';
 import { sampleCloud, SPREAD_CHOICES, type SpreadShown } from '../core/render/cloud';
 import { version } from '../../package.json';
 import { LOG_OPTIONS, overlayForRender, replayCommand, REPLAY_HELP } from './replay';
@@ -167,7 +167,8 @@ function dispatch(argv: string[], io: CliIo): number {
   throw new UsageError(`unknown command \`${command}\`: use \`check\`, \`render\`, \`targets\`, \`replay\`, \`calibrate\` or \`fix\``);
 }
 
-class FileError extends Error {}
+/** A file that cannot be read or written; exported for the commands in their own files. */
+export class FileError extends Error {}
 
 function readPlan(file: string): string {
   let stat;
@@ -267,10 +268,7 @@ function addSamples(doc: ReturnType<typeof toJsonDocument>, result: CheckResult,
       const r6 = (v: number) => Math.round(v * 1e6) / 1e6;
       const out = doc.runs[r].segments[i];
       out.sampled = { count, mean: { x_mm: r6(mean[0]), y_mm: r6(mean[1]), heading_deg: r6(mean[2]) }, cov: cov.map((row) => row.map(r6)) };
-      if (seg.markTarget) {
-        const target = seg.markTarget;
-        out.sampled_hit_probability = samples.x[i].filter((x, j) => meetsMark(target, x, samples.y[i][j])).length / count;
-      }
+      if (seg.markTarget) out.sampled_hit_probability = shareMeeting(seg.markTarget, samples.x[i], samples.y[i]);
     });
   });
   onProgress?.(1);
@@ -363,7 +361,7 @@ function fix(file: string, write: boolean, io: CliIo): number {
 }
 
 /** Writes through a temporary file in the same folder and a rename, so a failed write never leaves half a file. */
-function writeAtomically(path: string, content: string): void {
+export function writeAtomically(path: string, content: string): void {
   let existing;
   try { existing = statSync(path); } catch { existing = undefined; }
   if (existing?.isDirectory()) throw new FileError(`${path}: is a directory; give a file name`);
