@@ -146,6 +146,21 @@ function clamp1(u: number): number {
   return u > 1 ? 1 : u < -1 ? -1 : u;
 }
 
+/** The motion's locals back into the state, once at its end (small enough to be inlined: no boxed numbers). */
+function storeState(s: SimState, x: number, y: number, h: number, vL: number, vR: number, t: number, cachedH: number, sinH: number,
+  cosH: number, tse: number): void {
+  s.x = x;
+  s.y = y;
+  s.h = h;
+  s.vL = vL;
+  s.vR = vR;
+  s.t = t;
+  s.cachedH = cachedH;
+  s.sinH = sinH;
+  s.cosH = cosH;
+  s.turnsSinceExact = tse;
+}
+
 function waitOn(s: SimState, r: SimRobot, time: number): boolean {
   let x = s.x;
   let y = s.y;
@@ -223,17 +238,7 @@ function waitOn(s: SimState, r: SimRobot, time: number): boolean {
     }
   }
   t = end;
-  // Back into the state (written out: a call would pass the numbers boxed).
-  s.x = x;
-  s.y = y;
-  s.h = h;
-  s.vL = vL;
-  s.vR = vR;
-  s.t = t;
-  s.cachedH = cachedH;
-  s.sinH = sinH;
-  s.cosH = cosH;
-  s.turnsSinceExact = tse;
+  storeState(s, x, y, h, vL, vR, t, cachedH, sinH, cosH, tse);
   return true;
 }
 
@@ -405,17 +410,7 @@ function encoders(s: SimState, r: SimRobot, m: SampledMotion, travelScale: numbe
     if (finishing === 1 || (!doneL && Math.sign(left) * (encL - left) >= -1e-9)) { doneL = true; encL = left; }
     if (finishing === 2 || (!doneR && Math.sign(right) * (encR - right) >= -1e-9)) { doneR = true; encR = right; }
   }
-  // Back into the state (written out: a call would pass the numbers boxed).
-  s.x = x;
-  s.y = y;
-  s.h = h;
-  s.vL = vL;
-  s.vR = vR;
-  s.t = t;
-  s.cachedH = cachedH;
-  s.sinH = sinH;
-  s.cosH = cosH;
-  s.turnsSinceExact = tse;
+  storeState(s, x, y, h, vL, vR, t, cachedH, sinH, cosH, tse);
   return finished;
 }
 
@@ -568,17 +563,7 @@ function gyroTurn(s: SimState, r: SimRobot, m: SampledMotion): boolean {
     }
     if (phase === 1) phase = 2;
   }
-  // Back into the state (written out: a call would pass the numbers boxed).
-  s.x = x;
-  s.y = y;
-  s.h = h;
-  s.vL = vL;
-  s.vR = vR;
-  s.t = t;
-  s.cachedH = cachedH;
-  s.sinH = sinH;
-  s.cosH = cosH;
-  s.turnsSinceExact = tse;
+  storeState(s, x, y, h, vL, vR, t, cachedH, sinH, cosH, tse);
   return finished;
 }
 
@@ -728,16 +713,6 @@ function hold(s: SimState, r: SimRobot, m: SampledMotion, travelScale: number): 
     }
     counted += dt === sample ? mean : back * (sL + (unit ? sR : sR / mismatch)) / 2;
   }
-  // Back into the state (written out: a call would pass the numbers boxed).
-  s.x = x;
-  s.y = y;
-  s.h = h;
-  s.vL = vL;
-  s.vR = vR;
-  s.t = t;
-  s.cachedH = cachedH;
-  s.sinH = sinH;
-  s.cosH = cosH;
-  s.turnsSinceExact = tse;
+  storeState(s, x, y, h, vL, vR, t, cachedH, sinH, cosH, tse);
   return finished;
 }
