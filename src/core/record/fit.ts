@@ -90,7 +90,7 @@
 import type { Fix, PlanSetup, Statement, TextEdit, TurnDirection } from '../types';
 import type { RecordedRun } from './types';
 import { parsePlan } from '../syntax/parser';
-import { lineEndOf } from '../fix/text';
+import { insertLinesBefore, lineEndOf } from '../fix/text';
 
 const RAD = Math.PI / 180;
 /** The normal distribution's two-sided 95 % quantile. */
@@ -1265,7 +1265,7 @@ export function fitFixes(text: string, fit: FitResult, options: FitFixOptions = 
   const setupBefore = ast.statements.slice(0, firstRun < 0 ? undefined : firstRun);
   const lastSetup = setupBefore[setupBefore.length - 1];
   const insertAt = lastSetup ? lastSetup.line + 1 : 0;
-  const newLine = (line: string): TextEdit => ({ range: { start: { line: insertAt, character: 0 }, end: { line: insertAt, character: 0 } }, newText: `${line}${eol}` });
+  const newLine = (line: string): TextEdit => insertLinesBefore(insertAt, [line], eol);
   const option = (stmt: Statement, node: { range: TextEdit['range'] } | undefined, key: string, value: string): TextEdit =>
     node ? { range: node.range, newText: value } : { range: { start: stmt.range.end, end: stmt.range.end }, newText: ` ${key} ${value}` };
   // Interval ends with one more decimal than the standard error's first.
@@ -1278,6 +1278,12 @@ export function fitFixes(text: string, fit: FitResult, options: FitFixOptions = 
   const fixes: Fix[] = [];
   const recommended: TextEdit[] = [];
   const said: string[] = [];
+  /** One value's fix, also part of the preferred fix that sets every value. */
+  const recommend = (title: string, edits: TextEdit[], says = [title]) => {
+    fixes.push({ title: `Set the ${title}${from}`, edits, changesPath: true });
+    recommended.push(...edits);
+    said.push(...says);
+  };
 
   // motor S lag T stall P
   const motorParts: { key: 'speed' | 'lag' | 'stall'; text: string; say: string }[] = [];
@@ -1307,10 +1313,7 @@ export function fitFixes(text: string, fit: FitResult, options: FitFixOptions = 
       edits.push(newLine(['motor', speed, ...motorParts.filter((p) => p.key !== 'speed').map((p) => `${p.key} ${p.text}`)].join(' ')));
     }
     // Option edits of one line keep their text order when applied.
-    const merged = mergeSameLine(edits);
-    fixes.push({ title: `Set the ${motorParts.map((p) => p.say).join(', ')}${from}`, edits: merged, changesPath: true });
-    recommended.push(...merged);
-    said.push(...motorParts.map((p) => p.say));
+    recommend(motorParts.map((p) => p.say).join(', '), mergeSameLine(edits), motorParts.map((p) => p.say));
   }
   // track W effective WE
   if (offer(P.effectiveTrack)) {
@@ -1320,9 +1323,7 @@ export function fitFixes(text: string, fit: FitResult, options: FitFixOptions = 
     const say = `effective track ${num(v)} mm (95 %: ${interval(p)} mm, assuming the gyro scale ${fitScaleText(p)})`;
     if (stmt) {
       const edits = [option(stmt, stmt.effective, 'effective', `${num(v)} mm`)];
-      fixes.push({ title: `Set the ${say}${from}`, edits, changesPath: true });
-      recommended.push(...edits);
-      said.push(say);
+      recommend(say, edits);
     }
   }
   // wheel D mismatch E
@@ -1333,9 +1334,7 @@ export function fitFixes(text: string, fit: FitResult, options: FitFixOptions = 
     if (stmt) {
       const say = `wheel mismatch ${num(v)} (95 %: ${interval(p)})`;
       const edits = [option(stmt, stmt.mismatch, 'mismatch', num(v))];
-      fixes.push({ title: `Set the ${say}${from}`, edits, changesPath: true });
-      recommended.push(...edits);
-      said.push(say);
+      recommend(say, edits);
     }
   }
   // gyro delay T (only a delay the robot can have: not below zero)
@@ -1347,9 +1346,7 @@ export function fitFixes(text: string, fit: FitResult, options: FitFixOptions = 
     delayText = `${num(v)} ms`;
     const say = `gyro delay ${num(v)} ms (95 %: ${interval(p, 1000)} ms)`;
     const edits = [gyroStmt ? option(gyroStmt, gyroStmt.delay, 'delay', delayText) : newLine(`gyro delay ${delayText}`)];
-    fixes.push({ title: `Set the ${say}${from}`, edits, changesPath: true });
-    recommended.push(...edits);
-    said.push(say);
+    recommend(say, edits);
   }
   // gyro scale F: instead of the track
   if (offer(P.gyroScale)) {
@@ -1370,9 +1367,7 @@ export function fitFixes(text: string, fit: FitResult, options: FitFixOptions = 
       const stmt = find('noise');
       const edit = stmt ? option(stmt, stmt.drift, 'drift', `${num(perMin)} deg/min`) : newLine(`noise drift ${num(perMin)} deg/min`);
       const say = `gyro drift ${num(perMin)} deg/min in the noise model (this run drifted ${num(roundForPlan(d.value * 60, d.se * 60))} deg/min, 95 %: ${interval(d, 60)})`;
-      fixes.push({ title: `Set the ${say}${from}`, edits: [edit], changesPath: true });
-      recommended.push(edit);
-      said.push(say);
+      recommend(say, [edit]);
     }
   }
   if (recommended.length > 1) {
