@@ -130,12 +130,12 @@ export function showCloud(document: vscode.TextDocument, version: number, cloud:
   return current ? current.showCloud(document, version, cloud) : Promise.resolve(undefined);
 }
 
-/** Whether the preview is open on this document. */
 /** Draws `document` again if the preview shows it (a recorded run was laid over it or cleared). */
 export function redrawPreview(document: vscode.TextDocument): void {
   if (current && isPreviewing(document)) current.show(document);
 }
 
+/** Whether the preview is open on this document. */
 export function isPreviewing(document: vscode.TextDocument): boolean {
   return current?.previewing(document.uri) ?? false;
 }

@@ -10,6 +10,7 @@ import type { RecordedRun } from './types';
 import { copyState, simulateMotion } from '../sim/motion';
 import { simRecordOf } from '../sim/run';
 import { meetsMark } from '../spread/gaussian';
+import { fmt } from '../units/evaluate';
 
 /** One pose's difference: distance between the axle midpoints, mm, and the heading's, degrees (recorded minus the other). */
 export interface PoseError {
@@ -352,11 +353,10 @@ export function poseError(a: Pose, b: Pose): PoseError {
 }
 
 function labelOf(seg: Segment): string {
-  const r = (v: number, d: number) => Number(v.toFixed(d)).toString();
   switch (seg.kind) {
-    case 'drive': return `drive ${r(seg.distance, 0)} mm${seg.sensing === 'gyro' ? ' (hold)' : ''}`;
-    case 'turn': return `turn ${r(seg.turned, 1)}°${seg.sensing === 'gyro' ? ' by gyro' : ''}`;
-    case 'wait': return `wait ${r(seg.duration, 2)} s`;
+    case 'drive': return `drive ${fmt(seg.distance, 0)} mm${seg.sensing === 'gyro' ? ' (hold)' : ''}`;
+    case 'turn': return `turn ${fmt(seg.turned, 1)}°${seg.sensing === 'gyro' ? ' by gyro' : ''}`;
+    case 'wait': return `wait ${fmt(seg.duration, 2)} s`;
     case 'mark': return `mark "${seg.label ?? ''}"`;
     case 'reset': return 'reset yaw';
     default: return seg.kind;
