@@ -2,16 +2,11 @@ import { strict as assert } from 'node:assert';
 import { mkdtempSync, readFileSync, writeFileSync, existsSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { runCli } from '../../src/cli/main';
+import { runVeer } from '../support/cli';
 import Ajv2020 from 'ajv/dist/2020';
 import { checkPlan } from '../../src/core';
 
-function run(args: string[]) {
-  let out = '';
-  let err = '';
-  const status = runCli(args, { out: (s) => { out += s; }, err: (s) => { err += s; }, isTTY: false });
-  return { status, out, err };
-}
+const run = runVeer;
 
 function folder(files: Record<string, string>): string {
   const dir = mkdtempSync(join(tmpdir(), 'veer-calibrate-'));

@@ -3,17 +3,12 @@ import { mkdtempSync, readFileSync, writeFileSync, existsSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
-import { runCli } from '../../src/cli/main';
+import { runVeer } from '../support/cli';
 import { plannedOnly } from '../support/planned';
 
 const example = join(__dirname, '..', '..', 'examples', 'parcel-table.veer');
 
-function run(args: string[]) {
-  let out = '';
-  let err = '';
-  const status = runCli(args, { out: (s) => { out += s; }, err: (s) => { err += s; }, isTTY: false });
-  return { status, out, err };
-}
+const run = runVeer;
 
 function tempPlan(text: string | Buffer, name = 'plan.veer'): string {
   const dir = mkdtempSync(join(tmpdir(), 'veer-cli-'));

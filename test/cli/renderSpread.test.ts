@@ -4,16 +4,11 @@ import { strict as assert } from 'node:assert';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { runCli } from '../../src/cli/main';
+import { runVeer } from '../support/cli';
 
 const example = join(__dirname, '..', '..', 'examples', 'parcel-table.veer');
 
-function run(args: string[]) {
-  let out = '';
-  let err = '';
-  const status = runCli(args, { out: (s) => { out += s; }, err: (s) => { err += s; }, isTTY: false });
-  return { status, out, err };
-}
+const run = runVeer;
 
 function rendered(...options: string[]): string {
   const out = join(mkdtempSync(join(tmpdir(), 'veer-spread-')), 'plan.svg');

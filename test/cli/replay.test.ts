@@ -3,7 +3,7 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import Ajv2020 from 'ajv/dist/2020';
-import { runCli } from '../../src/cli/main';
+import { runVeer } from '../support/cli';
 
 // `veer replay PLAN LOG` and `veer render --log`: the recorded run of the demo
 // plan (examples/parcel-table.log.csv, made by scripts/recorded-run.ts), its
@@ -15,12 +15,7 @@ const log = join(root, 'examples', 'parcel-table.log.csv');
 const ajv = new Ajv2020({ allErrors: true, strict: true });
 const schema = ajv.compile(JSON.parse(readFileSync(join(root, 'schema', 'replay.schema.json'), 'utf8')));
 
-function run(args: string[]): { out: string; err: string; status: number } {
-  let out = '';
-  let err = '';
-  const status = runCli(args, { out: (s) => { out += s; }, err: (s) => { err += s; }, isTTY: false });
-  return { out, err, status };
-}
+const run = runVeer;
 
 describe('veer replay', () => {
   const dir = mkdtempSync(join(tmpdir(), 'veer-replay-'));

@@ -2,7 +2,7 @@ import { strict as assert } from 'node:assert';
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import Ajv2020 from 'ajv/dist/2020';
-import { runCli } from '../../src/cli/main';
+import { runVeer } from '../support/cli';
 import type { JsonDocument } from '../../src/core/report';
 
 // The JSON the command line prints, validated against the schemas in schema/
@@ -15,11 +15,7 @@ const ajv = new Ajv2020({ allErrors: true, strict: true });
 const checkSchema = ajv.compile(JSON.parse(readFileSync(join(root, 'schema', 'check.schema.json'), 'utf8')));
 const targetsSchema = ajv.compile(JSON.parse(readFileSync(join(root, 'schema', 'targets.schema.json'), 'utf8')));
 
-function run(args: string[]): string {
-  let out = '';
-  runCli(args, { out: (s) => { out += s; }, err: () => {}, isTTY: false });
-  return out;
-}
+const run = (args: string[]): string => runVeer(args).out;
 
 const plans = [
   ...readdirSync(join(root, 'test', 'fixtures')).filter((f) => f.endsWith('.veer')).map((f) => join(root, 'test', 'fixtures', f)),
