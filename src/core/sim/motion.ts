@@ -12,7 +12,7 @@ const wrapReading = wrapReadingOf;
 /** Simulated time after which a motion is cut off and reported (the robot model's 20 s). */
 export const MOTION_CAP_S = 20;
 /** A wheel slower than this (mm/s) with no power has come to rest. */
-const REST_SPEED = 1e-3;
+export const REST_SPEED = 1e-3;
 const RAD = Math.PI / 180;
 
 /** The robot and its sensor, in canonical units. */
@@ -145,10 +145,10 @@ export type SimMotion = EncoderMotion | GyroTurnMotion | HoldDriveMotion | WaitM
  */
 export const ENCODER_STEPS = 4;
 /** Wheel speeds in the ratio of their commands within this share (of the commands squared) move on one arc. */
-const STEADY_RATIO = 1e-4;
+export const STEADY_RATIO = 1e-4;
 /** How far (mm) an arc step may bulge off its chord, and how much it may turn (degrees). */
 export const STEADY_BULGE = 2;
-const STEADY_DEG = 30;
+export const STEADY_DEG = 30;
 
 /** The lowest power a ramped drive commands (or its top power when lower), so that it never creeps. */
 export const RAMP_FLOOR = 0.1;
@@ -203,7 +203,7 @@ function newStep(): Step {
   return { sL: 0, sR: 0, uL: 0, uR: 0, dt: 0, decay: 0, regulated: false };
 }
 
-function effective(u: number, stall: number): number {
+export function effective(u: number, stall: number): number {
   return Math.abs(u) < stall ? 0 : u;
 }
 
@@ -293,7 +293,7 @@ function wheelTravel(v: number, c: number, lag: number, dt: number, decay?: numb
 }
 
 /** exp(−dt/lag) for a step of `dt` (worked out once for the sample period and for the encoder motions' longer steps). */
-function decayOf(r: SimRobot, dt: number): number {
+export function decayOf(r: SimRobot, dt: number): number {
   if (dt === r.sample) return r.decay;
   if (dt === r.longStep) return r.decayLong;
   return r.lag > 0 ? Math.exp(-dt / r.lag) : 0;
@@ -587,7 +587,7 @@ function meanTravel(s: SimState, r: SimRobot, cL: number, cR: number, back: numb
   return (back * (wheelTravel(s.vL, cL, r.lag, dt, decay) + wheelTravel(s.vR, cR, r.lag, dt, decay) / r.mismatch)) / 2;
 }
 
-function clamp1(u: number): number {
+export function clamp1(u: number): number {
   return u > 1 ? 1 : u < -1 ? -1 : u;
 }
 

@@ -14,12 +14,18 @@
 //
 // Keep it in step with motion.ts: a change to a controller or to the plant
 // step there is made here too (the equality test catches a miss).
-import { MOTION_CAP_S as CAP_S, RAMP_FLOOR as FLOOR, STEADY_BULGE as BULGE, type SimMotion, type SimRobot, type SimState } from './motion';
+import {
+  clamp1, decayOf, effective, MOTION_CAP_S as CAP_S, RAMP_FLOOR as FLOOR, REST_SPEED as REST, STEADY_BULGE as BULGE, STEADY_DEG as ST_DEG,
+  STEADY_RATIO as RATIO, type SimMotion, type SimRobot, type SimState,
+} from './motion';
 
 /** motion.ts's constants, bound once: the loops read them every step (an imported binding can cost a lookup per use). */
 const MOTION_CAP_S = CAP_S;
 const RAMP_FLOOR = FLOOR;
 const STEADY_BULGE = BULGE;
+const REST_SPEED = REST;
+const STEADY_RATIO = RATIO;
+const STEADY_DEG = ST_DEG;
 
 const RAD = Math.PI / 180;
 const DEG = 180 / Math.PI;
@@ -29,10 +35,6 @@ const TWENTIETH = 1 / 20;
 const THIRTIETH = 1 / 30;
 const FORTY_SECOND = 1 / 42;
 const FIFTY_SIXTH = 1 / 56;
-/** As in motion.ts. */
-const REST_SPEED = 1e-3;
-const STEADY_RATIO = 1e-4;
-const STEADY_DEG = 30;
 
 /** Whether `runSampledMotion` takes this robot: a reading without delay (no heading history to keep). */
 export function sampledPathFits(r: SimRobot): boolean {
@@ -86,17 +88,6 @@ function wrap(value: number, lo: number): number {
   return w >= lo + 360 ? w - 360 : w;
 }
 
-function effective(u: number, stall: number): number {
-  return Math.abs(u) < stall ? 0 : u;
-}
-
-/** exp(−dt/lag), as motion.ts's decayOf. */
-function decayOf(r: SimRobot, dt: number): number {
-  if (dt === r.sample) return r.decay;
-  if (dt === r.longStep) return r.decayLong;
-  return r.lag > 0 ? Math.exp(-dt / r.lag) : 0;
-}
-
 /**
  * The numbers in and out of `crossingTime` (a call passes and returns its numbers boxed, an allocation each):
  * in v, c, lag, dt, need and the decay over dt; out the time and the decay at that time.
@@ -140,10 +131,6 @@ function crossingTime(): void {
   }
   cross[T_OUT] = hi;
   cross[DECAY_OUT] = hiDecay;
-}
-
-function clamp1(u: number): number {
-  return u > 1 ? 1 : u < -1 ? -1 : u;
 }
 
 /** The motion's locals back into the state, once at its end (small enough to be inlined: no boxed numbers). */
