@@ -1,12 +1,11 @@
 // `veer calibrate PLAN`: the runs that measure the plan's robot (--runs), and
 // the setup values computed from the measurements recorded next to the plan
 // (PLAN.calib, or --record FILE), as text or JSON (docs/calibration.md).
-import { readFileSync, statSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
 import { parseArgs } from 'node:util';
 import { checkPlan, ExpressionCache } from '../core';
 import { calibratePlan, calibrationJson, calibrationText, MAX_RECORD_CHARS, writeCalibrationRuns } from '../core/calibrate';
-import { FileError, writeAtomically, type CliIo } from './main';
+import { FileError, readTextFile, writeAtomically, type CliIo } from './main';
 
 export const CALIBRATE_HELP = `  veer calibrate PLAN --runs OUT.veer      write the calibration runs for the plan's robot (a straight drive,
                                            spins by encoders, spins for the gyro, the square test), sized to
@@ -75,13 +74,8 @@ function calibrate(argv: string[], io: CliIo, readPlan: (file: string) => string
     }
     if (out === '-') io.out(runs.text);
     else {
-      try {
-        writeAtomically(out, runs.text);
-      } catch (e) {
-        // Worded as this command's own errors (`veer calibrate: ...`).
-        if (e instanceof FileError) throw new ReadError(e.message);
-        throw e;
-      }
+      const content = runs.text;
+      asOwn(() => writeAtomically(out, content));
       io.err(`wrote ${out}: a ${runs.drive} mm straight drive, spins, and laps of a ${runs.side} mm square; measure them as its comments say and write the results into ${join(dirname(planFile), record)}\n`);
     }
     return 0;
@@ -100,22 +94,20 @@ function calibrate(argv: string[], io: CliIo, readPlan: (file: string) => string
 }
 
 function readRecord(file: string, byDefault: boolean, planFile: string): string {
-  let stat;
+  return asOwn(() => readTextFile(file, MAX_RECORD_CHARS * 4, {
+    missing: `no such file${byDefault ? ` (the record next to the plan). Write the calibration runs with \`veer calibrate ${planFile} --runs calibration.veer\`, drive them, and write what you measure into ${file}; or name the record with \`--record FILE\`` : ''}`,
+    notFile: 'is not a regular file',
+    tooLarge: (bytes) => `too large to be a calibration record (${bytes} bytes; a record is a few dozen lines)`,
+    notUtf8: 'is not UTF-8 text; save the record as UTF-8',
+  }));
+}
+
+/** The shared file helpers' errors, worded as this command's own (`veer calibrate: ...`). */
+function asOwn<T>(f: () => T): T {
   try {
-    stat = statSync(file);
+    return f();
   } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    if (code === 'ENOENT') {
-      throw new ReadError(`${file}: no such file${byDefault ? ` (the record next to the plan). Write the calibration runs with \`veer calibrate ${planFile} --runs calibration.veer\`, drive them, and write what you measure into ${file}; or name the record with \`--record FILE\`` : ''}`);
-    }
-    throw new ReadError(`${file}: cannot read (${code ?? (e as Error).message})`);
-  }
-  if (!stat.isFile()) throw new ReadError(`${file}: is not a regular file`);
-  if (stat.size > MAX_RECORD_CHARS * 4) throw new ReadError(`${file}: too large to be a calibration record (${stat.size} bytes; a record is a few dozen lines)`);
-  try {
-    return new TextDecoder('utf-8', { fatal: true }).decode(readFileSync(file));
-  } catch (e) {
-    if (e instanceof TypeError) throw new ReadError(`${file}: is not UTF-8 text; save the record as UTF-8`);
-    throw new ReadError(`${file}: cannot read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
+    if (e instanceof FileError) throw new ReadError(e.message);
+    throw e;
   }
 }

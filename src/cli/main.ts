@@ -1,5 +1,5 @@
 // The `veer` command: the core's checker and renderer for terminals and CI.
-import { closeSync, existsSync, openSync, readSync, realpathSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
+import { closeSync, existsSync, openSync, readFileSync, readSync, realpathSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import { parseArgs } from 'node:util';
 import { checkPlan, fixPlan, proveFix, renderSvg, targetsCsv, targetsDocument, targetsText, toSarif, ExpressionCache, MAX_PLAN_CHARS, type CheckResult, type Diagnostic, type Fix } from '../core';
@@ -198,6 +198,33 @@ function readPlan(file: string): string {
   }
   if (text.length > MAX_PLAN_CHARS) throw new FileError(`${file}: too large to be a plan (${(text.length / 1e6).toFixed(1)} million characters; the limit is ${(MAX_PLAN_CHARS / 1e6).toFixed(0)} million)`);
   return text;
+}
+
+/** How a text file's refusals end, by what the file should be (`FILE: ...`). */
+export interface FileWords {
+  missing: string;
+  notFile: string;
+  tooLarge: (bytes: number) => string;
+  notUtf8: string;
+}
+
+/** A regular file's UTF-8 text, at most `maxBytes` bytes; throws a FileError worded by `say`. */
+export function readTextFile(file: string, maxBytes: number, say: FileWords): string {
+  let stat;
+  try {
+    stat = statSync(file);
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    throw new FileError(code === 'ENOENT' ? `${file}: ${say.missing}` : `${file}: cannot read (${code ?? (e as Error).message})`);
+  }
+  if (!stat.isFile()) throw new FileError(`${file}: ${say.notFile}`);
+  if (stat.size > maxBytes) throw new FileError(`${file}: ${say.tooLarge(stat.size)}`);
+  try {
+    return new TextDecoder('utf-8', { fatal: true }).decode(readFileSync(file));
+  } catch (e) {
+    if (e instanceof TypeError) throw new FileError(`${file}: ${say.notUtf8}`);
+    throw new FileError(`${file}: cannot read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
+  }
 }
 
 /** Reads at most `limit` bytes, so a file that grows while it is read cannot exhaust memory. */

@@ -1,14 +1,13 @@
 // `veer replay PLAN LOG`: a recorded run laid against its plan, motion by
 // motion (docs/recorded-runs.md), as text or JSON (schema/replay.schema.json),
 // with the robot model fitted to the log. Also reads a log for `veer render --log`.
-import { readFileSync, statSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import { checkPlan, ExpressionCache, type CheckResult, type Pose } from '../core';
 import { replayLog, type MotionComparison, type PoseError, type RecordedOverlay, type Replay } from '../core/record/compare';
 import { LogError, parseSetting, settingsText, type LogSettings } from '../core/record/log';
 import { currentFromSetup, fitFixes, fitRobot, type FitParam, type FitResult } from '../core/record/fit';
 import type { Fix } from '../core';
-import type { CliIo } from './main';
+import { FileError, readTextFile, type CliIo } from './main';
 
 export const REPLAY_HELP = `  veer replay PLAN LOG [--json] [--run NAME] [--columns ROLES] [--time-units U] [--wheel-units U]
         [--yaw-units U] [--yaw-sign S] [--power-units U]
@@ -113,20 +112,21 @@ function replay(argv: string[], io: CliIo, readPlan: (file: string) => string): 
 
 /** Reads a log file (UTF-8 text, at most MAX_LOG_BYTES). */
 export function readLogFile(file: string): string {
-  let stat;
+  return asOwn(() => readTextFile(file, MAX_LOG_BYTES, {
+    missing: 'no such file',
+    notFile: 'is not a regular file; save the log to a file first',
+    tooLarge: (bytes) => `too large for a log (${(bytes / 1e6).toFixed(0)} MB; the limit is ${MAX_LOG_BYTES / 1024 / 1024} MB): cut it to the run`,
+    notUtf8: 'is not UTF-8 text; save the log as UTF-8 (or plain ASCII) text',
+  }));
+}
+
+/** The shared file helpers' errors, worded as this command's own (`veer replay: ...`). */
+function asOwn<T>(f: () => T): T {
   try {
-    stat = statSync(file);
+    return f();
   } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    throw new ReadError(code === 'ENOENT' ? `${file}: no such file` : `${file}: cannot read (${code ?? (e as Error).message})`);
-  }
-  if (!stat.isFile()) throw new ReadError(`${file}: is not a regular file; save the log to a file first`);
-  if (stat.size > MAX_LOG_BYTES) throw new ReadError(`${file}: too large for a log (${(stat.size / 1e6).toFixed(0)} MB; the limit is ${MAX_LOG_BYTES / 1024 / 1024} MB): cut it to the run`);
-  try {
-    return new TextDecoder('utf-8', { fatal: true }).decode(readFileSync(file));
-  } catch (e) {
-    if (e instanceof TypeError) throw new ReadError(`${file}: is not UTF-8 text; save the log as UTF-8 (or plain ASCII) text`);
-    throw new ReadError(`${file}: cannot read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
+    if (e instanceof FileError) throw new ReadError(e.message);
+    throw e;
   }
 }
 
