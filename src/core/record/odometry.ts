@@ -83,17 +83,9 @@ export function reconstruct(run: RecordedRun, start: Pose, robot: OdometryRobot,
   const b = robot.track;
   if (!(b > 0)) throw new LogError('the plan has no track: add a `track` line so the wheels\' travel can be turned into a heading');
   const wheels = alloc(n);
-  wheels.t[0] = s[0].t;
-  wheels.x[0] = start.x;
-  wheels.y[0] = start.y;
-  wheels.heading[0] = start.heading;
+  put(wheels, 0, s[0].t, start.x, start.y, start.heading);
   const fused = run.hasYaw ? alloc(n) : undefined;
-  if (fused) {
-    fused.t[0] = s[0].t;
-    fused.x[0] = start.x;
-    fused.y[0] = start.y;
-    fused.heading[0] = start.heading;
-  }
+  if (fused) put(fused, 0, s[0].t, start.x, start.y, start.heading);
   const zeroings: number[] = [];
   const scale = robot.gyroScale > 0 ? robot.gyroScale : 1;
   let wheelTurn = 0;
@@ -119,10 +111,7 @@ export function reconstruct(run: RecordedRun, start: Pose, robot: OdometryRobot,
     x += sign * Math.sin(mid) * chord;
     y += Math.cos(mid) * chord;
     h += dTheta;
-    wheels.t[i] = s[i].t;
-    wheels.x[i] = x;
-    wheels.y[i] = y;
-    wheels.heading[i] = h / RAD;
+    put(wheels, i, s[i].t, x, y, h / RAD);
     if (fused) {
       const wDeg = dTheta / RAD;
       let dYaw = s[i].yaw! - s[i - 1].yaw!;
@@ -144,10 +133,7 @@ export function reconstruct(run: RecordedRun, start: Pose, robot: OdometryRobot,
       fx += sign * Math.sin(fMid) * fChord;
       fy += Math.cos(fMid) * fChord;
       fh += dYaw;
-      fused.t[i] = s[i].t;
-      fused.x[i] = fx;
-      fused.y[i] = fy;
-      fused.heading[i] = fh;
+      put(fused, i, s[i].t, fx, fy, fh);
     }
   }
   if (fused) checkYaw(run, { wheelTurn, yawTurn, dot, sumW2, sumY2, zeroings: zeroings.length, n });
@@ -176,6 +162,14 @@ function checkYaw(run: RecordedRun, st: { wheelTurn: number; yawTurn: number; do
 
 function alloc(n: number): ReconstructedPath {
   return { t: new Float64Array(n), x: new Float64Array(n), y: new Float64Array(n), heading: new Float64Array(n) };
+}
+
+/** Sets sample `i` of a path. */
+function put(path: ReconstructedPath, i: number, t: number, x: number, y: number, heading: number): void {
+  path.t[i] = t;
+  path.x[i] = x;
+  path.y[i] = y;
+  path.heading[i] = heading;
 }
 
 /** The pose of a path at sample `i`. */
