@@ -8,20 +8,10 @@ import { join } from 'node:path';
 import { checkPlan } from '../src/core';
 import { currentFromSetup, fitRobot } from '../src/core/record/fit';
 import { calibrationSchedule, plannedSchedule, simulatedLog, TRUTH, type PowerStep } from '../test/support/simulatedLog';
-import { median, round } from './stats';
+import { round } from './stats';
+import { medianTime } from './timing';
 
 export const FIT_TARGET_MS = 200;
-
-function medianTime(fn: () => void, warm: number, reps: number): number {
-  for (let i = 0; i < warm; i++) fn();
-  const times: number[] = [];
-  for (let i = 0; i < reps; i++) {
-    const started = performance.now();
-    fn();
-    times.push(performance.now() - started);
-  }
-  return median(times);
-}
 
 /** Median milliseconds of one fit: the demo plan's run, and 100,000 rows. */
 export function fitFigures(): { fit_ms: number; fit_rows: number; fit_100k_ms: number } {

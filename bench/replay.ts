@@ -3,7 +3,8 @@
 // path by the wheels and by wheels plus yaw. Target: at most 300 ms.
 import { readLog } from '../src/core/record/log';
 import { reconstruct } from '../src/core/record/odometry';
-import { median, round } from './stats';
+import { round } from './stats';
+import { medianTime } from './timing';
 
 export const REPLAY_TARGET_MS = 300;
 
@@ -35,12 +36,5 @@ export function replayFigures(): { replay_100k_ms: number } {
     const { run } = readLog(text, 'bench.csv', robot);
     reconstruct(run, { x: 0, y: 0, heading: 0 }, { track: 160, turns: 'clockwise', gyroScale: 1 });
   };
-  for (let i = 0; i < 3; i++) once();
-  const times: number[] = [];
-  for (let i = 0; i < 9; i++) {
-    const started = performance.now();
-    once();
-    times.push(performance.now() - started);
-  }
-  return { replay_100k_ms: round(median(times)) };
+  return { replay_100k_ms: round(medianTime(once, 3, 9)) };
 }

@@ -5,7 +5,8 @@
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { checkPlan, ExpressionCache, fewestResets, MAX_PLAN_CHARS } from '../src/core';
-import { median, round } from './stats';
+import { round } from './stats';
+import { medianTime } from './timing';
 import { propagateRun } from '../src/core/spread/run';
 import { sampleRun } from '../src/core/spread/sample';
 import { replayFigures, REPLAY_TARGET_MS } from './replay';
@@ -50,16 +51,9 @@ function generatePlan(segments: number): string {
   return lines.join('\n');
 }
 
+/** Median milliseconds of `repetitions` runs, after up to 8 warm-up runs. */
 function time(fn: () => void, repetitions: number): number {
-  // Warm-up: the JIT optimises the hot paths only after several runs.
-  for (let i = 0; i < Math.min(repetitions, 8); i++) fn();
-  const times: number[] = [];
-  for (let i = 0; i < repetitions; i++) {
-    const started = performance.now();
-    fn();
-    times.push(performance.now() - started);
-  }
-  return median(times);
+  return medianTime(fn, Math.min(repetitions, 8), repetitions);
 }
 
 function solveTime(segments: number, repetitions: number, simulate = true): number {
