@@ -5,8 +5,9 @@
 // and as edits. The core computes everything; this file only converts.
 import * as vscode from 'vscode';
 import {
-  calibratePlan, parseRecord, planCalibrationHover, recordHover, writeCalibrationRuns, type PlanCalibration,
+  calibratePlan, parseRecord, planCalibrationHover, recordHover, writeCalibrationRuns, type CalibrationRecord, type PlanCalibration,
 } from '../core/calibrate';
+import type { LengthUnitName } from '../core/types';
 import { getAnalysis, isPlan, LANGUAGE_ID, onDidAnalyse } from './analysis';
 import { toCodeAction, toHover, toRange } from './convert';
 
@@ -97,18 +98,14 @@ export function registerCalibration(context: vscode.ExtensionContext): void {
   // The record: its problems, and each line's result.
   context.subscriptions.push(vscode.languages.registerHoverProvider(RECORD_LANGUAGE_ID, {
     async provideHover(document, position) {
-      const record = parseRecord(document.getText());
-      const plan = await planOf(document);
-      const computed = plan && calibratePlan(getAnalysis(plan).result, plan.getText(), document.getText());
-      const info = recordHover(record, computed?.calibration, plan ? getAnalysis(plan).result.setup.lengthUnit : 'mm', { line: position.line, character: position.character });
+      const { record, computed, lengthUnit } = await recordCalibration(document);
+      const info = recordHover(record, computed?.calibration, lengthUnit, { line: position.line, character: position.character });
       return info && toHover(info);
     },
   }));
   const refresh = async (document: vscode.TextDocument) => {
     if (document.languageId !== RECORD_LANGUAGE_ID) return;
-    const plan = await planOf(document);
-    const record = parseRecord(document.getText());
-    const computed = plan && calibratePlan(getAnalysis(plan).result, plan.getText(), document.getText());
+    const { record, computed } = await recordCalibration(document);
     const all = [...record.problems, ...(computed?.calibration?.problems ?? [])];
     problems.set(document.uri, all.map((p) => {
       const d = new vscode.Diagnostic(toRange(p.range), p.message.replace(/^line \d+: /, ''), p.severity === 'error' ? vscode.DiagnosticSeverity.Error : vscode.DiagnosticSeverity.Warning);
@@ -118,7 +115,7 @@ export function registerCalibration(context: vscode.ExtensionContext): void {
   };
   context.subscriptions.push(
     vscode.workspace.onDidOpenTextDocument((d) => void refresh(d)),
-    vscode.workspace.onDidChangeTextDocument((e) => void refresh(e.document)),
+    vscode.workspace.onDidChangeTextDocument((e) => { if (e.contentChanges.length > 0) void refresh(e.document); }),
     vscode.workspace.onDidCloseTextDocument((d) => problems.delete(d.uri)),
     // A changed plan changes what its open record computes (a missing track, another wheel).
     onDidAnalyse((analysis) => {
@@ -128,6 +125,19 @@ export function registerCalibration(context: vscode.ExtensionContext): void {
     }),
   );
   for (const d of vscode.workspace.textDocuments) void refresh(d);
+}
+
+/**
+ * A record document read once, and computed against its plan when it has one. The record is
+ * calibratePlan's own reading, except for a plan without a usable wheel, where that one carries the
+ * plan's problem (the record's lines show their own problems only).
+ */
+async function recordCalibration(document: vscode.TextDocument): Promise<{ record: CalibrationRecord; computed?: PlanCalibration; lengthUnit: LengthUnitName }> {
+  const plan = await planOf(document);
+  const analysis = plan && getAnalysis(plan);
+  const computed = analysis ? calibratePlan(analysis.result, analysis.text, document.getText()) : undefined;
+  const record = computed?.calibration ? computed.record : parseRecord(document.getText());
+  return { record, computed, lengthUnit: analysis ? analysis.result.setup.lengthUnit : 'mm' };
 }
 
 /** The plan a record belongs to (the same name, ending `.veer`), opened without showing it. */
