@@ -1249,9 +1249,9 @@ export function roundForPlan(v: number, se: number, finest = 0): number {
   return Number(r.toPrecision(6));
 }
 
+/** At most 6 significant digits (String(-0) is already '0'). */
 function num(v: number): string {
-  const s = String(Number(v.toPrecision(6)));
-  return s === '-0' ? '0' : s;
+  return String(Number(v.toPrecision(6)));
 }
 
 /** The fitted values as setup-line edits of the plan `text`. */
