@@ -60,6 +60,7 @@ describe('Veer calibration', () => {
     assert.ok(all && all.isPreferred);
     const texts = all.edit.get(plan.uri).map((e) => e.newText);
     assert.ok(texts.includes('59.1 mm'));
+    // By hand: the record's gyro line, 3612 read for 3600 deg: 3612/3600 = 1.00333.
     assert.ok(texts.includes('gyro scale 1.00333\n'));
   });
 
@@ -68,6 +69,7 @@ describe('Veer calibration', () => {
     await vscode.window.showTextDocument(record);
     assert.equal(record.languageId, 'veer-calibration');
     const hovers = await vscode.commands.executeCommand('vscode.executeHoverProvider', record.uri, new vscode.Position(3, 2));
+    // By hand: 3612/3600 = 1.00333; both trials read the same, so the interval is ± 0.
     assert.match(hoverText(hovers), /gyro reads 1\.00333 ± 0\.00000 times the true angle/);
   });
 
