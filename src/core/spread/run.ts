@@ -8,6 +8,7 @@
 // a counterclockwise file's heading covariances change sign on the way out.
 import type { NoiseModel, PathPiece, Pose, Segment, SegmentSpread, TurnDirection } from '../types';
 import { ellipse95, type Cov2 } from './gaussian';
+import { MAX_STEP_MM } from './propagate';
 
 const N = 7;
 const X = 0;
@@ -28,8 +29,6 @@ export const SPREAD_DEFAULTS = {
   squareAcross: 1,
 } as const;
 
-/** The longest travel (mm) propagated in one step. */
-const MAX_STEP_MM = 100;
 
 /** The pose's spread at a segment's end (mm and degrees, field frame, the file's heading sign). */
 export type Spread = SegmentSpread;
@@ -117,7 +116,7 @@ export function propagateRun(segments: readonly Segment[], noise: NoiseModel, tr
     }
     if (seg.kind === 'drive' || seg.kind === 'turn' || seg.kind === 'square') {
       // A gyro motion steers its heading all along: the wheels' random error then moves it along its path only.
-      for (const piece of seg.path) travel(P, piece, compass, track, seg.kind === 'turn' && !gyro, seg.kind !== 'turn' || !gyro, wheel, gyro);
+      for (const piece of seg.path) travel(P, piece, flip, track, seg.kind === 'turn' && !gyro, seg.kind !== 'turn' || !gyro, wheel, gyro);
     }
     // A gyro motion ends on its target as the sensor reads it: the heading's error is the reference's, plus the sensor's noise
     // (a hold keeps correcting it all along the drive).
@@ -139,27 +138,10 @@ export function propagateRun(segments: readonly Segment[], noise: NoiseModel, tr
  * (drives) and the track scale (encoder turns) add their share; each wheel's
  * random error adds k·|travel|.
  */
-function travel(P: Cov, piece: PathPiece, compass: (deg: number) => number, track: number, encoderTurn: boolean, scaled: boolean, k: number,
+function travel(P: Cov, piece: PathPiece, flip: number, track: number, encoderTurn: boolean, scaled: boolean, k: number,
   steered: boolean): void {
-  const h0 = compass(piece.from.heading);
-  let dTheta: number;
-  let ds: number;
-  if (piece.type === 'line') {
-    const len = Math.hypot(piece.to.x - piece.from.x, piece.to.y - piece.from.y);
-    // Forwards or backwards along the heading.
-    const fx = Math.sin(h0);
-    const fy = Math.cos(h0);
-    ds = (piece.to.x - piece.from.x) * fx + (piece.to.y - piece.from.y) * fy >= 0 ? len : -len;
-    dTheta = 0;
-  } else {
-    dTheta = compass(piece.turned);
-    const r = Math.hypot(piece.from.x - piece.center.x, piece.from.y - piece.center.y);
-    // Forwards when the midpoint moves the way the robot faces.
-    const mid = h0 + dTheta / 2;
-    const chordX = piece.to.x - piece.from.x;
-    const chordY = piece.to.y - piece.from.y;
-    ds = r * Math.abs(dTheta) * (chordX * Math.sin(mid) + chordY * Math.cos(mid) >= 0 ? 1 : -1);
-  }
+  const h0 = flip * piece.from.heading * RAD;
+  const { ds, dTheta } = pieceTravel(piece, flip);
   const sL = ds + (dTheta * track) / 2;
   const sR = ds - (dTheta * track) / 2;
   const n = Math.max(1, Math.ceil(Math.max(Math.abs(sL), Math.abs(sR)) / MAX_STEP_MM));
@@ -194,6 +176,23 @@ function travel(P: Cov, piece: PathPiece, compass: (deg: number) => number, trac
     }
     h += turn;
   }
+}
+
+/**
+ * A piece's signed travel of the axle midpoint (mm: forwards when it moves the
+ * way the robot faces) and its turn (compass radians; `flip` -1 turns a
+ * counterclockwise file's headings round).
+ */
+export function pieceTravel(piece: PathPiece, flip: number): { ds: number; dTheta: number } {
+  const h0 = flip * piece.from.heading * RAD;
+  if (piece.type === 'line') {
+    const len = Math.hypot(piece.to.x - piece.from.x, piece.to.y - piece.from.y);
+    return { ds: (piece.to.x - piece.from.x) * Math.sin(h0) + (piece.to.y - piece.from.y) * Math.cos(h0) >= 0 ? len : -len, dTheta: 0 };
+  }
+  const dTheta = flip * piece.turned * RAD;
+  const r = Math.hypot(piece.from.x - piece.center.x, piece.from.y - piece.center.y);
+  const mid = h0 + dTheta / 2;
+  return { ds: r * Math.abs(dTheta) * ((piece.to.x - piece.from.x) * Math.sin(mid) + (piece.to.y - piece.from.y) * Math.cos(mid) >= 0 ? 1 : -1), dTheta };
 }
 
 /** Adds q·g gᵀ to the pose block, for one wheel's random error of variance q with the step's Jacobian column g. */

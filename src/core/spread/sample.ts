@@ -4,7 +4,7 @@
 // seeded so that a run of it can be repeated. It checks the linear model
 // (spread/run.ts) and gives the cloud of end points.
 import type { NoiseModel, PathPiece, Segment, TurnDirection } from '../types';
-import { SPREAD_DEFAULTS, zeroes } from './run';
+import { pieceTravel, SPREAD_DEFAULTS, zeroes } from './run';
 import { propagateTravel, ZERO_COV } from './propagate';
 import { simRecordOf, type SimRecord } from '../sim/run';
 import { restState, simulateMotion, type SimMotion, type SimRobot, type SimState } from '../sim/motion';
@@ -214,19 +214,6 @@ function wheelFactor(seg: Segment, track: number, k: number, flip: number): Floa
     ? [along.xx, along.xy, 0, along.xy, along.yy, 0, 0, 0, 0]
     : [c.xx, c.xy, flip * c.xh / RAD, c.xy, c.yy, flip * c.yh / RAD, flip * c.xh / RAD, flip * c.yh / RAD, c.hh / (RAD * RAD)];
   return cholesky3(m);
-}
-
-/** A piece's signed travel of the axle midpoint (mm) and its turn (compass radians). */
-function pieceTravel(piece: PathPiece, flip: number): { ds: number; dTheta: number } {
-  const h0 = flip * piece.from.heading * RAD;
-  if (piece.type === 'line') {
-    const len = Math.hypot(piece.to.x - piece.from.x, piece.to.y - piece.from.y);
-    return { ds: (piece.to.x - piece.from.x) * Math.sin(h0) + (piece.to.y - piece.from.y) * Math.cos(h0) >= 0 ? len : -len, dTheta: 0 };
-  }
-  const dTheta = flip * piece.turned * RAD;
-  const r = Math.hypot(piece.from.x - piece.center.x, piece.from.y - piece.center.y);
-  const mid = h0 + dTheta / 2;
-  return { ds: r * Math.abs(dTheta) * ((piece.to.x - piece.from.x) * Math.sin(mid) + (piece.to.y - piece.from.y) * Math.cos(mid) >= 0 ? 1 : -1), dTheta };
 }
 
 /** The lower-triangular L with L Lᵀ = m (3×3, row-major), zero columns where m is singular there. */
