@@ -168,6 +168,7 @@ export function replayJson(planFile: string, logFile: string, r: Replay, fit: Fi
     run_index: c.runIndex,
     rows: r.log.run.samples.length,
     aligned_by: c.alignedBy,
+    ...(c.lineShift ? { line_shift: c.lineShift } : {}),
     ...(c.timeOffset !== undefined ? { time_offset_s: r3(c.timeOffset), time_scale: r3(c.timeScale ?? 1) } : {}),
     reconstruction: c.reconstruction,
     settings: settingsText(r.log.settings),
@@ -242,7 +243,8 @@ function timeText(m: MotionComparison): string {
 export function replayText(planFile: string, logFile: string, r: Replay, fit: FitResult, edits: Fix[] = []): string {
   const c = r.comparison;
   const lines: string[] = [];
-  const how = c.alignedBy === 'line' ? 'motions found by the log\'s line column' : `motions found by aligning times (the run starts ${f(c.timeOffset ?? 0, 2)} s into the log, its times stretched ${f(c.timeScale ?? 1, 3)} times to the log's)`;
+  const shifted = c.lineShift ? ` (read ${Math.abs(c.lineShift)} line${Math.abs(c.lineShift) === 1 ? '' : 's'} ${c.lineShift > 0 ? 'further down' : 'further up'}: the plan's motions have moved since the log was recorded)` : '';
+  const how = c.alignedBy === 'line' ? `motions found by the log's line column${shifted}` : `motions found by aligning times (the run starts ${f(c.timeOffset ?? 0, 2)} s into the log, its times stretched ${f(c.timeScale ?? 1, 3)} times to the log's)`;
   lines.push(`${planFile}: run "${c.name}" against ${logFile}: ${r.log.run.samples.length} rows, ${f(c.recordedDuration, 2)} s; ${how}; the path from ${c.reconstruction === 'wheels' ? 'the wheels alone' : 'the wheels and the yaw'}`);
   for (const n of r.log.notes) lines.push(`  note: ${n}`);
   if (r.reconstruction.zeroings.length) lines.push(`  note: the yaw was zeroed ${r.reconstruction.zeroings.length} time${r.reconstruction.zeroings.length === 1 ? '' : 's'} (a jump of the reading while the wheels did not turn)`);

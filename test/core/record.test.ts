@@ -266,6 +266,20 @@ describe('recorded runs: comparison with the plan', () => {
     const early = replayLog(result, cut, 'cut.csv').comparison;
     assert.deepEqual(early.motions.filter((m) => m.recorded).map((m) => m.line), [16, 17, 18]);
   });
+
+  it('reads the line column shifted when setup lines were added above the run (as the fitted values\' edits do), and says so', () => {
+    // One setup line inserted before the run moves every motion one line down: the log's lines 16 to 19 (the demo's
+    // drive, turn, drive, turn) now name the start, drive, turn and drive. The shift that makes every named line a
+    // moving motion is +1, and the comparison is then the same as against the unedited plan.
+    const lines = planText.split('\n');
+    const at = lines.findIndex((l) => l.startsWith('run '));
+    const edited = [...lines.slice(0, at), 'gyro delay 10 ms', ...lines.slice(at)].join('\n');
+    const original = replayLog(result, demo.csv, 'demo.csv').comparison;
+    assert.equal(original.lineShift, undefined);
+    const moved = replayLog(checkPlan(edited), demo.csv, 'demo.csv').comparison;
+    assert.equal(moved.lineShift, 1);
+    assert.deepEqual(moved.motions.filter((m) => m.recorded).map((m) => m.line), original.motions.filter((m) => m.recorded).map((m) => m.line + 1));
+  });
 });
 
 describe('recorded runs: reading numbers', () => {

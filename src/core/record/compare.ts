@@ -53,6 +53,12 @@ export interface RunComparison {
   name: string;
   /** How motions were found in the log. */
   alignedBy: 'line' | 'time';
+  /**
+   * With `line`: how many lines the plan's motions moved since the log was
+   * recorded (lines added, +, or removed, −, above them; the log's line
+   * column is read shifted by it). Absent when they did not move.
+   */
+  lineShift?: number;
   /** With `time`: log time = timeOffset + timeScale × the run's (predicted) time, s. */
   timeOffset?: number;
   timeScale?: number;
@@ -134,9 +140,10 @@ function zeroHints(plan: RunResult, run: RecordedRun): number[] {
   const zeroing = plan.segments.map((x, i) => (x.kind === 'reset' || x.zeroesYaw ? i : -1)).filter((i) => i >= 0);
   const hints: number[] = [];
   const s = run.samples;
+  const shift = lineShiftOf(plan, run);
   let next = 0;
   for (let i = 0; i < s.length && next < zeroing.length; i++) {
-    const o = s[i].line === undefined ? undefined : order.get(s[i].line!);
+    const o = s[i].line === undefined ? undefined : order.get(s[i].line! + shift);
     if (o === undefined) continue;
     if (o >= zeroing[next]) {
       hints.push(i);
@@ -156,6 +163,30 @@ function pickRun(result: CheckResult, run: RecordedRun): number {
     if (i >= 0) return i;
   }
   throw new LogError(`the plan has ${result.runs.length} runs (${result.runs.map((r) => `"${r.name}"`).join(', ')}): say which one the log recorded (\`--run NAME\`)`);
+}
+
+/** How far the log's line column may be off the plan's lines (setup lines added or removed since it was recorded). */
+const MAX_LINE_SHIFT = 50;
+const MOVING: ReadonlySet<string> = new Set(['drive', 'turn', 'square', 'wait']);
+
+/**
+ * The shift that makes every line the log names a moving motion of the run
+ * (drive, turn, square, wait): 0 when the lines have not moved (or when no
+ * shift explains them: the caller's own checks then say what is wrong), else
+ * the smallest that does. A robot's code names the motion it is running, so a
+ * log that names the run's `start`, a mark or a setup line was recorded
+ * against other line numbers.
+ */
+function lineShiftOf(plan: RunResult, run: RecordedRun): number {
+  const named = new Set<number>();
+  for (const s of run.samples) if (s.line !== undefined && s.line !== plan.line + 1) named.add(s.line);
+  const moving = new Set(plan.segments.filter((s) => MOVING.has(s.kind)).map((s) => s.line + 1));
+  const fits = (k: number) => [...named].every((l) => moving.has(l + k));
+  if (named.size === 0 || fits(0)) return 0;
+  for (let d = 1; d <= MAX_LINE_SHIFT; d++) {
+    for (const k of [d, -d]) if (fits(k)) return k;
+  }
+  return 0;
 }
 
 /** The motions that take part in a comparison (a start has no motion; marks and resets take no time). */
@@ -181,8 +212,10 @@ export function compareRun(plan: RunResult, runIndex: number, run: RecordedRun, 
   let alignedBy: 'line' | 'time';
   let timeOffset: number | undefined;
   let timeScale: number | undefined;
+  let lineShift = 0;
   if (run.hasLine) {
     alignedBy = 'line';
+    lineShift = lineShiftOf(plan, run);
     const byLine = new Map<number, Segment>();
     for (const seg of plan.segments) if (!byLine.has(seg.line + 1)) byLine.set(seg.line + 1, seg);
     const lines = plan.segments.map((x) => x.line + 1);
@@ -191,8 +224,9 @@ export function compareRun(plan: RunResult, runIndex: number, run: RecordedRun, 
     let lastOrder = -1;
     const order = new Map(plan.segments.map((x, i) => [x, i]));
     for (let i = 0; i < n; i++) {
-      const l = s[i].line;
-      if (l === undefined) continue;
+      const logged = s[i].line;
+      if (logged === undefined) continue;
+      const l = logged + lineShift;
       const seg = byLine.get(l);
       if (!seg) {
         if (l === plan.line + 1) continue; // the `run` line itself: before the first motion
@@ -302,7 +336,7 @@ export function compareRun(plan: RunResult, runIndex: number, run: RecordedRun, 
     throw new LogError(`column ${run.columns?.left ?? '?'} (left) and column ${run.columns?.right ?? '?'} (right): over the motions it completes, the log drives ${Math.round(checkedRecorded)} mm where the plan drives ${Math.round(checkedPlanned)} mm (${ratio.toFixed(2)} times): check the wheel units (deg, rot, counts:N, mm) and the plan's wheel diameter, or is this a log of another plan?`, undefined, run.columns?.left);
   }
   return {
-    runIndex, name: plan.name, alignedBy, ...(timeOffset !== undefined ? { timeOffset, timeScale } : {}),
+    runIndex, name: plan.name, alignedBy, ...(lineShift ? { lineShift } : {}), ...(timeOffset !== undefined ? { timeOffset, timeScale } : {}),
     reconstruction: rec.fused ? 'wheels+yaw' : 'wheels',
     motions: out,
     recordedDuration: s[n - 1].t,
