@@ -76,10 +76,10 @@ describe('sampling worker', function () {
     const took = performance.now() - began;
     clearInterval(timer);
     assert.notEqual(reply, 'cancelled');
-    // 100 ms is the delay a person notices (Nielsen, Usability Engineering, 1993, ch. 5: 0.1 s feels instantaneous).
-    // Sampling 40,000 runs takes a second or more; in the calling thread it would stop the timer for all of it.
-    assert.ok(took > 1000, `sampling took ${took.toFixed(0)} ms: too short to show anything`);
-    assert.ok(worst < 100, `the timer stopped for ${worst.toFixed(0)} ms while sampling took ${took.toFixed(0)} ms`);
+    // In the calling thread the sampling would stop the timer for all of its time; in a worker the timer's longest
+    // pause is a small part of it. A relation, not a time limit, so that a busy machine cannot fail it (the speed
+    // itself is the benchmark's: mc_1k_x_100_ms).
+    assert.ok(worst < took / 4, `the timer stopped for ${worst.toFixed(0)} ms while sampling took ${took.toFixed(0)} ms`);
   });
 
   it('a text with no runs gives an empty cloud, not a failure', async () => {
